@@ -1,0 +1,148 @@
+//! The one analysis entry point shared by the command-line tool and the language server:
+//! source text in; syntax trees, symbols, diagnostics, network and solution out.
+
+use crate::diagnostic::Diagnostic;
+use crate::elaborate::{check_buildup_kinds, elaborate};
+use crate::elements::Material;
+use crate::limits::LimitSpec;
+use crate::network::Network;
+use crate::parser::parse;
+use crate::results::Solution;
+use crate::solve::{solve_steady, SolveError};
+use crate::source::{SourceLoader, Sources};
+use crate::span::{FileId, Span};
+use crate::symbols::SymbolTable;
+use crate::syntax::{ItemKind, Module};
+use crate::units::Quantity;
+
+/// Options of one analysis.
+#[derive(Clone, Debug, Default)]
+pub struct Options {
+    /// Stop after checking (no solve), as `caloris check` and the fast path of the editor do.
+    pub check_only: bool,
+    /// Parameter values that replace the model's own (studies and cases).
+    pub overrides: Vec<(String, Quantity)>,
+}
+
+/// Everything known about a model after analysis.
+pub struct Analysis {
+    pub sources: Sources,
+    /// Parsed files; index 0 is the root model.
+    pub modules: Vec<(FileId, Module)>,
+    pub diagnostics: Vec<Diagnostic>,
+    pub symbols: SymbolTable,
+    pub title: Option<String>,
+    pub network: Network,
+    pub materials: Vec<Material>,
+    pub limits: Vec<LimitSpec>,
+    pub params: Vec<(String, Option<Quantity>)>,
+    /// Present when the model has no errors and the solve succeeded.
+    pub solution: Option<Solution>,
+}
+
+impl Analysis {
+    pub fn has_errors(&self) -> bool {
+        self.diagnostics.iter().any(|d| d.is_error())
+    }
+    pub fn root(&self) -> &Module {
+        &self.modules[0].1
+    }
+}
+
+/// Analyse a model given its name and text. Imports are read through `loader`.
+pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Options) -> Analysis {
+    let mut sources = Sources::default();
+    let root = sources.add(name, text);
+    let mut diagnostics = Vec::new();
+    let mut modules = Vec::new();
+    load_module(root, &mut sources, loader, &mut modules, &mut diagnostics, &mut vec![name.to_string()]);
+    let module_refs: Vec<&Module> = modules.iter().map(|(_, m)| m).collect();
+    for m in &module_refs {
+        diagnostics.extend(check_buildup_kinds(m));
+    }
+    let el = elaborate(&module_refs, &sources, &options.overrides);
+    diagnostics.extend(el.diags);
+    diagnostics.sort_by_key(|d| (d.primary.span.file, d.primary.span.start, d.severity));
+    diagnostics.dedup_by(|a, b| a.primary.span == b.primary.span && a.message == b.message);
+    let mut analysis = Analysis {
+        sources,
+        modules,
+        diagnostics,
+        symbols: el.symbols,
+        title: el.title,
+        network: el.network,
+        materials: el.materials,
+        limits: el.limits,
+        params: el.params,
+        solution: None,
+    };
+    if !analysis.has_errors() && !options.check_only {
+        match solve_steady(&analysis.network) {
+            Ok(t) => analysis.solution = Some(Solution::new(&analysis.network, t, &analysis.limits)),
+            Err(e) => {
+                let span = analysis.network.nodes.first().map(|n| n.span).unwrap_or_default();
+                let msg = match e {
+                    SolveError::NotPositiveDefinite => "the network equations could not be solved (matrix not positive definite)",
+                    SolveError::NonFinite => "the solve produced values that are not finite numbers",
+                };
+                analysis.diagnostics.push(
+                    Diagnostic::error("E501", msg, span)
+                        .with_label("while solving this model")
+                        .with_help("check for conductances that are extremely small or large compared with the rest of the network"),
+                );
+            }
+        }
+    }
+    analysis
+}
+
+/// Parse a file and, depth first, the files it imports. `stack` holds the chain of files being
+/// imported, to report cycles.
+fn load_module(
+    id: FileId,
+    sources: &mut Sources,
+    loader: &dyn SourceLoader,
+    modules: &mut Vec<(FileId, Module)>,
+    diags: &mut Vec<Diagnostic>,
+    stack: &mut Vec<String>,
+) {
+    let (module, parse_diags) = parse(sources.text(id), id);
+    diags.extend(parse_diags);
+    let imports: Vec<(String, Span)> = module
+        .items
+        .iter()
+        .filter_map(|i| match &i.kind {
+            ItemKind::Import { path, path_span } => Some((path.clone(), *path_span)),
+            _ => None,
+        })
+        .collect();
+    modules.push((id, module));
+    let from = sources.name(id).to_string();
+    for (path, span) in imports {
+        match loader.load(&from, &path) {
+            Ok((name, text)) => {
+                if stack.contains(&name) {
+                    let chain = stack.iter().chain(std::iter::once(&name)).cloned().collect::<Vec<_>>().join(" -> ");
+                    diags.push(
+                        Diagnostic::error("E602", format!("import cycle: {chain}"), span)
+                            .with_label("this import leads back to a file that is being imported")
+                            .with_help("move the shared declarations into a file that imports neither"),
+                    );
+                    continue;
+                }
+                if sources.find(&name).is_some() {
+                    continue; // already imported through another path
+                }
+                let child = sources.add(name.clone(), text);
+                stack.push(name);
+                load_module(child, sources, loader, modules, diags, stack);
+                stack.pop();
+            }
+            Err(msg) => diags.push(
+                Diagnostic::error("E601", format!("cannot import `{path}`: {msg}"), span)
+                    .with_label("this file cannot be read")
+                    .with_help("paths are relative to the importing file and must stay inside the project"),
+            ),
+        }
+    }
+}

@@ -1,0 +1,101 @@
+//! The one diagnostic type every phase produces, and its terminal rendering.
+//!
+//! The CLI renders with ariadne; the language server converts the same value (secondary labels
+//! become related information). Codes are stable so docs and tests can name them; the full list
+//! is in `docs/diagnostics.md`.
+
+use crate::span::Span;
+use serde::Serialize;
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Severity {
+    Error,
+    Warning,
+    Note,
+}
+
+/// A labelled place in a source file.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Label {
+    pub span: Span,
+    pub message: String,
+}
+
+/// An error, warning or note about a model, with the place it concerns and how to fix it.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Diagnostic {
+    /// Stable code such as `E201`; errors start with `E`, warnings with `W`.
+    pub code: &'static str,
+    pub severity: Severity,
+    pub message: String,
+    /// The main place; its message says what is wrong there.
+    pub primary: Label,
+    /// Other places that explain the error (the first declaration of a duplicate, ...).
+    pub secondary: Vec<Label>,
+    /// How to fix it, in the analyst's words.
+    pub help: Option<String>,
+    /// A mechanical fix an editor can apply: replace the text at `span` with `replacement`.
+    pub fix: Option<Fix>,
+}
+
+/// A text edit that resolves a diagnostic ("did you mean", unit spelling).
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Fix {
+    pub title: String,
+    pub span: Span,
+    pub replacement: String,
+}
+
+impl Diagnostic {
+    pub fn error(code: &'static str, message: impl Into<String>, span: Span) -> Diagnostic {
+        Diagnostic::new(Severity::Error, code, message, span)
+    }
+    pub fn warning(code: &'static str, message: impl Into<String>, span: Span) -> Diagnostic {
+        Diagnostic::new(Severity::Warning, code, message, span)
+    }
+    fn new(severity: Severity, code: &'static str, message: impl Into<String>, span: Span) -> Self {
+        Diagnostic {
+            code,
+            severity,
+            message: message.into(),
+            primary: Label { span, message: String::new() },
+            secondary: Vec::new(),
+            help: None,
+            fix: None,
+        }
+    }
+    /// Text shown at the primary place (under the carets).
+    pub fn with_label(mut self, message: impl Into<String>) -> Self {
+        self.primary.message = message.into();
+        self
+    }
+    pub fn with_secondary(mut self, span: Span, message: impl Into<String>) -> Self {
+        self.secondary.push(Label { span, message: message.into() });
+        self
+    }
+    pub fn with_help(mut self, help: impl Into<String>) -> Self {
+        self.help = Some(help.into());
+        self
+    }
+    pub fn with_fix(mut self, title: impl Into<String>, span: Span, replacement: impl Into<String>) -> Self {
+        self.fix = Some(Fix { title: title.into(), span, replacement: replacement.into() });
+        self
+    }
+    pub fn is_error(&self) -> bool {
+        self.severity == Severity::Error
+    }
+}
+
+/// "did you mean `x`?" for the closest candidate within a small edit distance.
+pub fn did_you_mean<'a>(name: &str, candidates: impl IntoIterator<Item = &'a str>) -> Option<&'a str> {
+    let mut best: Option<(f64, &str)> = None;
+    for c in candidates {
+        let score = strsim::jaro_winkler(name, c);
+        let close = score > 0.8 || strsim::levenshtein(name, c) <= name.len().min(c.len()) / 3 + 1;
+        if close && c != name && best.is_none_or(|(s, _)| score > s) {
+            best = Some((score, c));
+        }
+    }
+    best.map(|(_, c)| c)
+}

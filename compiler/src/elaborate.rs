@@ -1,0 +1,710 @@
+//! Elaboration: from checked declarations to a network in SI units.
+//!
+//! Names are collected first (one namespace per model, duplicates reported), parameters are
+//! evaluated on demand, then materials, nodes and links are checked argument by argument, and
+//! build-up uses are expanded into chains of element links with named interface nodes.
+
+use crate::diagnostic::{did_you_mean, Diagnostic};
+use crate::elements::{self, ArgType, ArgValue, Args, ElementKind, Material};
+use crate::eval::{expect_dim, expect_point, Evaluator, NameKinds};
+use crate::limits::{self, LimitSpec};
+use crate::network::{Group, Link, LinkLaw, Network, Node, NodeId};
+use crate::source::Sources;
+use crate::span::Span;
+use crate::symbols::{Symbol, SymbolKind, SymbolTable};
+use crate::syntax::*;
+use crate::units::Dim;
+use std::collections::HashMap;
+
+/// Everything elaboration produces. `network` is complete only when `diags` has no error.
+pub struct Elaborated {
+    pub network: Network,
+    pub materials: Vec<Material>,
+    pub limits: Vec<LimitSpec>,
+    pub symbols: SymbolTable,
+    /// Parameter values in SI, for hover.
+    pub params: Vec<(String, Option<crate::units::Quantity>)>,
+    pub title: Option<String>,
+    pub diags: Vec<Diagnostic>,
+}
+
+struct Kinds<'a>(&'a SymbolTable);
+impl NameKinds for Kinds<'_> {
+    fn kind_of(&self, name: &str) -> Option<&'static str> {
+        self.0.get(name).map(|s| s.kind.article())
+    }
+}
+
+/// Range practitioners cite for solid building and engineering materials (common practice).
+const K_TYPICAL: (f64, f64) = (0.01, 1000.0);
+
+/// Elaborate parsed modules (the root first, then imports) into a network.
+pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, crate::units::Quantity)]) -> Elaborated {
+    let mut diags = Vec::new();
+    let mut symbols = SymbolTable::default();
+    let mut title = None;
+    let mut items: Vec<&Item> = Vec::new();
+    for (i, m) in modules.iter().enumerate() {
+        for item in &m.items {
+            if i > 0 && matches!(item.kind, ItemKind::Node { .. } | ItemKind::Link { .. } | ItemKind::Limit { .. } | ItemKind::Title { .. }) {
+                diags.push(
+                    Diagnostic::warning("W105", "an imported file's nodes, links, limits and title are not used", item.span)
+                        .with_label("ignored in the importing model")
+                        .with_help("imports bring in materials, parameters and build-ups; move this declaration into the model that uses it"),
+                );
+                continue;
+            }
+            items.push(item);
+        }
+    }
+    // 1. Names.
+    let mut by_name: HashMap<&str, &Item> = HashMap::new();
+    for item in &items {
+        if let ItemKind::Title { text } = &item.kind {
+            title = Some(text.clone());
+        }
+        let Some(name) = item.name() else { continue };
+        if let Some(first) = by_name.get(name.name.as_str()) {
+            let first_name = first.name().map(|n| n.span).unwrap_or(first.span);
+            diags.push(
+                Diagnostic::error("E201", format!("`{}` is declared twice", name.name), name.span)
+                    .with_label("declared again here")
+                    .with_secondary(first_name, "first declared here")
+                    .with_help("every parameter, material, node, link, build-up and limit needs its own name; rename one of them"),
+            );
+            continue;
+        }
+        by_name.insert(&name.name, item);
+        let kind = match item.kind {
+            ItemKind::Param { .. } => SymbolKind::Param,
+            ItemKind::Material { .. } => SymbolKind::Material,
+            ItemKind::Node { .. } => SymbolKind::Node,
+            ItemKind::Link { .. } => SymbolKind::Link,
+            ItemKind::Buildup { .. } => SymbolKind::Buildup,
+            _ => SymbolKind::Limit,
+        };
+        symbols.symbols.push(Symbol { name: name.name.clone(), kind, def: name.span, decl: item.span, refs: Vec::new(), parent: None });
+        if let ItemKind::Buildup { elements, .. } = &item.kind {
+            let mut seen: HashMap<&str, Span> = HashMap::new();
+            for e in elements {
+                if let Some(prev) = seen.insert(&e.name.name, e.name.span) {
+                    diags.push(
+                        Diagnostic::error("E201", format!("build-up `{}` has two elements named `{}`", name.name, e.name.name), e.name.span)
+                            .with_label("second element with this name")
+                            .with_secondary(prev, "first one here")
+                            .with_help("give each element its own name; it names the interface node after it"),
+                    );
+                }
+                symbols.symbols.push(Symbol {
+                    name: e.name.name.clone(),
+                    kind: SymbolKind::BuildupElement,
+                    def: e.name.span,
+                    decl: e.span,
+                    refs: Vec::new(),
+                    parent: Some(name.name.clone()),
+                });
+            }
+        }
+    }
+
+    let params = items.iter().filter_map(|i| match &i.kind {
+        ItemKind::Param { name, value } => Some((name, value)),
+        _ => None,
+    });
+    let mut ev = Evaluator::new(params);
+    for (n, q) in overrides {
+        ev.set_override(n, *q);
+    }
+    let mut cx = Cx { ev, symbols, sources, diags, materials: Vec::new(), material_index: HashMap::new() };
+
+    // 2. Parameters (all of them, so errors in unused ones are reported too).
+    let mut param_values = Vec::new();
+    for item in &items {
+        if let ItemKind::Param { name, .. } = &item.kind {
+            let kinds = Kinds(&cx.symbols);
+            let v = cx.ev.param(&name.name, &kinds);
+            param_values.push((name.name.clone(), v));
+        }
+    }
+
+    // 3. Materials.
+    for item in &items {
+        if let ItemKind::Material { name, args } = &item.kind {
+            cx.material(name, args);
+        }
+    }
+
+    // 4. Nodes.
+    let mut net = Network::default();
+    for item in &items {
+        if let ItemKind::Node { name, args } = &item.kind {
+            let (fixed, load) = cx.node_args(name, args);
+            net.nodes.push(Node { name: name.name.clone(), span: name.span, fixed, load, generated: false });
+        }
+    }
+
+    // 5. Links: create generated interface nodes first so any link may end on one.
+    let buildups: HashMap<&str, &Vec<BuildupElement>> = items
+        .iter()
+        .filter_map(|i| match &i.kind {
+            ItemKind::Buildup { name, elements } => Some((name.name.as_str(), elements)),
+            _ => None,
+        })
+        .collect();
+    for item in &items {
+        if let ItemKind::Link { name, element, .. } = &item.kind {
+            if let Some(els) = buildups.get(element.kind.name.as_str()) {
+                for e in els.iter().take(els.len().saturating_sub(1)) {
+                    let gen = format!("{}.{}", name.name, e.name.name);
+                    net.nodes.push(Node { name: gen.clone(), span: e.name.span, fixed: None, load: 0.0, generated: true });
+                    cx.symbols.symbols.push(Symbol {
+                        name: gen,
+                        kind: SymbolKind::GeneratedNode,
+                        def: name.span,
+                        decl: item.span,
+                        refs: Vec::new(),
+                        parent: Some(name.name.clone()),
+                    });
+                }
+            }
+        }
+    }
+    let node_index: HashMap<String, NodeId> = net.nodes.iter().enumerate().map(|(i, n)| (n.name.clone(), i)).collect();
+    let mut used = vec![false; net.nodes.len()];
+    for item in &items {
+        let ItemKind::Link { name, from, to, element } = &item.kind else { continue };
+        let a = cx.node_ref(from, &node_index, &buildups);
+        let b = cx.node_ref(to, &node_index, &buildups);
+        if let (Some(a), Some(b)) = (a, b) {
+            if a == b {
+                cx.diags.push(
+                    Diagnostic::error("E208", format!("link `{}` joins node `{}` to itself", name.name, from.name), to.span)
+                        .with_label("same node at both ends")
+                        .with_secondary(from.span, "first end")
+                        .with_help("a link carries heat between two different nodes; check the node names"),
+                );
+                continue;
+            }
+        }
+        if let Some(els) = buildups.get(element.kind.name.as_str()) {
+            cx.symbols.add_ref(&element.kind.name, element.kind.span);
+            cx.buildup_link(&mut net, &node_index, name, a, b, element, els);
+        } else if let Some(kind) = elements::lookup(&element.kind.name) {
+            let built = cx.args(kind, &element.args, element.span, None).and_then(|args| match kind.build(&args) {
+                Ok(b) => Some(b),
+                Err(d) => {
+                    cx.diags.push(d);
+                    None
+                }
+            });
+            if let (Some(a), Some(b), Some(built)) = (a, b, built) {
+                net.links.push(Link {
+                    name: name.name.clone(),
+                    span: item.span,
+                    from: a,
+                    to: b,
+                    law: LinkLaw::Linear { conductance: built.conductance },
+                    area: built.area,
+                    kind: kind.name().to_string(),
+                    formula: built.formula,
+                    group: None,
+                });
+            }
+        } else {
+            cx.unknown_kind(&element.kind, &buildups);
+        }
+        for id in [a, b].into_iter().flatten() {
+            used[id] = true;
+        }
+    }
+    for l in &net.links {
+        used[l.from] = true;
+        used[l.to] = true;
+    }
+
+    // 6. Limits.
+    let mut limit_specs = Vec::new();
+    for item in &items {
+        if let ItemKind::Limit { name, measure, subject, op, value } = &item.kind {
+            let kinds = Kinds(&cx.symbols);
+            let q = cx.ev.eval(value, &kinds);
+            match limits::check_limit(name, measure, subject, *op, value, q, &net, &mut cx.symbols, sources) {
+                Ok(spec) => limit_specs.push(spec),
+                Err(Some(d)) => cx.diags.push(d),
+                Err(None) => {}
+            }
+        }
+    }
+
+    // 7. Connectivity, only when the network is otherwise sound (an unknown node name would
+    // otherwise show up twice).
+    let has_errors = cx.diags.iter().chain(cx.ev.diags.iter()).any(|d| d.is_error());
+    if !has_errors {
+        for (i, n) in net.nodes.iter().enumerate() {
+            if !used[i] && n.fixed.is_some() {
+                cx.diags.push(
+                    Diagnostic::warning("W102", format!("boundary node `{}` is not connected to anything", n.name), n.span)
+                        .with_label("no link ends here")
+                        .with_help("link it to the network or remove it"),
+                );
+            }
+        }
+        if !net.nodes.is_empty() && net.nodes.iter().all(|n| n.fixed.is_none()) {
+            let first = &net.nodes[0];
+            cx.diags.push(
+                Diagnostic::error("E302", "the model has no fixed temperature", first.span)
+                    .with_label("no node is held at a boundary temperature")
+                    .with_help("fix at least one node, e.g. `node outdoor (fixed = -5 °C)`"),
+            );
+        } else {
+            for group in net.floating_groups() {
+                cx.diags.push(floating_error(&net, &group));
+            }
+        }
+    }
+    for (name, span) in std::mem::take(&mut cx.ev.references) {
+        cx.symbols.add_ref(&name, span);
+    }
+    let mut diags = cx.diags;
+    diags.extend(cx.ev.diags);
+    Elaborated { network: net, materials: cx.materials, limits: limit_specs, symbols: cx.symbols, params: param_values, title, diags }
+}
+
+fn floating_error(net: &Network, group: &[NodeId]) -> Diagnostic {
+    let names: Vec<&str> = group.iter().map(|&i| net.nodes[i].name.as_str()).collect();
+    let shown = if names.len() > 6 { format!("{}, … ({} nodes)", names[..6].join(", "), names.len()) } else { names.join(", ") };
+    let first = &net.nodes[group[0]];
+    let mut d = Diagnostic::error(
+        "E301",
+        format!("no path to any boundary temperature from: {shown}"),
+        first.span,
+    )
+    .with_label("floating: its temperature is undetermined")
+    .with_help("link these nodes to a node with a fixed temperature; without one the network equations are singular");
+    for &i in group.iter().skip(1).take(5) {
+        d = d.with_secondary(net.nodes[i].span, format!("`{}` is in the same floating group", net.nodes[i].name));
+    }
+    d
+}
+
+struct Cx<'a> {
+    ev: Evaluator<'a>,
+    symbols: SymbolTable,
+    sources: &'a Sources,
+    diags: Vec<Diagnostic>,
+    materials: Vec<Material>,
+    material_index: HashMap<String, usize>,
+}
+
+impl<'a> Cx<'a> {
+    fn text(&self, span: Span) -> &str {
+        self.sources.text(span.file)
+    }
+
+    /// Evaluate an argument value and check its dimension.
+    fn quantity(&mut self, e: &Expr, dim: Dim, what: &str) -> Option<crate::units::Quantity> {
+        let kinds = Kinds(&self.symbols);
+        let q = self.ev.eval(e, &kinds)?;
+        let src = self.sources.text(e.span.file);
+        if let Err(d) = expect_dim(q, dim, what, e, src) {
+            self.diags.push(d);
+            return None;
+        }
+        Some(q)
+    }
+
+    fn positive(&mut self, v: f64, e: &Expr, what: &str) -> bool {
+        if v > 0.0 && v.is_finite() {
+            return true;
+        }
+        let written = self.text(e.span).get(e.span.range()).unwrap_or("").to_string();
+        self.diags.push(
+            Diagnostic::error("E202", format!("{what} must be greater than zero; `{written}` is not"), e.span)
+                .with_label(if v == 0.0 { "zero" } else { "not positive" })
+                .with_help(format!("give {what} a positive value")),
+        );
+        false
+    }
+
+    fn conductivity_warning(&mut self, k: f64, e: &Expr) {
+        if k < K_TYPICAL.0 || k > K_TYPICAL.1 {
+            self.diags.push(
+                Diagnostic::warning("W101", format!("k = {} lies outside the usual 0.01–1000 W/(m·K)", elements::show(k, Dim::CONDUCTIVITY)), e.span)
+                    .with_label("unusual conductivity")
+                    .with_help("check the value and its unit (a common slip is W/(m·K) vs mW/(m·K)); the range is common practice for solids"),
+            );
+        }
+    }
+
+    fn material(&mut self, name: &Ident, args: &[Arg]) {
+        let mut k = None;
+        let mut density = None;
+        let mut specific_heat = None;
+        let mut seen: HashMap<&str, Span> = HashMap::new();
+        for arg in args {
+            let Some(an) = &arg.name else {
+                self.diags.push(
+                    Diagnostic::error("E204", "material properties are written `name = value`", arg.span)
+                        .with_label("property without a name")
+                        .with_help("write e.g. `k = 0.04 W/(m*K)`"),
+                );
+                continue;
+            };
+            if let Some(prev) = seen.insert(&an.name, an.span) {
+                self.duplicate_arg(an, prev);
+                continue;
+            }
+            match an.name.as_str() {
+                "k" => {
+                    if let Some(q) = self.quantity(&arg.value, Dim::CONDUCTIVITY, "k") {
+                        if self.positive(q.value, &arg.value, "k") {
+                            self.conductivity_warning(q.value, &arg.value);
+                            k = Some(q.value);
+                        }
+                    }
+                }
+                "density" => density = self.quantity(&arg.value, Dim::DENSITY, "density").filter(|q| self.positive(q.value, &arg.value, "density")).map(|q| q.value),
+                "specific_heat" => {
+                    specific_heat = self
+                        .quantity(&arg.value, Dim::SPECIFIC_HEAT, "specific_heat")
+                        .filter(|q| self.positive(q.value, &arg.value, "specific_heat"))
+                        .map(|q| q.value)
+                }
+                _ => self.unknown_arg(an, "a material", &["k", "density", "specific_heat"]),
+            }
+        }
+        let Some(k) = k else {
+            if !seen.contains_key("k") {
+                self.diags.push(
+                    Diagnostic::error("E203", format!("material `{}` needs a conductivity `k`", name.name), name.span)
+                        .with_label("no `k`")
+                        .with_help("add it, e.g. `(k = 0.04 W/(m*K))`"),
+                );
+            }
+            return;
+        };
+        self.material_index.insert(name.name.clone(), self.materials.len());
+        self.materials.push(Material { name: name.name.clone(), span: name.span, k, density, specific_heat });
+    }
+
+    fn node_args(&mut self, name: &Ident, args: &[Arg]) -> (Option<f64>, f64) {
+        let mut fixed = None;
+        let mut load = 0.0;
+        let mut load_span = None;
+        let mut seen: HashMap<&str, Span> = HashMap::new();
+        for arg in args {
+            let Some(an) = &arg.name else {
+                self.diags.push(
+                    Diagnostic::error("E204", "node properties are written `name = value`", arg.span)
+                        .with_label("property without a name")
+                        .with_help("write `fixed = 20 °C` for a boundary temperature or `load = 3 W` for a heat load"),
+                );
+                continue;
+            };
+            if let Some(prev) = seen.insert(&an.name, an.span) {
+                self.duplicate_arg(an, prev);
+                continue;
+            }
+            match an.name.as_str() {
+                "fixed" => {
+                    if let Some(q) = self.quantity(&arg.value, Dim::TEMPERATURE, "fixed") {
+                        match expect_point(q, "fixed", &arg.value) {
+                            Ok(()) if q.value <= 0.0 => self.diags.push(
+                                Diagnostic::error("E202", "this temperature is at or below absolute zero", arg.value.span)
+                                    .with_label("below 0 K")
+                                    .with_help("check the value and its unit (°C, °F or K)"),
+                            ),
+                            Ok(()) => fixed = Some(q.value),
+                            Err(d) => self.diags.push(d),
+                        }
+                    }
+                }
+                "load" => {
+                    if let Some(q) = self.quantity(&arg.value, Dim::POWER, "load") {
+                        load = q.value;
+                        load_span = Some(an.span);
+                    }
+                }
+                _ => self.unknown_arg(an, "a node", &["fixed", "load"]),
+            }
+        }
+        if let (Some(_), Some(ls)) = (fixed, load_span) {
+            self.diags.push(
+                Diagnostic::error("E209", format!("node `{}` is fixed, so a load on it has no effect", name.name), ls)
+                    .with_label("load on a fixed node")
+                    .with_help("put the load on a free node linked to it, or remove `fixed`"),
+            );
+        }
+        (fixed, load)
+    }
+
+    fn duplicate_arg(&mut self, an: &Ident, prev: Span) {
+        self.diags.push(
+            Diagnostic::error("E205", format!("`{}` is given twice", an.name), an.span)
+                .with_label("given again")
+                .with_secondary(prev, "first given here")
+                .with_help("keep one of them"),
+        );
+    }
+
+    fn unknown_arg(&mut self, an: &Ident, what: &str, known: &[&str]) {
+        let list = known.iter().map(|k| format!("`{k}`")).collect::<Vec<_>>().join(", ");
+        let mut d = Diagnostic::error("E204", format!("{what} has no argument `{}`", an.name), an.span).with_label("unknown argument");
+        d = match did_you_mean(&an.name, known.iter().copied()) {
+            Some(s) => d.with_help(format!("did you mean `{s}`? It takes {list}")).with_fix(format!("Replace with `{s}`"), an.span, s),
+            None => d.with_help(format!("it takes {list}")),
+        };
+        self.diags.push(d);
+    }
+
+    fn unknown_kind(&mut self, kind: &Ident, buildups: &HashMap<&str, &Vec<BuildupElement>>) {
+        let names: Vec<&str> = elements::ALL.iter().map(|k| k.name()).chain(buildups.keys().copied()).collect();
+        let mut d = Diagnostic::error("E206", format!("unknown link kind `{}`", kind.name), kind.span).with_label("not an element kind or build-up");
+        let list = elements::ALL.iter().map(|k| format!("`{}`", k.name())).collect::<Vec<_>>().join(", ");
+        d = match did_you_mean(&kind.name, names) {
+            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), kind.span, s),
+            None => d.with_help(format!("use one of {list}, or the name of a `buildup`")),
+        };
+        self.diags.push(d);
+    }
+
+    fn node_ref(&mut self, id: &Ident, index: &HashMap<String, NodeId>, buildups: &HashMap<&str, &Vec<BuildupElement>>) -> Option<NodeId> {
+        if let Some(&i) = index.get(&id.name) {
+            self.symbols.add_ref(&id.name, id.span);
+            return Some(i);
+        }
+        let mut d;
+        if let Some(s) = self.symbols.get(&id.name) {
+            d = Diagnostic::error("E105", format!("`{}` is {}, not a node", id.name, s.kind.article()), id.span)
+                .with_label("a link's ends must be nodes")
+                .with_secondary(s.def, "declared here");
+        } else {
+            d = Diagnostic::error("E102", format!("unknown node `{}`", id.name), id.span).with_label("no node has this name");
+            if let Some(s) = did_you_mean(&id.name, index.keys().map(|s| s.as_str())) {
+                d = d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), id.span, s);
+            } else if let Some((link, elem)) = id.name.split_once('.') {
+                let _ = buildups;
+                d = d.with_help(format!(
+                    "`{link}.{elem}` would be the face after element `{elem}` of a link `{link}` that uses a build-up; the last element's far face is the link's `to` node"
+                ));
+            } else {
+                d = d.with_help(format!("declare it, e.g. `node {}`", id.name));
+            }
+        }
+        self.diags.push(d);
+        None
+    }
+
+    /// Check an element's arguments against its schema. `area` is supplied by the link when the
+    /// element sits in a build-up.
+    fn args(&mut self, kind: &'static dyn ElementKind, args: &[Arg], call_span: Span, area: Option<(f64, Span)>) -> Option<Args> {
+        let specs = kind.params();
+        let mut values = HashMap::new();
+        let mut ok = true;
+        for (i, arg) in args.iter().enumerate() {
+            let spec = match &arg.name {
+                Some(n) => match specs.iter().find(|s| s.name == n.name) {
+                    Some(s) => s,
+                    None => {
+                        let known: Vec<&str> = specs.iter().map(|s| s.name).collect();
+                        self.unknown_arg(n, &format!("`{}`", kind.name()), &known);
+                        ok = false;
+                        continue;
+                    }
+                },
+                None if i == 0 => &specs[0],
+                None => {
+                    self.diags.push(
+                        Diagnostic::error("E204", "only the first argument may be written without its name", arg.span)
+                            .with_label("argument without a name")
+                            .with_help(format!("write `name = value`; `{}` takes {}", kind.name(), specs.iter().map(|s| format!("`{}`", s.name)).collect::<Vec<_>>().join(", "))),
+                    );
+                    ok = false;
+                    continue;
+                }
+            };
+            let key_span = arg.name.as_ref().map(|n| n.span).unwrap_or(arg.span);
+            if let Some((_, prev)) = values.get(spec.name) {
+                let prev: Span = *prev;
+                self.duplicate_arg(&Ident { name: spec.name.to_string(), span: key_span }, prev);
+                ok = false;
+                continue;
+            }
+            if spec.name == "area" && area.is_some() {
+                self.diags.push(
+                    Diagnostic::error("E210", "an element of a build-up takes its area from the link that uses the build-up", arg.span)
+                        .with_label("area given inside a build-up")
+                        .with_help("remove `area` here and give it where the build-up is used: `link name: a to b my_buildup(area = 10 m^2)`"),
+                );
+                ok = false;
+                continue;
+            }
+            match spec.ty {
+                ArgType::Material => match &arg.value.kind {
+                    ExprKind::Name(id) if self.material_index.contains_key(&id.name) => {
+                        self.symbols.add_ref(&id.name, id.span);
+                        let m = self.materials[self.material_index[&id.name]].clone();
+                        values.insert(spec.name, (ArgValue::Material(m), arg.value.span));
+                    }
+                    ExprKind::Name(id) if self.symbols.get(&id.name).is_some_and(|s| s.kind == SymbolKind::Material) => {
+                        // The material itself failed to check; its error is already reported.
+                        self.symbols.add_ref(&id.name, id.span);
+                        ok = false;
+                    }
+                    ExprKind::Name(id) => {
+                        ok = false;
+                        let known: Vec<&str> = self.symbols.names_of(SymbolKind::Material).collect();
+                        let mut d = if let Some(s) = self.symbols.get(&id.name) {
+                            Diagnostic::error("E105", format!("`{}` is {}, not a material", id.name, s.kind.article()), id.span)
+                                .with_label("a material was expected")
+                        } else {
+                            Diagnostic::error("E102", format!("unknown material `{}`", id.name), id.span).with_label("no material has this name")
+                        };
+                        d = match did_you_mean(&id.name, known) {
+                            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), id.span, s),
+                            None => d.with_help(format!("declare it, e.g. `material {} (k = 0.04 W/(m*K))`", id.name)),
+                        };
+                        self.diags.push(d);
+                    }
+                    _ => {
+                        ok = false;
+                        self.diags.push(
+                            Diagnostic::error("E101", format!("`{}` expects the name of a material", spec.name), arg.value.span)
+                                .with_label("not a material name")
+                                .with_help("name a declared material, or give the conductivity as `k = ...`"),
+                        );
+                    }
+                },
+                ArgType::Quantity(dim) => match self.quantity(&arg.value, dim, spec.name) {
+                    Some(q) => {
+                        if spec.positive && !self.positive(q.value, &arg.value, spec.name) {
+                            ok = false;
+                            continue;
+                        }
+                        if dim == Dim::CONDUCTIVITY {
+                            self.conductivity_warning(q.value, &arg.value);
+                        }
+                        values.insert(spec.name, (ArgValue::Quantity(q.value), arg.value.span));
+                    }
+                    None => ok = false,
+                },
+            }
+        }
+        if let Some((a, span)) = area {
+            if kind.takes_area() {
+                values.insert("area", (ArgValue::Quantity(a), span));
+            }
+        }
+        ok.then_some(Args { kind: kind.name(), values, call_span })
+    }
+
+    #[allow(clippy::too_many_arguments)]
+    fn buildup_link(
+        &mut self,
+        net: &mut Network,
+        index: &HashMap<String, NodeId>,
+        name: &Ident,
+        from: Option<NodeId>,
+        to: Option<NodeId>,
+        call: &ElementCall,
+        els: &[BuildupElement],
+    ) {
+        // The link's own arguments: the area for all its elements.
+        let mut area = None;
+        for arg in &call.args {
+            match arg.name.as_ref().map(|n| n.name.as_str()) {
+                Some("area") | None if area.is_none() => {
+                    if let Some(q) = self.quantity(&arg.value, Dim::AREA, "area") {
+                        if self.positive(q.value, &arg.value, "area") {
+                            area = Some((q.value, arg.value.span));
+                        }
+                    }
+                }
+                _ => {
+                    let n = arg.name.clone().unwrap_or(Ident { name: "value".into(), span: arg.span });
+                    self.unknown_arg(&n, &format!("build-up `{}`", call.kind.name), &["area"]);
+                }
+            }
+        }
+        let needs_area = els.iter().any(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| k.takes_area()));
+        if area.is_none() && needs_area && call.args.is_empty() {
+            self.diags.push(
+                Diagnostic::error("E203", format!("build-up `{}` needs the `area` it covers", call.kind.name), call.span)
+                    .with_label("`area` missing")
+                    .with_help(format!("add it, e.g. `{}(area = 10 m^2)`", call.kind.name)),
+            );
+            return;
+        }
+        let group_id = net.groups.len();
+        let mut links = Vec::new();
+        let mut prev = from;
+        let mut complete = true;
+        for (i, e) in els.iter().enumerate() {
+            let next = if i + 1 == els.len() { to } else { index.get(&format!("{}.{}", name.name, e.name.name)).copied() };
+            let Some(kind) = elements::lookup(&e.element.kind.name) else {
+                // Reported once at the build-up (below) rather than at every use.
+                complete = false;
+                continue;
+            };
+            let built = self.args(kind, &e.element.args, e.element.span, area).and_then(|a| match kind.build(&a) {
+                Ok(b) => Some(b),
+                Err(d) => {
+                    self.diags.push(d);
+                    None
+                }
+            });
+            match (prev, next, built) {
+                (Some(a), Some(b), Some(built)) => {
+                    links.push(net.links.len());
+                    net.links.push(Link {
+                        name: format!("{}.{}", name.name, e.name.name),
+                        span: e.span,
+                        from: a,
+                        to: b,
+                        law: LinkLaw::Linear { conductance: built.conductance },
+                        area: built.area,
+                        kind: kind.name().to_string(),
+                        formula: built.formula,
+                        group: Some(group_id),
+                    });
+                }
+                _ => complete = false,
+            }
+            prev = next;
+        }
+        if complete {
+            if let (Some(a), Some(b)) = (from, to) {
+                net.groups.push(Group { name: name.name.clone(), span: name.span, buildup: call.kind.name.clone(), from: a, to: b, area: area.map(|a| a.0), links });
+            }
+        }
+    }
+}
+
+/// Report unknown element kinds inside build-up declarations once, where they are written.
+pub fn check_buildup_kinds(module: &Module) -> Vec<Diagnostic> {
+    let mut out = Vec::new();
+    for item in &module.items {
+        if let ItemKind::Buildup { elements: els, name } = &item.kind {
+            if els.is_empty() {
+                out.push(
+                    Diagnostic::error("E203", format!("build-up `{}` has no elements", name.name), name.span)
+                        .with_label("empty build-up")
+                        .with_help("list its layers and films from one side to the other, e.g. `inside: film(h = 8 W/(m^2*K))`"),
+                );
+            }
+            for e in els {
+                if elements::lookup(&e.element.kind.name).is_none() {
+                    let names = elements::ALL.iter().map(|k| k.name());
+                    let mut d = Diagnostic::error("E206", format!("unknown element kind `{}`", e.element.kind.name), e.element.kind.span)
+                        .with_label("not an element kind");
+                    d = match did_you_mean(&e.element.kind.name, names) {
+                        Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), e.element.kind.span, s),
+                        None => d.with_help("a build-up element is `layer(...)`, `film(...)`, `contact(...)`, `resistance(...)` or `conductance(...)`"),
+                    };
+                    out.push(d);
+                }
+            }
+        }
+    }
+    out
+}

@@ -1,0 +1,145 @@
+//! Link kinds: what arguments each takes and the thermal conductance it gives.
+//!
+//! Adding an element is adding one type that implements [`ElementKind`] and listing it in
+//! [`ALL`]; the parser, checker, language server and docs pick it up from here.
+
+mod plane;
+
+use crate::diagnostic::Diagnostic;
+use crate::span::Span;
+use crate::units::{format_quantity, Dim, Quantity, TempKind, UnitSystem};
+use std::collections::HashMap;
+
+/// A material as declared, in SI units.
+#[derive(Clone, Debug, serde::Serialize)]
+pub struct Material {
+    pub name: String,
+    pub span: Span,
+    /// Thermal conductivity, W/(m·K).
+    pub k: f64,
+    /// kg/m³
+    pub density: Option<f64>,
+    /// J/(kg·K)
+    pub specific_heat: Option<f64>,
+}
+
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum ArgType {
+    Quantity(Dim),
+    /// The name of a declared material.
+    Material,
+}
+
+/// One argument an element accepts.
+#[derive(Clone, Copy, Debug)]
+pub struct ParamSpec {
+    pub name: &'static str,
+    pub ty: ArgType,
+    /// Must be greater than zero (thickness, area, k, h, ...).
+    pub positive: bool,
+    pub doc: &'static str,
+}
+
+pub const fn q(name: &'static str, dim: Dim, doc: &'static str) -> ParamSpec {
+    ParamSpec { name, ty: ArgType::Quantity(dim), positive: true, doc }
+}
+
+#[derive(Clone, Debug)]
+pub enum ArgValue {
+    Quantity(f64),
+    Material(Material),
+}
+
+/// The checked arguments of one element use, by name.
+pub struct Args {
+    pub kind: &'static str,
+    pub values: HashMap<&'static str, (ArgValue, Span)>,
+    /// The whole element call, for "missing argument" errors.
+    pub call_span: Span,
+}
+
+impl Args {
+    pub fn get(&self, name: &str) -> Option<f64> {
+        match self.values.get(name) {
+            Some((ArgValue::Quantity(v), _)) => Some(*v),
+            _ => None,
+        }
+    }
+    pub fn material(&self, name: &str) -> Option<&Material> {
+        match self.values.get(name) {
+            Some((ArgValue::Material(m), _)) => Some(m),
+            _ => None,
+        }
+    }
+    pub fn span(&self, name: &str) -> Span {
+        self.values.get(name).map(|v| v.1).unwrap_or(self.call_span)
+    }
+    /// A required argument.
+    pub fn require(&self, name: &str, example: &str) -> Result<f64, Diagnostic> {
+        self.get(name).ok_or_else(|| self.missing(&[name], example))
+    }
+    /// Exactly one of two alternative arguments (`h` or `r`, `material` or `k`).
+    pub fn one_of(&self, a: &str, b: &str, example: &str) -> Result<&'static str, Diagnostic> {
+        let has = |n: &str| self.values.contains_key(n);
+        match (has(a), has(b)) {
+            (true, false) => Ok(self.key(a)),
+            (false, true) => Ok(self.key(b)),
+            (false, false) => Err(self.missing(&[a, b], example)),
+            (true, true) => Err(Diagnostic::error(
+                "E207",
+                format!("`{}` takes `{a}` or `{b}`, not both", self.kind),
+                self.span(b),
+            )
+            .with_label(format!("`{b}` given as well as `{a}`"))
+            .with_secondary(self.span(a), format!("`{a}` given here"))
+            .with_help(format!("remove one of them; `{a}` and `{b}` say the same thing two ways"))),
+        }
+    }
+    fn key(&self, n: &str) -> &'static str {
+        self.values.keys().copied().find(|k| *k == n).unwrap_or("")
+    }
+    pub fn missing(&self, names: &[&str], example: &str) -> Diagnostic {
+        let list = names.iter().map(|n| format!("`{n}`")).collect::<Vec<_>>().join(" or ");
+        Diagnostic::error("E203", format!("`{}` needs {list}", self.kind), self.call_span)
+            .with_label(format!("{list} missing"))
+            .with_help(format!("add it, e.g. `{example}`"))
+    }
+}
+
+/// What an element contributes to the network.
+#[derive(Clone, Debug)]
+pub struct Built {
+    /// W/K
+    pub conductance: f64,
+    /// m², when the heat crosses a definite area.
+    pub area: Option<f64>,
+    /// The formula with the input values, for hover and reports.
+    pub formula: String,
+}
+
+/// A kind of link.
+pub trait ElementKind: Sync {
+    fn name(&self) -> &'static str;
+    /// One line for completion and hover.
+    fn summary(&self) -> &'static str;
+    /// The arguments; the first is the main argument that may be written without its name.
+    fn params(&self) -> &'static [ParamSpec];
+    /// Whether the element takes an `area` (so a build-up can supply it).
+    fn takes_area(&self) -> bool {
+        self.params().iter().any(|p| p.name == "area")
+    }
+    fn build(&self, args: &Args) -> Result<Built, Diagnostic>;
+}
+
+/// Every element kind the language knows.
+pub static ALL: &[&dyn ElementKind] = &[&plane::Layer, &plane::Film, &plane::Contact, &plane::Resistance, &plane::Conductance];
+
+pub fn lookup(name: &str) -> Option<&'static dyn ElementKind> {
+    ALL.iter().copied().find(|k| k.name() == name)
+}
+
+/// A value with its SI unit, for formulas.
+pub fn show(value: f64, dim: Dim) -> String {
+    let kind = if dim == Dim::TEMPERATURE { TempKind::Difference } else { TempKind::NotTemperature };
+    format_quantity(Quantity { value, dim, kind }, UnitSystem::Si)
+}

@@ -1,0 +1,149 @@
+//! Plane layers, convection films, contact resistances and explicit resistances/conductances.
+
+use super::{q, show, ArgType, Args, Built, ElementKind, ParamSpec};
+use crate::diagnostic::Diagnostic;
+use crate::units::Dim;
+
+/// Conduction through a plane layer: R = L/(k·A) (Fourier's law, 1-D steady).
+pub struct Layer;
+/// Convection film: R = 1/(h·A) (Newton's law of cooling), or a surface resistance R = r/A.
+pub struct Film;
+/// Contact between two surfaces: R = R″/A.
+pub struct Contact;
+pub struct Resistance;
+pub struct Conductance;
+
+const LAYER: &[ParamSpec] = &[
+    ParamSpec { name: "material", ty: ArgType::Material, positive: false, doc: "a declared material (gives k)" },
+    q("k", Dim::CONDUCTIVITY, "thermal conductivity, instead of a material"),
+    q("thickness", Dim::LENGTH, "layer thickness L"),
+    q("area", Dim::AREA, "area the heat crosses"),
+];
+
+impl ElementKind for Layer {
+    fn name(&self) -> &'static str {
+        "layer"
+    }
+    fn summary(&self) -> &'static str {
+        "plane layer: R = L/(k·A) (Fourier's law)"
+    }
+    fn params(&self) -> &'static [ParamSpec] {
+        LAYER
+    }
+    fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
+        let example = "layer(gypsum, thickness = 12.5 mm, area = 2 m^2)";
+        let k = match a.one_of("material", "k", example)? {
+            "material" => a.material("material").map(|m| m.k).unwrap_or(f64::NAN),
+            _ => a.require("k", example)?,
+        };
+        let l = a.require("thickness", "thickness = 100 mm")?;
+        let area = a.require("area", "area = 2 m^2")?;
+        let g = k * area / l;
+        Ok(Built {
+            conductance: g,
+            area: Some(area),
+            formula: format!(
+                "R = L/(k·A) = {} / ({} × {}) = {}",
+                show(l, Dim::LENGTH),
+                show(k, Dim::CONDUCTIVITY),
+                show(area, Dim::AREA),
+                show(1.0 / g, Dim::RESISTANCE)
+            ),
+        })
+    }
+}
+
+const FILM: &[ParamSpec] = &[
+    q("h", Dim::HEAT_TRANSFER_COEFF, "heat transfer coefficient"),
+    q("r", Dim::AREA_RESISTANCE, "surface resistance per area, instead of h (e.g. ISO 6946 Rsi/Rse)"),
+    q("area", Dim::AREA, "surface area"),
+];
+
+impl ElementKind for Film {
+    fn name(&self) -> &'static str {
+        "film"
+    }
+    fn summary(&self) -> &'static str {
+        "convection film: R = 1/(h·A) (Newton's law of cooling), or R = r/A"
+    }
+    fn params(&self) -> &'static [ParamSpec] {
+        FILM
+    }
+    fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
+        let which = a.one_of("h", "r", "film(h = 8 W/(m^2*K), area = 2 m^2)")?;
+        let area = a.require("area", "area = 2 m^2")?;
+        let (g, formula) = if which == "h" {
+            let h = a.require("h", "h = 8 W/(m^2*K)")?;
+            let g = h * area;
+            (g, format!("R = 1/(h·A) = 1 / ({} × {}) = {}", show(h, Dim::HEAT_TRANSFER_COEFF), show(area, Dim::AREA), show(1.0 / g, Dim::RESISTANCE)))
+        } else {
+            let r = a.require("r", "r = 0.13 m^2*K/W")?;
+            let g = area / r;
+            (g, format!("R = r/A = {} / {} = {}", show(r, Dim::AREA_RESISTANCE), show(area, Dim::AREA), show(1.0 / g, Dim::RESISTANCE)))
+        };
+        Ok(Built { conductance: g, area: Some(area), formula })
+    }
+}
+
+const CONTACT: &[ParamSpec] = &[
+    q("r", Dim::AREA_RESISTANCE, "contact resistance per area R″"),
+    q("area", Dim::AREA, "contact area"),
+];
+
+impl ElementKind for Contact {
+    fn name(&self) -> &'static str {
+        "contact"
+    }
+    fn summary(&self) -> &'static str {
+        "contact resistance: R = R″/A"
+    }
+    fn params(&self) -> &'static [ParamSpec] {
+        CONTACT
+    }
+    fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
+        let r = a.require("r", "r = 0.5 cm^2*K/W")?;
+        let area = a.require("area", "area = 9 mm^2")?;
+        let g = area / r;
+        Ok(Built {
+            conductance: g,
+            area: Some(area),
+            formula: format!("R = R″/A = {} / {} = {}", show(r, Dim::AREA_RESISTANCE), show(area, Dim::AREA), show(1.0 / g, Dim::RESISTANCE)),
+        })
+    }
+}
+
+const RESISTANCE: &[ParamSpec] = &[q("r", Dim::RESISTANCE, "thermal resistance")];
+
+impl ElementKind for Resistance {
+    fn name(&self) -> &'static str {
+        "resistance"
+    }
+    fn summary(&self) -> &'static str {
+        "a stated thermal resistance R (K/W)"
+    }
+    fn params(&self) -> &'static [ParamSpec] {
+        RESISTANCE
+    }
+    fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
+        let r = a.require("r", "resistance(2.5 K/W)")?;
+        Ok(Built { conductance: 1.0 / r, area: None, formula: format!("R = {}", show(r, Dim::RESISTANCE)) })
+    }
+}
+
+const CONDUCTANCE: &[ParamSpec] = &[q("g", Dim::CONDUCTANCE, "thermal conductance")];
+
+impl ElementKind for Conductance {
+    fn name(&self) -> &'static str {
+        "conductance"
+    }
+    fn summary(&self) -> &'static str {
+        "a stated thermal conductance G (W/K)"
+    }
+    fn params(&self) -> &'static [ParamSpec] {
+        CONDUCTANCE
+    }
+    fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
+        let g = a.require("g", "conductance(0.8 W/K)")?;
+        Ok(Built { conductance: g, area: None, formula: format!("R = 1/G = 1 / {} = {}", show(g, Dim::CONDUCTANCE), show(1.0 / g, Dim::RESISTANCE)) })
+    }
+}

@@ -1,0 +1,248 @@
+//! Tokens of the model language (logos), with comments kept for the formatter.
+//!
+//! A number swallows the unit written right after it (`12.5 mm`, `0.04 W/(m*K)`): a unit is
+//! written without spaces, so spaces are what separate arithmetic from units.
+
+use crate::span::{FileId, Span};
+use logos::Logos;
+
+#[derive(Logos, Clone, Copy, Debug, PartialEq, Eq)]
+#[logos(skip r"[ \t\r\n\f]+")]
+pub enum Tok {
+    #[regex(r"#[^\n]*", allow_greedy = true)]
+    Comment,
+    #[token("title")]
+    Title,
+    #[token("import")]
+    Import,
+    #[token("param")]
+    Param,
+    #[token("material")]
+    Material,
+    #[token("node")]
+    Node,
+    #[token("link")]
+    Link,
+    #[token("buildup")]
+    Buildup,
+    #[token("limit")]
+    Limit,
+    #[token("to")]
+    To,
+    #[regex(r"[A-Za-z_][A-Za-z0-9_]*(\.[A-Za-z_][A-Za-z0-9_]*)*")]
+    Ident,
+    /// A number and the unit written after it; the payload is the byte length of the number.
+    #[regex(r"[0-9]+(\.[0-9]*)?([eE][+-]?[0-9]+)?", number_with_unit)]
+    #[regex(r"\.[0-9]+([eE][+-]?[0-9]+)?", number_with_unit)]
+    Number(u32),
+    #[regex(r#""([^"\\\n]|\\.)*""#)]
+    Str,
+    #[regex(r#""([^"\\\n]|\\.)*"#, priority = 1)]
+    UnterminatedStr,
+    #[token("(")]
+    LParen,
+    #[token(")")]
+    RParen,
+    #[token("{")]
+    LBrace,
+    #[token("}")]
+    RBrace,
+    #[token(",")]
+    Comma,
+    #[token(":")]
+    Colon,
+    #[token("=")]
+    Eq,
+    #[token("+")]
+    Plus,
+    #[token("-")]
+    #[token("−")]
+    Minus,
+    #[token("*")]
+    #[token("·")]
+    #[token("×")]
+    Star,
+    #[token("/")]
+    Slash,
+    #[token("^")]
+    Caret,
+    #[token("<")]
+    Lt,
+    #[token("<=")]
+    #[token("≤")]
+    Le,
+    #[token(">")]
+    Gt,
+    #[token(">=")]
+    #[token("≥")]
+    Ge,
+    #[token("±")]
+    #[token("+-")]
+    PlusMinus,
+    /// Any character the language does not use.
+    Unknown,
+}
+
+fn is_unit_start(c: char) -> bool {
+    c.is_alphabetic() || matches!(c, '°' | 'µ' | 'Δ' | '%')
+}
+
+fn is_unit_char(c: char) -> bool {
+    c.is_alphanumeric()
+        || matches!(c, '_' | '°' | 'µ' | 'Δ' | '²' | '³' | '¹' | '⁴' | '⁻' | '·' | '⋅' | '*' | '/' | '^')
+}
+
+/// Extend a number token over the unit that follows it on the same line.
+fn number_with_unit(lex: &mut logos::Lexer<Tok>) -> u32 {
+    let num_len = lex.slice().len() as u32;
+    let rest = lex.remainder();
+    let after_space = rest.len() - rest.trim_start_matches([' ', '\t']).len();
+    let unit = &rest[after_space..];
+    let Some(first) = unit.chars().next() else { return num_len };
+    if !is_unit_start(first) && first != '(' {
+        return num_len;
+    }
+    // A unit never starts with a bracket unless written `(…)` right after the number with no
+    // space, which the language does not use: `2 (a + b)` stays arithmetic.
+    if first == '(' {
+        return num_len;
+    }
+    let mut depth = 0i32;
+    let mut end = 0;
+    let mut prev = ' ';
+    for (i, c) in unit.char_indices() {
+        let ok = match c {
+            '(' => {
+                depth += 1;
+                true
+            }
+            ')' if depth > 0 => {
+                depth -= 1;
+                true
+            }
+            '-' => prev == '^',
+            c => is_unit_char(c),
+        };
+        if !ok {
+            break;
+        }
+        end = i + c.len_utf8();
+        prev = c;
+    }
+    // Do not swallow a trailing operator or an open bracket that belongs to the expression.
+    let mut text = &unit[..end];
+    while let Some(last) = text.chars().last() {
+        if matches!(last, '*' | '/' | '^' | '·' | '⋅' | '(') && depth_ok(text) {
+            text = &text[..text.len() - last.len_utf8()];
+        } else {
+            break;
+        }
+    }
+    lex.bump(after_space + text.len());
+    num_len
+}
+
+fn depth_ok(text: &str) -> bool {
+    let open = text.matches('(').count();
+    let close = text.matches(')').count();
+    open >= close
+}
+
+/// One token with its place in the file.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Token {
+    pub kind: Tok,
+    pub span: Span,
+}
+
+/// Split a file into tokens. Characters the language does not use become `Tok::Unknown`
+/// tokens, reported by the parser, so lexing never fails.
+pub fn lex(text: &str, file: FileId) -> Vec<Token> {
+    let mut lexer = Tok::lexer(text);
+    let mut out = Vec::new();
+    while let Some(res) = lexer.next() {
+        let r = lexer.span();
+        let kind = res.unwrap_or(Tok::Unknown);
+        out.push(Token { kind, span: Span::new(file, r.start, r.end) });
+    }
+    out
+}
+
+impl std::fmt::Display for Tok {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        let s = match self {
+            Tok::Comment => "a comment",
+            Tok::Title => "`title`",
+            Tok::Import => "`import`",
+            Tok::Param => "`param`",
+            Tok::Material => "`material`",
+            Tok::Node => "`node`",
+            Tok::Link => "`link`",
+            Tok::Buildup => "`buildup`",
+            Tok::Limit => "`limit`",
+            Tok::To => "`to`",
+            Tok::Ident => "a name",
+            Tok::Number(_) => "a number",
+            Tok::Str | Tok::UnterminatedStr => "a string",
+            Tok::LParen => "`(`",
+            Tok::RParen => "`)`",
+            Tok::LBrace => "`{`",
+            Tok::RBrace => "`}`",
+            Tok::Comma => "`,`",
+            Tok::Colon => "`:`",
+            Tok::Eq => "`=`",
+            Tok::Plus => "`+`",
+            Tok::Minus => "`-`",
+            Tok::Star => "`*`",
+            Tok::Slash => "`/`",
+            Tok::Caret => "`^`",
+            Tok::Lt => "`<`",
+            Tok::Le => "`<=`",
+            Tok::Gt => "`>`",
+            Tok::Ge => "`>=`",
+            Tok::PlusMinus => "`±`",
+            Tok::Unknown => "an unexpected character",
+        };
+        f.write_str(s)
+    }
+}
+
+impl Tok {
+    /// Keywords that begin a declaration; error recovery resumes at the next one.
+    pub fn starts_item(self) -> bool {
+        matches!(
+            self,
+            Tok::Title | Tok::Import | Tok::Param | Tok::Material | Tok::Node | Tok::Link | Tok::Buildup | Tok::Limit
+        )
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn kinds(text: &str) -> Vec<(Tok, &str)> {
+        lex(text, FileId(0)).into_iter().map(|t| (t.kind, &text[t.span.range()])).collect()
+    }
+
+    #[test]
+    fn units_stick_to_numbers_but_spaced_operators_do_not() {
+        assert_eq!(
+            kinds("2 m * h"),
+            vec![(Tok::Number(1), "2 m"), (Tok::Star, "*"), (Tok::Ident, "h")]
+        );
+        assert_eq!(kinds("0.04 W/(m*K))"), vec![(Tok::Number(4), "0.04 W/(m*K)"), (Tok::RParen, ")")]);
+        assert_eq!(kinds("20 °C)"), vec![(Tok::Number(2), "20 °C"), (Tok::RParen, ")")]);
+        assert_eq!(kinds("1e-3 m^-2,"), vec![(Tok::Number(4), "1e-3 m^-2"), (Tok::Comma, ",")]);
+        assert_eq!(kinds("5 - 2"), vec![(Tok::Number(1), "5"), (Tok::Minus, "-"), (Tok::Number(1), "2")]);
+        assert_eq!(kinds("3 m²·K/W"), vec![(Tok::Number(1), "3 m²·K/W")]);
+    }
+
+    #[test]
+    fn dotted_names_and_comments() {
+        assert_eq!(
+            kinds("north.inside # face\nx"),
+            vec![(Tok::Ident, "north.inside"), (Tok::Comment, "# face"), (Tok::Ident, "x")]
+        );
+    }
+}

@@ -1,0 +1,27 @@
+//! The Caloris compiler: model text in; syntax tree, symbols, diagnostics, network and solution
+//! out. It does no I/O of its own (imports come through a caller-supplied [`source::SourceLoader`]),
+//! so the command-line tool and the language server share it unchanged.
+//!
+//! Pipeline: [`lexer`] → [`parser`] → [`elaborate`] (names, [`eval`] of units, [`elements`],
+//! [`limits`]) → [`network`] → [`solve`] → [`results`]; [`analysis::analyze`] runs it all.
+
+pub mod analysis;
+pub mod diagnostic;
+pub mod elaborate;
+pub mod elements;
+pub mod eval;
+pub mod lexer;
+pub mod limits;
+pub mod network;
+pub mod parser;
+pub mod render;
+pub mod results;
+pub mod solve;
+pub mod source;
+pub mod span;
+pub mod symbols;
+pub mod syntax;
+pub mod units;
+
+pub use analysis::{analyze, Analysis, Options};
+pub use diagnostic::{Diagnostic, Severity};

@@ -1,0 +1,211 @@
+//! Design limits: what they measure, checking them against the network, and their verdicts.
+
+use crate::diagnostic::{did_you_mean, Diagnostic};
+use crate::eval::{expect_dim, expect_point};
+use crate::network::Network;
+use crate::source::Sources;
+use crate::span::Span;
+use crate::symbols::SymbolTable;
+use crate::syntax::{CmpOp, Expr, Ident};
+use crate::units::{Dim, Quantity, TempKind};
+use serde::Serialize;
+
+/// What a limit measures.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Measure {
+    Temperature,
+    HeatFlow,
+    HeatFlux,
+    UValue,
+    RValue,
+}
+
+pub const MEASURES: &[(&str, Measure, &str)] = &[
+    ("temperature", Measure::Temperature, "temperature of a node"),
+    ("heat_flow", Measure::HeatFlow, "heat flow through a link, positive from its first node to its second"),
+    ("heat_flux", Measure::HeatFlux, "heat flow per area of a link that has an area"),
+    ("u_value", Measure::UValue, "U-value 1/(R·A) of a link with an area or a build-up"),
+    ("r_value", Measure::RValue, "R-value R·A of a link with an area or a build-up"),
+];
+
+impl Measure {
+    pub fn name(self) -> &'static str {
+        MEASURES.iter().find(|m| m.1 == self).map(|m| m.0).unwrap_or("")
+    }
+    pub fn dim(self) -> Dim {
+        match self {
+            Measure::Temperature => Dim::TEMPERATURE,
+            Measure::HeatFlow => Dim::POWER,
+            Measure::HeatFlux => Dim::HEAT_FLUX,
+            Measure::UValue => Dim::HEAT_TRANSFER_COEFF,
+            Measure::RValue => Dim::AREA_RESISTANCE,
+        }
+    }
+}
+
+/// What a limit or a measure refers to.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case", tag = "type", content = "index")]
+pub enum Subject {
+    Node(usize),
+    Link(usize),
+    Group(usize),
+}
+
+/// A checked limit, ready to evaluate on a solution.
+#[derive(Clone, Debug, Serialize)]
+pub struct LimitSpec {
+    pub name: String,
+    pub span: Span,
+    pub measure: Measure,
+    pub subject_name: String,
+    pub subject: Subject,
+    pub op: CmpOp,
+    /// The limit value in SI (kelvin for temperatures).
+    pub value: f64,
+}
+
+/// Resolve `measure(subject)` against the network.
+pub fn resolve_measure(measure: &Ident, subject: &Ident, net: &Network, symbols: &mut SymbolTable) -> Result<(Measure, Subject), Option<Diagnostic>> {
+    let Some(&(_, m, _)) = MEASURES.iter().find(|m| m.0 == measure.name) else {
+        let names = MEASURES.iter().map(|m| m.0);
+        let mut d = Diagnostic::error("E401", format!("unknown measure `{}`", measure.name), measure.span).with_label("not a measure");
+        let list = MEASURES.iter().map(|m| format!("`{}`", m.0)).collect::<Vec<_>>().join(", ");
+        d = match did_you_mean(&measure.name, names) {
+            Some(s) => d.with_help(format!("did you mean `{s}`? Measures are {list}")).with_fix(format!("Replace with `{s}`"), measure.span, s),
+            None => d.with_help(format!("measures are {list}")),
+        };
+        return Err(Some(d));
+    };
+    let node = net.node_id(&subject.name);
+    let group = net.group_id(&subject.name);
+    let link = net.link_id(&subject.name);
+    let found = match m {
+        Measure::Temperature => node.map(Subject::Node),
+        Measure::HeatFlow => group.map(Subject::Group).or(link.map(Subject::Link)),
+        Measure::HeatFlux | Measure::UValue | Measure::RValue => {
+            group.filter(|&g| net.groups[g].area.is_some()).map(Subject::Group).or(link.filter(|&l| net.links[l].area.is_some()).map(Subject::Link))
+        }
+    };
+    if let Some(s) = found {
+        symbols.add_ref(&subject.name, subject.span);
+        return Ok((m, s));
+    }
+    // Explain why not.
+    if symbols.get(&subject.name).is_none() && node.is_none() && link.is_none() && group.is_none() {
+        let known: Vec<&str> = net.nodes.iter().map(|n| n.name.as_str()).chain(net.links.iter().map(|l| l.name.as_str())).collect();
+        let mut d = Diagnostic::error("E102", format!("unknown name `{}`", subject.name), subject.span).with_label("no node or link has this name");
+        if let Some(s) = did_you_mean(&subject.name, known) {
+            d = d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), subject.span, s);
+        }
+        // A link whose declaration failed is already reported; say nothing more then.
+        return Err(Some(d));
+    }
+    if symbols.get(&subject.name).is_some() && node.is_none() && link.is_none() && group.is_none() {
+        let sym = symbols.get(&subject.name).map(|s| s.kind);
+        if matches!(sym, Some(crate::symbols::SymbolKind::Node | crate::symbols::SymbolKind::Link)) {
+            return Err(None);
+        }
+    }
+    let what = match m {
+        Measure::Temperature => "a node",
+        Measure::HeatFlow => "a link",
+        _ => "a link with an area (layer, film, contact or a build-up)",
+    };
+    let is = if node.is_some() {
+        "a node"
+    } else if link.is_some() || group.is_some() {
+        "a link without an area"
+    } else {
+        symbols.get(&subject.name).map(|s| s.kind.article()).unwrap_or("something else")
+    };
+    let is = if m == Measure::Temperature && (link.is_some() || group.is_some()) { "a link" } else { is };
+    Err(Some(
+        Diagnostic::error("E402", format!("`{}` needs {what}; `{}` is {is}", measure.name, subject.name), subject.span)
+            .with_label(format!("{is} here"))
+            .with_help(match m {
+                Measure::Temperature => "name a node, e.g. a build-up's surface node `wall.inside`".to_string(),
+                _ => "name a link; `resistance` and `conductance` links have no area, so no flux or U-value".to_string(),
+            }),
+    ))
+}
+
+#[allow(clippy::too_many_arguments)]
+pub fn check_limit(
+    name: &Ident,
+    measure: &Ident,
+    subject: &Ident,
+    op: CmpOp,
+    value: &Expr,
+    q: Option<Quantity>,
+    net: &Network,
+    symbols: &mut SymbolTable,
+    sources: &Sources,
+) -> Result<LimitSpec, Option<Diagnostic>> {
+    let (m, s) = resolve_measure(measure, subject, net, symbols)?;
+    let q = q.ok_or(None)?;
+    let src = sources.text(value.span.file);
+    expect_dim(q, m.dim(), &format!("a `{}` limit", m.name()), value, src).map_err(Some)?;
+    if m == Measure::Temperature {
+        expect_point(q, "a temperature limit", value).map_err(Some)?;
+    }
+    Ok(LimitSpec { name: name.name.clone(), span: name.span, measure: m, subject_name: subject.name.clone(), subject: s, op, value: q.value })
+}
+
+/// The verdict of one limit on a solution.
+#[derive(Clone, Debug, Serialize)]
+pub struct LimitResult {
+    pub name: String,
+    pub measure: Measure,
+    pub subject: String,
+    pub op: &'static str,
+    /// Actual value, SI.
+    pub actual: f64,
+    /// The limit, SI.
+    pub limit: f64,
+    pub passed: bool,
+    /// How far inside the limit the value is (negative when it fails), SI; a temperature
+    /// margin is a difference in kelvin.
+    pub margin: f64,
+    pub span: Span,
+}
+
+impl LimitResult {
+    /// Kind for displaying actual and limit values.
+    pub fn kind(&self) -> TempKind {
+        if self.measure == Measure::Temperature {
+            TempKind::Point
+        } else {
+            TempKind::NotTemperature
+        }
+    }
+    pub fn margin_kind(&self) -> TempKind {
+        if self.measure == Measure::Temperature {
+            TempKind::Difference
+        } else {
+            TempKind::NotTemperature
+        }
+    }
+}
+
+pub fn verdict(spec: &LimitSpec, actual: f64) -> LimitResult {
+    let margin = if spec.op.is_upper() { spec.value - actual } else { actual - spec.value };
+    let passed = match spec.op {
+        CmpOp::Lt => actual < spec.value,
+        CmpOp::Le => actual <= spec.value,
+        CmpOp::Gt => actual > spec.value,
+        CmpOp::Ge => actual >= spec.value,
+    };
+    LimitResult {
+        name: spec.name.clone(),
+        measure: spec.measure,
+        subject: spec.subject_name.clone(),
+        op: spec.op.symbol(),
+        actual,
+        limit: spec.value,
+        passed,
+        margin,
+        span: spec.span,
+    }
+}

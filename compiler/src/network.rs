@@ -1,0 +1,120 @@
+//! The elaborated network: nodes, links and build-up groups in SI units, each mapped back to
+//! the span that declared it so results can be shown where they came from.
+
+use crate::span::Span;
+use serde::Serialize;
+
+pub type NodeId = usize;
+pub type LinkId = usize;
+
+#[derive(Clone, Debug, Serialize)]
+pub struct Node {
+    pub name: String,
+    /// Where the node was declared (for generated nodes: the build-up element that made it).
+    pub span: Span,
+    /// Boundary temperature in kelvin when the node is held fixed.
+    pub fixed: Option<f64>,
+    /// Heat put into the node, W.
+    pub load: f64,
+    /// True for interface nodes made by a build-up.
+    pub generated: bool,
+}
+
+/// How a link's heat flow depends on its two end temperatures.
+#[derive(Clone, Debug, Serialize)]
+pub enum LinkLaw {
+    /// Q = G·(T_from − T_to) with a constant conductance G in W/K.
+    Linear { conductance: f64 },
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct Link {
+    pub name: String,
+    pub span: Span,
+    pub from: NodeId,
+    pub to: NodeId,
+    pub law: LinkLaw,
+    /// The area the heat crosses, m², when the element has one (for flux and U-values).
+    pub area: Option<f64>,
+    /// Element kind (`layer`, `film`, ...).
+    pub kind: String,
+    /// The formula with its input values, for hover and reports.
+    pub formula: String,
+    /// The build-up use this link is an element of.
+    pub group: Option<usize>,
+}
+
+impl Link {
+    /// Conductance in W/K.
+    pub fn conductance(&self) -> f64 {
+        match self.law {
+            LinkLaw::Linear { conductance } => conductance,
+        }
+    }
+}
+
+/// A link that uses a build-up: a chain of element links in series.
+#[derive(Clone, Debug, Serialize)]
+pub struct Group {
+    pub name: String,
+    pub span: Span,
+    pub buildup: String,
+    pub from: NodeId,
+    pub to: NodeId,
+    pub area: Option<f64>,
+    pub links: Vec<LinkId>,
+}
+
+#[derive(Clone, Debug, Default, Serialize)]
+pub struct Network {
+    pub nodes: Vec<Node>,
+    pub links: Vec<Link>,
+    pub groups: Vec<Group>,
+}
+
+impl Network {
+    pub fn node_id(&self, name: &str) -> Option<NodeId> {
+        self.nodes.iter().position(|n| n.name == name)
+    }
+    pub fn link_id(&self, name: &str) -> Option<LinkId> {
+        self.links.iter().position(|l| l.name == name)
+    }
+    pub fn group_id(&self, name: &str) -> Option<usize> {
+        self.groups.iter().position(|g| g.name == name)
+    }
+
+    /// Groups of free nodes that no chain of links joins to a fixed node; each such group makes
+    /// the conductance matrix singular.
+    pub fn floating_groups(&self) -> Vec<Vec<NodeId>> {
+        let n = self.nodes.len();
+        let mut parent: Vec<usize> = (0..n).collect();
+        fn find(p: &mut [usize], mut x: usize) -> usize {
+            while p[x] != x {
+                p[x] = p[p[x]];
+                x = p[x];
+            }
+            x
+        }
+        for l in &self.links {
+            let (a, b) = (find(&mut parent, l.from), find(&mut parent, l.to));
+            if a != b {
+                parent[a] = b;
+            }
+        }
+        let mut anchored = vec![false; n];
+        for i in 0..n {
+            if self.nodes[i].fixed.is_some() {
+                let r = find(&mut parent, i);
+                anchored[r] = true;
+            }
+        }
+        let mut groups: std::collections::BTreeMap<usize, Vec<NodeId>> = Default::default();
+        for i in 0..n {
+            let r = find(&mut parent, i);
+            if !anchored[r] {
+                groups.entry(r).or_default().push(i);
+            }
+        }
+        groups.into_values().collect()
+    }
+}

@@ -1,0 +1,97 @@
+//! Derived results of a solved network: heat flows, node balances, boundary heat, build-up
+//! U- and R-values, and limit verdicts.
+
+use crate::limits::{self, LimitResult, LimitSpec, Measure, Subject};
+use crate::network::Network;
+use crate::solve::Temperatures;
+use serde::Serialize;
+
+#[derive(Clone, Debug, Serialize)]
+pub struct GroupResult {
+    pub name: String,
+    /// Total resistance of the chain, K/W.
+    pub resistance: f64,
+    /// W, positive from the link's first node to its second.
+    pub heat_flow: f64,
+    /// W/(m²·K), films included.
+    pub u_value: Option<f64>,
+    /// m²·K/W
+    pub r_value: Option<f64>,
+}
+
+/// Everything a steady solve yields, indexed like the network.
+#[derive(Clone, Debug, Serialize)]
+pub struct Solution {
+    /// Kelvin, per node.
+    pub temperatures: Vec<f64>,
+    /// W, per link, positive from `from` to `to`.
+    pub heat_flows: Vec<f64>,
+    /// W, per node: heat load plus heat flowing in minus heat flowing out. Zero to round-off at
+    /// free nodes; at a fixed node it is minus the heat its boundary supplies.
+    pub residuals: Vec<f64>,
+    /// The largest |residual| over free nodes, W.
+    pub worst_residual: f64,
+    /// W, per fixed node: heat the boundary delivers into the network (negative: it absorbs).
+    pub boundary_heat: Vec<(usize, f64)>,
+    pub groups: Vec<GroupResult>,
+    pub limits: Vec<LimitResult>,
+}
+
+impl Solution {
+    pub fn new(net: &Network, temps: Temperatures, limit_specs: &[LimitSpec]) -> Solution {
+        let t = temps.0;
+        let flows: Vec<f64> = net.links.iter().map(|l| l.conductance() * (t[l.from] - t[l.to])).collect();
+        let mut residuals: Vec<f64> = net.nodes.iter().map(|n| n.load).collect();
+        for (l, q) in net.links.iter().zip(&flows) {
+            residuals[l.from] -= q;
+            residuals[l.to] += q;
+        }
+        let worst_residual = net
+            .nodes
+            .iter()
+            .zip(&residuals)
+            .filter(|(n, _)| n.fixed.is_none())
+            .map(|(_, r)| r.abs())
+            .fold(0.0, f64::max);
+        let boundary_heat = net.nodes.iter().enumerate().filter(|(_, n)| n.fixed.is_some()).map(|(i, _)| (i, -residuals[i])).collect();
+        let groups = net
+            .groups
+            .iter()
+            .map(|g| {
+                let resistance: f64 = g.links.iter().map(|&l| 1.0 / net.links[l].conductance()).sum();
+                GroupResult {
+                    name: g.name.clone(),
+                    resistance,
+                    heat_flow: (t[g.from] - t[g.to]) / resistance,
+                    u_value: g.area.map(|a| 1.0 / (resistance * a)),
+                    r_value: g.area.map(|a| resistance * a),
+                }
+            })
+            .collect();
+        let mut sol = Solution { temperatures: t, heat_flows: flows, residuals, worst_residual, boundary_heat, groups, limits: Vec::new() };
+        sol.limits = limit_specs.iter().map(|s| limits::verdict(s, sol.measure(net, s.measure, s.subject))).collect();
+        sol
+    }
+
+    /// The value of a measure on this solution, SI.
+    pub fn measure(&self, net: &Network, m: Measure, s: Subject) -> f64 {
+        match (m, s) {
+            (Measure::Temperature, Subject::Node(n)) => self.temperatures[n],
+            (Measure::HeatFlow, Subject::Link(l)) => self.heat_flows[l],
+            (Measure::HeatFlow, Subject::Group(g)) => self.groups[g].heat_flow,
+            (Measure::HeatFlux, Subject::Link(l)) => self.heat_flows[l] / net.links[l].area.unwrap_or(f64::NAN),
+            (Measure::HeatFlux, Subject::Group(g)) => self.groups[g].heat_flow / net.groups[g].area.unwrap_or(f64::NAN),
+            (Measure::UValue, Subject::Link(l)) => net.links[l].conductance() / net.links[l].area.unwrap_or(f64::NAN),
+            (Measure::UValue, Subject::Group(g)) => self.groups[g].u_value.unwrap_or(f64::NAN),
+            (Measure::RValue, Subject::Link(l)) => net.links[l].area.unwrap_or(f64::NAN) / net.links[l].conductance(),
+            (Measure::RValue, Subject::Group(g)) => self.groups[g].r_value.unwrap_or(f64::NAN),
+            _ => f64::NAN,
+        }
+    }
+
+    /// Total heat delivered by all boundaries with a positive delivery (the heat that crosses
+    /// the network from warm to cold boundaries, plus loads that leave through them).
+    pub fn total_boundary_inflow(&self) -> f64 {
+        self.boundary_heat.iter().map(|b| b.1).filter(|q| *q > 0.0).sum()
+    }
+}

@@ -1,0 +1,127 @@
+//! The syntax tree: what the analyst wrote, with the span of every piece.
+
+use crate::span::Span;
+use serde::Serialize;
+
+/// A name as written, with its place.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Ident {
+    pub name: String,
+    pub span: Span,
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+pub enum BinOp {
+    Add,
+    Sub,
+    Mul,
+    Div,
+    Pow,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub enum ExprKind {
+    /// A number and the unit written after it (`12.5 mm`); `unit` is `None` for a bare number.
+    Number { value: f64, text: String, unit: Option<(String, Span)> },
+    Name(Ident),
+    Neg(Box<Expr>),
+    Binary { op: BinOp, lhs: Box<Expr>, rhs: Box<Expr> },
+    Call { func: Ident, args: Vec<Expr> },
+    Paren(Box<Expr>),
+    /// Placeholder left by error recovery; never evaluated because the parse error is reported.
+    Missing,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Expr {
+    pub kind: ExprKind,
+    pub span: Span,
+}
+
+/// `name = value`, or a bare value for a kind's main argument.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Arg {
+    pub name: Option<Ident>,
+    pub value: Expr,
+    pub span: Span,
+}
+
+/// `kind(arguments)`: an element such as `layer(gypsum, thickness = 12.5 mm)`.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct ElementCall {
+    pub kind: Ident,
+    pub args: Vec<Arg>,
+    pub span: Span,
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+pub enum CmpOp {
+    Lt,
+    Le,
+    Gt,
+    Ge,
+}
+
+impl CmpOp {
+    pub fn symbol(self) -> &'static str {
+        match self {
+            CmpOp::Lt => "<",
+            CmpOp::Le => "<=",
+            CmpOp::Gt => ">",
+            CmpOp::Ge => ">=",
+        }
+    }
+    /// True for `<`/`<=`: the value must stay below the limit.
+    pub fn is_upper(self) -> bool {
+        matches!(self, CmpOp::Lt | CmpOp::Le)
+    }
+}
+
+/// One element of a build-up: `insulation: layer(wood_fibre, thickness = 140 mm)`.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct BuildupElement {
+    pub name: Ident,
+    pub element: ElementCall,
+    pub span: Span,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub enum ItemKind {
+    Title { text: String },
+    Import { path: String, path_span: Span },
+    Param { name: Ident, value: Expr },
+    Material { name: Ident, args: Vec<Arg> },
+    Node { name: Ident, args: Vec<Arg> },
+    Link { name: Ident, from: Ident, to: Ident, element: ElementCall },
+    Buildup { name: Ident, elements: Vec<BuildupElement> },
+    Limit { name: Ident, measure: Ident, subject: Ident, op: CmpOp, value: Expr },
+}
+
+/// A top-level declaration.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Item {
+    pub kind: ItemKind,
+    pub span: Span,
+}
+
+impl Item {
+    /// The declared name, for items that have one.
+    pub fn name(&self) -> Option<&Ident> {
+        match &self.kind {
+            ItemKind::Title { .. } | ItemKind::Import { .. } => None,
+            ItemKind::Param { name, .. }
+            | ItemKind::Material { name, .. }
+            | ItemKind::Node { name, .. }
+            | ItemKind::Link { name, .. }
+            | ItemKind::Buildup { name, .. }
+            | ItemKind::Limit { name, .. } => Some(name),
+        }
+    }
+}
+
+/// A parsed file: its declarations and the comments between them.
+#[derive(Clone, Debug, Default, PartialEq, Serialize)]
+pub struct Module {
+    pub items: Vec<Item>,
+    pub comments: Vec<Span>,
+}
