@@ -1,0 +1,259 @@
+//! Result reports: a terminal table, the JSON contract (docs/json.md) and CSV.
+
+use caloris_compiler::units::{display_unit, Dim, Quantity, TempKind, UnitSystem};
+use caloris_compiler::Analysis;
+use comfy_table::{Cell, CellAlignment, Color, Table};
+use serde_json::{json, Value};
+
+pub const CAUTION: &str = "Results are engineering estimates from the stated model. Where safety or compliance depends on them \
+(burns, condensation, frozen pipes, fire, overheated parts), confirm against local codes and licensed practice.";
+
+fn show(value: f64, dim: Dim, kind: TempKind, system: UnitSystem) -> String {
+    caloris_compiler::units::format_quantity(Quantity { value, dim, kind }, system)
+}
+
+fn num(value: f64, dim: Dim, kind: TempKind, system: UnitSystem) -> (f64, String) {
+    let u = display_unit(dim, kind, system);
+    (u.from_si(value), u.text.clone())
+}
+
+fn new_table(headers: &[&str]) -> Table {
+    let mut t = Table::new();
+    t.load_preset("     ──            ");
+    t.set_header(headers.iter().map(|h| Cell::new(h)));
+    t
+}
+
+fn right(t: &mut Table, cols: &[usize]) {
+    for &c in cols {
+        if let Some(col) = t.column_mut(c) {
+            col.set_cell_alignment(CellAlignment::Right);
+        }
+    }
+}
+
+/// The human-readable report.
+pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
+    let Some(sol) = &a.solution else { return String::new() };
+    let net = &a.network;
+    let mut out = String::new();
+    if let Some(t) = &a.title {
+        out.push_str(&format!("{t}\n\n"));
+    }
+    let temp = |v| show(v, Dim::TEMPERATURE, TempKind::Point, system);
+    let power = |v| show(v, Dim::POWER, TempKind::NotTemperature, system);
+
+    let mut t = new_table(&["node", "temperature", "", "heat load"]);
+    for (i, n) in net.nodes.iter().enumerate() {
+        let state = if n.fixed.is_some() { "fixed" } else { "" };
+        let load = if n.load != 0.0 { power(n.load) } else { String::new() };
+        t.add_row(vec![Cell::new(&n.name), Cell::new(temp(sol.temperatures[i])), Cell::new(state), Cell::new(load)]);
+    }
+    right(&mut t, &[1, 3]);
+    out.push_str(&format!("Nodes\n{t}\n\n"));
+
+    let mut t = new_table(&["link", "from → to", "kind", "resistance", "heat flow", "heat flux"]);
+    for (i, l) in net.links.iter().enumerate() {
+        let q = sol.heat_flows[i];
+        let flux = l.area.map(|a| show(q / a, Dim::HEAT_FLUX, TempKind::NotTemperature, system)).unwrap_or_default();
+        t.add_row(vec![
+            Cell::new(&l.name),
+            Cell::new(format!("{} → {}", net.nodes[l.from].name, net.nodes[l.to].name)),
+            Cell::new(&l.kind),
+            Cell::new(show(1.0 / l.conductance(), Dim::RESISTANCE, TempKind::NotTemperature, system)),
+            Cell::new(power(q)),
+            Cell::new(flux),
+        ]);
+    }
+    right(&mut t, &[3, 4, 5]);
+    out.push_str(&format!("Links (heat flow positive from → to)\n{t}\n\n"));
+
+    if !sol.groups.is_empty() {
+        let mut t = new_table(&["build-up use", "resistance", "R-value", "U-value", "heat flow"]);
+        for g in &sol.groups {
+            t.add_row(vec![
+                Cell::new(&g.name),
+                Cell::new(show(g.resistance, Dim::RESISTANCE, TempKind::NotTemperature, system)),
+                Cell::new(g.r_value.map(|v| show(v, Dim::AREA_RESISTANCE, TempKind::NotTemperature, system)).unwrap_or_default()),
+                Cell::new(g.u_value.map(|v| show(v, Dim::HEAT_TRANSFER_COEFF, TempKind::NotTemperature, system)).unwrap_or_default()),
+                Cell::new(power(g.heat_flow)),
+            ]);
+        }
+        right(&mut t, &[1, 2, 3, 4]);
+        out.push_str(&format!("Build-ups (films included)\n{t}\n\n"));
+    }
+
+    let mut t = new_table(&["boundary", "heat delivered"]);
+    for &(i, q) in &sol.boundary_heat {
+        t.add_row(vec![Cell::new(&net.nodes[i].name), Cell::new(power(q))]);
+    }
+    right(&mut t, &[1]);
+    out.push_str(&format!("Boundaries (heat delivered into the network; negative = absorbed)\n{t}\n\n"));
+
+    if !sol.limits.is_empty() {
+        let mut t = new_table(&["limit", "measure", "value", "limit", "margin", "verdict"]);
+        for l in &sol.limits {
+            let dim = l.measure_dim();
+            let verdict = if l.passed { "pass" } else { "FAIL" };
+            let mut v = Cell::new(verdict);
+            if colour {
+                v = v.fg(if l.passed { Color::Green } else { Color::Red });
+            }
+            t.add_row(vec![
+                Cell::new(&l.name),
+                Cell::new(format!("{}({})", l.measure.name(), l.subject)),
+                Cell::new(show(l.actual, dim, l.kind(), system)),
+                Cell::new(format!("{} {}", l.op, show(l.limit, dim, l.kind(), system))),
+                Cell::new(show(l.margin, dim, l.margin_kind(), system)),
+                v,
+            ]);
+        }
+        right(&mut t, &[2, 4]);
+        out.push_str(&format!("Design limits\n{t}\n\n"));
+    }
+    out.push_str(&format!(
+        "Energy balance: worst residual at a free node {:.3e} W.\n\n{CAUTION}\n",
+        sol.worst_residual
+    ));
+    out
+}
+
+trait MeasureDim {
+    fn measure_dim(&self) -> Dim;
+}
+impl MeasureDim for caloris_compiler::limits::LimitResult {
+    fn measure_dim(&self) -> Dim {
+        self.measure.dim()
+    }
+}
+
+/// The JSON contract: see docs/json.md.
+pub fn json(a: &Analysis) -> String {
+    let net = &a.network;
+    let sol = a.solution.as_ref();
+    let nodes: Vec<Value> = net
+        .nodes
+        .iter()
+        .enumerate()
+        .map(|(i, n)| {
+            json!({
+                "name": n.name,
+                "temperature_K": sol.map(|s| s.temperatures[i]),
+                "fixed": n.fixed.is_some(),
+                "heat_load_W": n.load,
+                "balance_W": sol.map(|s| if n.fixed.is_some() { 0.0 } else { s.residuals[i] }),
+                "boundary_heat_W": sol.and_then(|s| s.boundary_heat.iter().find(|b| b.0 == i).map(|b| b.1)),
+            })
+        })
+        .collect();
+    let links: Vec<Value> = net
+        .links
+        .iter()
+        .enumerate()
+        .map(|(i, l)| {
+            let q = sol.map(|s| s.heat_flows[i]);
+            json!({
+                "name": l.name,
+                "from": net.nodes[l.from].name,
+                "to": net.nodes[l.to].name,
+                "kind": l.kind,
+                "heat_flow_W": q,
+                "resistance_K_per_W": 1.0 / l.conductance(),
+                "area_m2": l.area,
+                "heat_flux_W_per_m2": l.area.and_then(|a| q.map(|q| q / a)),
+                "buildup_use": l.group.map(|g| net.groups[g].name.clone()),
+                "formula": l.formula,
+            })
+        })
+        .collect();
+    let groups: Vec<Value> = sol
+        .map(|s| {
+            s.groups
+                .iter()
+                .zip(&net.groups)
+                .map(|(r, g)| {
+                    json!({
+                        "name": r.name, "buildup": g.buildup, "from": net.nodes[g.from].name, "to": net.nodes[g.to].name,
+                        "resistance_K_per_W": r.resistance, "heat_flow_W": r.heat_flow, "area_m2": g.area,
+                        "u_value_W_per_m2K": r.u_value, "r_value_m2K_per_W": r.r_value,
+                    })
+                })
+                .collect()
+        })
+        .unwrap_or_default();
+    let limits: Vec<Value> = sol
+        .map(|s| {
+            s.limits
+                .iter()
+                .map(|l| {
+                    let (unit, _) = si_unit(l.measure.dim());
+                    json!({
+                        "name": l.name, "measure": l.measure.name(), "subject": l.subject, "op": l.op,
+                        "value": l.actual, "limit": l.limit, "unit": unit, "passed": l.passed, "margin": l.margin,
+                    })
+                })
+                .collect()
+        })
+        .unwrap_or_default();
+    let diagnostics: Vec<Value> = a
+        .diagnostics
+        .iter()
+        .map(|d| {
+            let f = a.sources.get(d.primary.span.file);
+            let lc = f.lines.line_col_chars(d.primary.span.start);
+            json!({
+                "code": d.code, "severity": d.severity, "message": d.message, "file": f.name,
+                "line": lc.line + 1, "column": lc.col + 1, "help": d.help,
+            })
+        })
+        .collect();
+    let doc = json!({
+        "title": a.title,
+        "nodes": nodes,
+        "links": links,
+        "buildups": groups,
+        "limits": limits,
+        "balance": sol.map(|s| json!({"worst_residual_W": s.worst_residual})),
+        "diagnostics": diagnostics,
+        "caution": CAUTION,
+    });
+    serde_json::to_string_pretty(&doc).unwrap_or_default() + "\n"
+}
+
+fn si_unit(dim: Dim) -> (String, ()) {
+    (dim.si_unit(), ())
+}
+
+fn csv_field(s: &str) -> String {
+    if s.contains([',', '"', '\n']) {
+        format!("\"{}\"", s.replace('"', "\"\""))
+    } else {
+        s.to_string()
+    }
+}
+
+/// One row per node and per link, for spreadsheets.
+pub fn csv(a: &Analysis, system: UnitSystem) -> String {
+    let Some(sol) = &a.solution else { return String::new() };
+    let net = &a.network;
+    let (_, tu) = num(0.0, Dim::TEMPERATURE, TempKind::Point, system);
+    let (_, pu) = num(0.0, Dim::POWER, TempKind::NotTemperature, system);
+    let (_, ru) = num(0.0, Dim::RESISTANCE, TempKind::NotTemperature, system);
+    let mut out = format!("record,name,from,to,temperature [{tu}],heat_load [{pu}],heat_flow [{pu}],resistance [{ru}]\n");
+    for (i, n) in net.nodes.iter().enumerate() {
+        let (t, _) = num(sol.temperatures[i], Dim::TEMPERATURE, TempKind::Point, system);
+        let (l, _) = num(n.load, Dim::POWER, TempKind::NotTemperature, system);
+        out.push_str(&format!("{},{},,,{t},{l},,\n", if n.fixed.is_some() { "fixed_node" } else { "node" }, csv_field(&n.name)));
+    }
+    for (i, l) in net.links.iter().enumerate() {
+        let (q, _) = num(sol.heat_flows[i], Dim::POWER, TempKind::NotTemperature, system);
+        let (r, _) = num(1.0 / l.conductance(), Dim::RESISTANCE, TempKind::NotTemperature, system);
+        out.push_str(&format!(
+            "link,{},{},{},,,{q},{r}\n",
+            csv_field(&l.name),
+            csv_field(&net.nodes[l.from].name),
+            csv_field(&net.nodes[l.to].name)
+        ));
+    }
+    out
+}
