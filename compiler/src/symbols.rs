@@ -3,6 +3,7 @@
 
 use crate::span::Span;
 use serde::Serialize;
+use std::collections::HashMap;
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "snake_case")]
@@ -51,33 +52,61 @@ pub struct Symbol {
 #[derive(Clone, Debug, Default, Serialize)]
 pub struct SymbolTable {
     pub symbols: Vec<Symbol>,
+    /// First symbol of each name (build-up elements excluded). Models reach 10⁵ names, so name
+    /// lookups must not scan; symbols pushed directly onto `symbols` are still found by the
+    /// scanning fallback.
+    #[serde(skip)]
+    index: HashMap<String, usize>,
 }
 
 impl SymbolTable {
+    pub fn push(&mut self, symbol: Symbol) {
+        if symbol.kind != SymbolKind::BuildupElement {
+            self.index
+                .entry(symbol.name.clone())
+                .or_insert(self.symbols.len());
+        }
+        self.symbols.push(symbol);
+    }
+    fn position(&self, name: &str) -> Option<usize> {
+        match self.index.get(name) {
+            Some(&i) => Some(i),
+            None => self
+                .symbols
+                .iter()
+                .position(|s| s.name == name && s.kind != SymbolKind::BuildupElement),
+        }
+    }
     pub fn get(&self, name: &str) -> Option<&Symbol> {
-        self.symbols.iter().find(|s| s.name == name && s.kind != SymbolKind::BuildupElement)
+        self.position(name).map(|i| &self.symbols[i])
     }
     pub fn add_ref(&mut self, name: &str, span: Span) {
-        if let Some(s) = self.symbols.iter_mut().find(|s| s.name == name && s.kind != SymbolKind::BuildupElement) {
-            s.refs.push(span);
+        if let Some(i) = self.position(name) {
+            self.symbols[i].refs.push(span);
         }
     }
     pub fn add_element_ref(&mut self, buildup: &str, element: &str, span: Span) {
-        if let Some(s) = self
-            .symbols
-            .iter_mut()
-            .find(|s| s.kind == SymbolKind::BuildupElement && s.name == element && s.parent.as_deref() == Some(buildup))
-        {
+        if let Some(s) = self.symbols.iter_mut().find(|s| {
+            s.kind == SymbolKind::BuildupElement
+                && s.name == element
+                && s.parent.as_deref() == Some(buildup)
+        }) {
             s.refs.push(span);
         }
     }
     /// The symbol declared or used at a byte offset of a file.
     pub fn at(&self, span_file: crate::span::FileId, offset: u32) -> Option<&Symbol> {
         self.symbols.iter().find(|s| {
-            (s.def.file == span_file && s.def.contains(offset)) || s.refs.iter().any(|r| r.file == span_file && r.contains(offset))
+            (s.def.file == span_file && s.def.contains(offset))
+                || s.refs
+                    .iter()
+                    .any(|r| r.file == span_file && r.contains(offset))
         })
     }
     pub fn names_of(&self, kind: SymbolKind) -> impl Iterator<Item = &str> {
-        self.symbols.iter().filter(move |s| s.kind == kind).map(|s| s.name.as_str())
+        self.symbols
+            .iter()
+            .filter(move |s| s.kind == kind)
+            .map(|s| s.name.as_str())
     }
 }
