@@ -1,5 +1,6 @@
 //! `caloris`: check and solve thermal network models from the command line.
 
+mod fmt_cmd;
 mod loader;
 mod output;
 
@@ -48,6 +49,15 @@ enum Command {
         #[arg(long, value_enum, default_value_t = Units::Si)]
         units: Units,
     },
+    /// Rewrite model files in the one canonical layout (comments and blank lines kept).
+    Fmt {
+        /// Model files or folders of them (`-` formats standard input to standard output).
+        #[arg(required = true)]
+        files: Vec<PathBuf>,
+        /// Change nothing; list the files that would change and exit with 1 if there are any.
+        #[arg(long)]
+        check: bool,
+    },
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -74,6 +84,7 @@ fn main() -> ExitCode {
             };
             run(&file, false, format, system)
         }
+        Command::Fmt { files, check } => fmt_cmd::run(&files, check),
     };
     ExitCode::from(code)
 }

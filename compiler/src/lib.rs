@@ -10,6 +10,7 @@ pub mod diagnostic;
 pub mod elaborate;
 pub mod elements;
 pub mod eval;
+pub mod format;
 pub mod lexer;
 pub mod limits;
 pub mod network;
