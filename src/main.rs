@@ -1,6 +1,9 @@
 //! `caloris`: check and solve thermal network models from the command line.
 
+mod diff_cmd;
+mod diff_render;
 mod fmt_cmd;
+mod git_rev;
 mod loader;
 mod output;
 
@@ -58,6 +61,21 @@ enum Command {
         #[arg(long)]
         check: bool,
     },
+    /// Show how results move between two versions of a model: `diff OLD NEW` or `diff --rev REV FILE`.
+    Diff {
+        /// OLD and NEW model files, or with --rev the one model file.
+        #[arg(required = true, num_args = 1..=2, value_name = "FILE")]
+        files: Vec<PathBuf>,
+        /// Compare the working copy of FILE with FILE at this git revision (imports read from it too).
+        #[arg(long, value_name = "REV")]
+        rev: Option<String>,
+        /// Output format: a terminal table, Markdown for a pull-request comment, or JSON.
+        #[arg(long, value_enum, default_value_t = diff_render::DiffFormat::Table)]
+        format: diff_render::DiffFormat,
+        /// Unit system of the table and Markdown (JSON is always SI).
+        #[arg(long, value_enum, default_value_t = Units::Si)]
+        units: Units,
+    },
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -73,6 +91,15 @@ enum Units {
     Us,
 }
 
+impl Units {
+    fn system(self) -> UnitSystem {
+        match self {
+            Units::Si => UnitSystem::Si,
+            Units::Us => UnitSystem::Us,
+        }
+    }
+}
+
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let code = match cli.command {
@@ -85,6 +112,7 @@ fn main() -> ExitCode {
             run(&file, false, format, system)
         }
         Command::Fmt { files, check } => fmt_cmd::run(&files, check),
+        Command::Diff { files, rev, format, units } => diff_cmd::run(&files, rev.as_deref(), format, units.system()),
     };
     ExitCode::from(code)
 }

@@ -6,6 +6,7 @@
 //! [`limits`]) → [`network`] → [`solve`] → [`results`]; [`analysis::analyze`] runs it all.
 
 pub mod analysis;
+pub mod compare;
 pub mod diagnostic;
 pub mod elaborate;
 pub mod elements;
