@@ -12,7 +12,7 @@ use caloris_compiler::source::SourceLoader;
 use caloris_compiler::units::UnitSystem;
 use caloris_compiler::{analyze, Analysis, Options};
 use std::io::IsTerminal;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 /// One side of the comparison: a name for people, the text and where its imports come from.
 struct Version {
@@ -31,7 +31,7 @@ fn working_copy(file: &PathBuf) -> Result<Version, String> {
     })
 }
 
-fn at_revision(file: &PathBuf, rev: &str) -> Result<Version, String> {
+fn at_revision(file: &Path, rev: &str) -> Result<Version, String> {
     let located = git_rev::locate(file)?;
     let text = git_rev::show(&located.root, rev, &located.rel)
         .map_err(|e| format!("cannot read `{}` at `{rev}`: {e}", located.rel))?;

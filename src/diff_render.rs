@@ -454,7 +454,7 @@ pub fn table(c: &Comparison, old: &str, new: &str, system: UnitSystem, colour: b
     for s in sections(c, &f) {
         let mut t = Table::new();
         t.load_preset("     ──            ");
-        t.set_header(s.headers.iter().map(|h| Cell::new(h)));
+        t.set_header(s.headers.iter().map(Cell::new));
         for (i, row) in s.rows.iter().enumerate() {
             let alarm = colour && s.alarm.contains(&i);
             t.add_row(row.iter().map(|v| {

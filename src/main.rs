@@ -6,6 +6,7 @@ mod fmt_cmd;
 mod git_rev;
 mod loader;
 mod output;
+mod report;
 
 use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::units::UnitSystem;
@@ -76,6 +77,20 @@ enum Command {
         #[arg(long, value_enum, default_value_t = Units::Si)]
         units: Units,
     },
+    /// Write a Markdown report with figures: DIR/report.md, DIR/profile.svg, DIR/network.svg.
+    Report {
+        /// Model file (`-` reads standard input).
+        file: PathBuf,
+        /// Folder to write into (created when missing).
+        #[arg(short = 'o', long = "out", value_name = "DIR")]
+        out: PathBuf,
+        /// Nodes of the temperature profile in order, comma-separated (default: through the first build-up).
+        #[arg(long, value_delimiter = ',', value_name = "NODES")]
+        path: Option<Vec<String>>,
+        /// Unit system of the report.
+        #[arg(long, value_enum, default_value_t = Units::Si)]
+        units: Units,
+    },
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -113,6 +128,7 @@ fn main() -> ExitCode {
         }
         Command::Fmt { files, check } => fmt_cmd::run(&files, check),
         Command::Diff { files, rev, format, units } => diff_cmd::run(&files, rev.as_deref(), format, units.system()),
+        Command::Report { file, out, path, units } => report::run(&file, &out, path.as_deref(), units.system()),
     };
     ExitCode::from(code)
 }

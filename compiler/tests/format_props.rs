@@ -107,7 +107,7 @@ fn model() -> impl Strategy<Value = Vec<Decl>> {
 /// Whitespace to put between two tokens, by choice index; comments carry their own newline.
 fn gap(choice: u8, comment_no: &mut usize) -> String {
     match choice % 12 {
-        0 | 1 | 2 | 3 => " ".into(),
+        0..=3 => " ".into(),
         4 => "".into(),
         5 => "\n".into(),
         6 => "\n\n\n".into(),
