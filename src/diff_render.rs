@@ -138,11 +138,12 @@ fn summary(f: &Fmt, c: &Comparison) -> Vec<String> {
         out.push("No change in inputs, network or results.".to_string());
     }
     let n = c.inputs.len();
-    out.push(match n {
-        0 => "No input changed.".to_string(),
-        1 => "1 input changed.".to_string(),
-        _ => format!("{n} inputs changed."),
-    });
+    match n {
+        0 if c.is_empty() => {}
+        0 => out.push("No input changed.".to_string()),
+        1 => out.push("1 input changed.".to_string()),
+        _ => out.push(format!("{n} inputs changed.")),
+    }
     let (added, removed) = (
         c.structure.iter().filter(|s| s.added).count(),
         c.structure.iter().filter(|s| !s.added).count(),

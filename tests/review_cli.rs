@@ -264,3 +264,76 @@ fn diff_rev_reads_the_old_model_and_its_imports_from_git() {
         .expect("runs");
     assert_eq!(out.status.code(), Some(2));
 }
+
+/// Commit in `dir` with the shipped pre-commit hook installed; true when git accepted it.
+fn commit_with_hook(dir: &Path, message: &str) -> (bool, String) {
+    let out = std::process::Command::new("git")
+        .arg("-C")
+        .arg(dir)
+        .args([
+            "-c",
+            "user.name=Test",
+            "-c",
+            "user.email=test@example.invalid",
+            "-c",
+            "commit.gpgsign=false",
+        ])
+        .args(["commit", "-q", "-m", message])
+        .env("CALORIS", assert_cmd::cargo::cargo_bin("caloris"))
+        .env("NO_COLOR", "1")
+        .output()
+        .expect("git runs");
+    (
+        out.status.success(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+#[test]
+fn pre_commit_hook_stops_unformatted_broken_and_failing_models() {
+    let dir = scratch("hook");
+    git(&dir, &["init", "-q"]);
+    let hook = dir.join(".git/hooks/pre-commit");
+    std::fs::copy(
+        Path::new(env!("CARGO_MANIFEST_DIR")).join("tools/pre-commit"),
+        &hook,
+    )
+    .expect("install hook");
+    let model = dir.join("wall.heat");
+
+    std::fs::write(&model, MESSY).expect("write");
+    git(&dir, &["add", "wall.heat"]);
+    let (ok, err) = commit_with_hook(&dir, "messy");
+    assert!(!ok && err.contains("wall.heat is not formatted"), "{err}");
+
+    std::fs::write(&model, TIDY).expect("write");
+    git(&dir, &["add", "wall.heat"]);
+    let (ok, err) = commit_with_hook(&dir, "tidy");
+    assert!(ok, "{err}");
+
+    // Only the staged text counts: a broken working copy does not matter once staged text is good.
+    std::fs::write(&model, format!("{TIDY}limit hot: temperature(a) < 10 °C\n")).expect("write");
+    git(&dir, &["add", "wall.heat"]);
+    std::fs::write(&model, "this is not a model\n").expect("write");
+    let (ok, err) = commit_with_hook(&dir, "limit");
+    assert!(!ok && err.contains("a design limit fails"), "{err}");
+
+    std::fs::write(
+        &model,
+        format!("{TIDY}link m: a to nowhere resistance(1 K/W)\n"),
+    )
+    .expect("write");
+    git(&dir, &["add", "wall.heat"]);
+    let (ok, err) = commit_with_hook(&dir, "broken");
+    assert!(
+        !ok && err.contains("has errors") && err.contains("E102"),
+        "{err}"
+    );
+    assert!(
+        !std::fs::read_dir(&dir).expect("dir").flatten().any(|e| e
+            .file_name()
+            .to_string_lossy()
+            .starts_with(".caloris-staged")),
+        "temporary files left behind"
+    );
+}
