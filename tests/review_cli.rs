@@ -337,3 +337,43 @@ fn pre_commit_hook_stops_unformatted_broken_and_failing_models() {
         "temporary files left behind"
     );
 }
+
+#[test]
+fn diff_table_and_markdown_snapshots() {
+    let dir = scratch("diff_snapshots");
+    std::fs::write(dir.join("thick.heat"), wall("140 mm")).expect("write");
+    let thin = wall("100 mm").replace(
+        "node cold (fixed = 0 °C)",
+        "node cold (fixed = -4 °C)\nnode frame_core",
+    );
+    let thin = format!("{thin}link frame_a: warm to frame_core resistance(4 K/W)\nlink frame_b: frame_core to cold resistance(1 K/W)\n");
+    std::fs::write(dir.join("thin.heat"), thin).expect("write");
+    let run = |format: &str| {
+        let out = caloris()
+            .current_dir(&dir)
+            .args(["diff", "thick.heat", "thin.heat", "--format", format])
+            .output()
+            .expect("runs");
+        assert_eq!(out.status.code(), Some(3));
+        String::from_utf8_lossy(&out.stdout).into_owned()
+    };
+    insta::assert_snapshot!("diff_table", run("table"));
+    insta::assert_snapshot!("diff_markdown", run("markdown"));
+}
+
+#[test]
+fn fmt_refusal_message_snapshot() {
+    let dir = scratch("fmt_refusal");
+    std::fs::write(
+        dir.join("broken.heat"),
+        "node a (fixed = 20 °C)\nlink b: a to  layer(k = 1 W/(m*K))\n",
+    )
+    .expect("write");
+    let out = caloris()
+        .current_dir(&dir)
+        .args(["fmt", "broken.heat"])
+        .output()
+        .expect("runs");
+    assert_eq!(out.status.code(), Some(1));
+    insta::assert_snapshot!("fmt_refusal", String::from_utf8_lossy(&out.stderr));
+}
