@@ -156,7 +156,7 @@ fn render(decls: &[Decl], choices: &[u8]) -> String {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
+    #![proptest_config(ProptestConfig { cases: 256, ..ProptestConfig::default() })]
 
     #[test]
     fn formatting_is_idempotent_keeps_comments_and_meaning(

@@ -16,8 +16,9 @@ const MAX_COLUMNS: usize = 12;
 const COL_W: f64 = 150.0;
 const ROW_H: f64 = 96.0;
 
-/// Column of each node: distinct temperatures (warmest first), or equal temperature bands when
-/// there are more than [`MAX_COLUMNS`] of them.
+/// Column of each node: one per distinct temperature (warmest first); with more than
+/// [`MAX_COLUMNS`] distinct temperatures, consecutive ones share a column so that the columns
+/// hold about equally many (nodes at one temperature always stay together).
 fn columns(t: &[f64]) -> Vec<usize> {
     let (lo, hi) = t
         .iter()
@@ -31,14 +32,16 @@ fn columns(t: &[f64]) -> Vec<usize> {
             distinct.push(t[i]);
         }
     }
-    if distinct.len() <= MAX_COLUMNS {
-        return t
-            .iter()
-            .map(|&v| distinct.iter().position(|&d| d - v <= eps).unwrap_or(0))
-            .collect();
-    }
+    let rank = |v: f64| distinct.iter().position(|&d| d - v <= eps).unwrap_or(0);
+    let count = distinct.len();
     t.iter()
-        .map(|&v| (((hi - v) / (hi - lo)) * (MAX_COLUMNS as f64 - 1e-9)).floor() as usize)
+        .map(|&v| {
+            if count <= MAX_COLUMNS {
+                rank(v)
+            } else {
+                rank(v) * MAX_COLUMNS / count
+            }
+        })
         .collect()
 }
 
@@ -162,7 +165,9 @@ pub fn svg(net: &Network, sol: &Solution, system: UnitSystem, title: &str) -> Op
             esc(&link.formula)
         );
         let apex = (mid.0 + nx * bend, mid.1 + ny * bend);
-        let flow = format_quantity(Quantity::new(q.abs(), Dim::POWER), system);
+        // A flow at round-off level (a link between two nodes at one temperature) reads as 0.
+        let shown = if q.abs() <= 1e-9 * qmax { 0.0 } else { q.abs() };
+        let flow = format_quantity(Quantity::new(shown, Dim::POWER), system);
         let halo = "font-size=\"10\" paint-order=\"stroke\" stroke=\"white\" stroke-width=\"3\"";
         svg::text(&mut out, apex.0, apex.1 - 8.0, "middle", halo, &link.name);
         svg::text(
