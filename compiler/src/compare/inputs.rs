@@ -174,7 +174,7 @@ pub(super) fn inputs(old: &Analysis, new: &Analysis, out: &mut Vec<InputChange>)
     let is_link = |w: &BTreeMap<ArgKey, (String, Option<Quantity>)>, name: &str| {
         w.contains_key(&("link", name.to_string(), "kind".to_string()))
     };
-    let in_both: Vec<String> = wo
+    let in_both: std::collections::BTreeSet<String> = wo
         .keys()
         .filter(|k| k.0 == "link" && k.2 == "kind" && is_link(&wn, &k.1))
         .map(|k| k.1.clone())

@@ -168,7 +168,21 @@ pub(super) fn results(
             }
         }
     }
-    let node_order = |name: &str| nn.node_id(name).unwrap_or(usize::MAX);
+    // Network order of the new version, for ties; looked up by name once.
+    let index = |names: Vec<&String>| -> std::collections::HashMap<String, usize> {
+        names
+            .into_iter()
+            .cloned()
+            .enumerate()
+            .map(|(i, n)| (n, i))
+            .collect()
+    };
+    let (node_ix, link_ix) = (
+        index(nn.nodes.iter().map(|n| &n.name).collect()),
+        index(nn.links.iter().map(|l| &l.name).collect()),
+    );
+    let group_ix = index(nn.groups.iter().map(|g| &g.name).collect());
+    let node_order = |name: &str| node_ix.get(name).copied().unwrap_or(usize::MAX);
     order_by_effect(&mut c.temperatures, |m| m.delta, |m| node_order(&m.name));
     let scale = so
         .heat_flows
@@ -202,7 +216,7 @@ pub(super) fn results(
     order_by_effect(
         &mut c.links,
         |l| l.delta_heat_flow,
-        |l| nn.link_id(&l.name).unwrap_or(usize::MAX),
+        |l| link_ix.get(&l.name).copied().unwrap_or(usize::MAX),
     );
     let groups = |s: &crate::results::Solution| -> BTreeMap<String, crate::results::GroupResult> {
         s.groups
@@ -239,7 +253,7 @@ pub(super) fn results(
             .abs(),
     };
     order_by_effect(&mut c.buildups, ratio, |b| {
-        nn.group_id(&b.name).unwrap_or(usize::MAX)
+        group_ix.get(&b.name).copied().unwrap_or(usize::MAX)
     });
     let bounds =
         |net: &crate::network::Network, s: &crate::results::Solution| -> BTreeMap<String, f64> {
