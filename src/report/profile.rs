@@ -91,23 +91,16 @@ pub fn default_path(net: &Network, sol: &Solution) -> Option<(Vec<usize>, String
         return None;
     }
     // Breadth-first search: fewest links, ties to the lower node index (deterministic).
+    let mut neighbours = vec![Vec::new(); net.nodes.len()];
+    for l in &net.links {
+        neighbours[l.from].push(l.to);
+        neighbours[l.to].push(l.from);
+    }
     let mut prev = vec![usize::MAX; net.nodes.len()];
     let mut queue = std::collections::VecDeque::from([hot]);
     prev[hot] = hot;
     while let Some(a) = queue.pop_front() {
-        let mut next: Vec<usize> = net
-            .links
-            .iter()
-            .filter_map(|l| {
-                if l.from == a {
-                    Some(l.to)
-                } else if l.to == a {
-                    Some(l.from)
-                } else {
-                    None
-                }
-            })
-            .collect();
+        let mut next = std::mem::take(&mut neighbours[a]);
         next.sort_unstable();
         for b in next {
             if prev[b] == usize::MAX {
@@ -136,10 +129,20 @@ pub fn default_path(net: &Network, sol: &Solution) -> Option<(Vec<usize>, String
 /// Positions along the path: the resistance of the links joining each pair (in parallel when
 /// several do), summed from the start.
 pub fn profile(net: &Network, nodes: Vec<usize>, origin: String) -> Profile {
+    let mut by_pair: std::collections::HashMap<(usize, usize), Vec<usize>> = Default::default();
+    for (i, l) in net.links.iter().enumerate() {
+        by_pair
+            .entry((l.from.min(l.to), l.from.max(l.to)))
+            .or_default()
+            .push(i);
+    }
     let steps: Vec<(f64, Option<f64>)> = nodes
         .windows(2)
         .map(|w| {
-            let links = joining(net, w[0], w[1]);
+            let links = by_pair
+                .get(&(w[0].min(w[1]), w[0].max(w[1])))
+                .cloned()
+                .unwrap_or_default();
             let g: f64 = links.iter().map(|&l| net.links[l].conductance()).sum();
             let areas: Vec<Option<f64>> = links.iter().map(|&l| net.links[l].area).collect();
             let area = if areas.len() == 1 { areas[0] } else { None };
@@ -285,20 +288,26 @@ pub fn svg(p: &Profile, net: &Network, sol: &Solution, system: UnitSystem, title
         "<polyline points=\"{}\" fill=\"none\" stroke=\"#c8372d\" stroke-width=\"2\"/>",
         points.join(" ")
     );
-    let anchors = spread(
-        &xs.iter().map(|&x| sx(x)).collect::<Vec<_>>(),
-        18.0,
-        left + pw + right - 4.0,
-    );
-    for (((&x, &t), &i), &ax) in xs.iter().zip(&temps).zip(&p.nodes).zip(&anchors) {
-        let (px, py) = (sx(x), sy(t));
+    // A long path (a rod in many segments) labels about thirty of its nodes, first and last
+    // always; every node keeps its point.
+    let every = p.nodes.len().div_ceil(30).max(1);
+    let labelled: Vec<usize> = (0..p.nodes.len())
+        .filter(|&k| k % every == 0 || k + 1 == p.nodes.len())
+        .collect();
+    let wish: Vec<f64> = labelled.iter().map(|&k| sx(xs[k])).collect();
+    let anchors = spread(&wish, 18.0, left + pw + right - 4.0);
+    let radius = if p.nodes.len() > 60 { "1.5" } else { "4" };
+    for ((&x, &t), &i) in xs.iter().zip(&temps).zip(&p.nodes) {
         let _ = writeln!(
             out,
-            "<circle cx=\"{}\" cy=\"{}\" r=\"4\" fill=\"#c8372d\"><title>{}</title></circle>",
-            n(px),
-            n(py),
+            "<circle cx=\"{}\" cy=\"{}\" r=\"{radius}\" fill=\"#c8372d\"><title>{}</title></circle>",
+            n(sx(x)),
+            n(sy(t)),
             esc(&net.nodes[i].name)
         );
+    }
+    for (&k, &ax) in labelled.iter().zip(&anchors) {
+        let (px, t, i) = (sx(xs[k]), temps[k], p.nodes[k]);
         // Labels of close nodes are pushed apart and joined to their point by a leader line.
         let (l1, l2) = (top + ph + 22.0, top + ph + 34.0);
         let _ = writeln!(
