@@ -28,7 +28,7 @@ fn model() -> impl Strategy<Value = Vec<Decl>> {
     (
         prop::collection::vec(0.02f64..2.0, 1..4), // conductivities
         prop::collection::vec(1.0f64..200.0, 1..5), // thicknesses, mm
-        -30.0f64..0.0,                             // cold side, °C
+        -30.0f64..-0.5,                            // cold side, °C
         10.0f64..60.0,                             // warm side, °C
         prop::collection::vec(0.1f64..5.0, 0..3),  // extra resistances
         0.0f64..10.0,                              // heat load
@@ -140,6 +140,11 @@ fn render(decls: &[Decl], choices: &[u8]) -> String {
     for (i, t) in all.iter().enumerate() {
         if i > 0 {
             let mut sep = gap(choices[i % choices.len()], &mut comment_no);
+            // A unit runs on over `*`, `/` and digits written right after it (`2 m*3 m` is
+            // one quantity), so nothing is glued to a number that carries a unit.
+            if sep.is_empty() && all[i - 1].contains(' ') {
+                sep = " ".into();
+            }
             if !sep.contains('\n') && !keeps_tokens(all[i - 1], &sep, t) {
                 sep = if keeps_tokens(all[i - 1], " ", t) {
                     " ".into()
