@@ -1,7 +1,12 @@
 //! `caloris`: check and solve thermal network models from the command line.
 
+mod diff_cmd;
+mod diff_render;
+mod fmt_cmd;
+mod git_rev;
 mod loader;
 mod output;
+mod report;
 
 use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::units::UnitSystem;
@@ -52,6 +57,44 @@ enum Command {
         #[arg(long, value_enum, default_value_t = Units::Si)]
         units: Units,
     },
+    /// Rewrite model files in the one canonical layout (comments and blank lines kept).
+    Fmt {
+        /// Model files or folders of them (`-` formats standard input to standard output).
+        #[arg(required = true)]
+        files: Vec<PathBuf>,
+        /// Change nothing; list the files that would change and exit with 1 if there are any.
+        #[arg(long)]
+        check: bool,
+    },
+    /// Show how results move between two versions of a model: `diff OLD NEW` or `diff --rev REV FILE`.
+    Diff {
+        /// OLD and NEW model files, or with --rev the one model file.
+        #[arg(required = true, num_args = 1..=2, value_name = "FILE")]
+        files: Vec<PathBuf>,
+        /// Compare the working copy of FILE with FILE at this git revision (imports read from it too).
+        #[arg(long, value_name = "REV")]
+        rev: Option<String>,
+        /// Output format: a terminal table, Markdown for a pull-request comment, or JSON.
+        #[arg(long, value_enum, default_value_t = diff_render::DiffFormat::Table)]
+        format: diff_render::DiffFormat,
+        /// Unit system of the table and Markdown (JSON is always SI).
+        #[arg(long, value_enum, default_value_t = Units::Si)]
+        units: Units,
+    },
+    /// Write a Markdown report with figures: DIR/report.md, DIR/profile.svg, DIR/network.svg.
+    Report {
+        /// Model file (`-` reads standard input).
+        file: PathBuf,
+        /// Folder to write into (created when missing).
+        #[arg(short = 'o', long = "out", value_name = "DIR")]
+        out: PathBuf,
+        /// Nodes of the temperature profile in order, comma-separated (default: through the first build-up).
+        #[arg(long, value_delimiter = ',', value_name = "NODES")]
+        path: Option<Vec<String>>,
+        /// Unit system of the report.
+        #[arg(long, value_enum, default_value_t = Units::Si)]
+        units: Units,
+    },
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -65,6 +108,15 @@ enum Format {
 enum Units {
     Si,
     Us,
+}
+
+impl Units {
+    fn system(self) -> UnitSystem {
+        match self {
+            Units::Si => UnitSystem::Si,
+            Units::Us => UnitSystem::Us,
+        }
+    }
 }
 
 fn main() -> ExitCode {
@@ -82,6 +134,19 @@ fn main() -> ExitCode {
             };
             run(&file, false, format, system)
         }
+        Command::Fmt { files, check } => fmt_cmd::run(&files, check),
+        Command::Diff {
+            files,
+            rev,
+            format,
+            units,
+        } => diff_cmd::run(&files, rev.as_deref(), format, units.system()),
+        Command::Report {
+            file,
+            out,
+            path,
+            units,
+        } => report::run(&file, &out, path.as_deref(), units.system()),
     };
     ExitCode::from(code)
 }

@@ -6,10 +6,12 @@
 //! [`limits`]) → [`network`] → [`solve`] → [`results`]; [`analysis::analyze`] runs it all.
 
 pub mod analysis;
+pub mod compare;
 pub mod diagnostic;
 pub mod elaborate;
 pub mod elements;
 pub mod eval;
+pub mod format;
 pub mod lexer;
 pub mod limits;
 pub mod network;
