@@ -42,7 +42,11 @@ fn every_model_formats_idempotently_and_keeps_its_meaning() {
             // Files with syntax errors (tests/cases/errors) are refused, never half-formatted.
             Err(d) => {
                 let (_, syntax) = parse(&text, FileId(0));
-                assert!(!syntax.is_empty(), "{}: refused without a syntax error: {d:?}", f.display());
+                assert!(
+                    !syntax.is_empty(),
+                    "{}: refused without a syntax error: {d:?}",
+                    f.display()
+                );
                 continue;
             }
         };
