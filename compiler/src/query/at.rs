@@ -15,13 +15,29 @@ pub enum Target<'a> {
     /// A declared name, at its declaration or at a use; `span` is the occurrence under the cursor.
     Symbol { symbol: &'a Symbol, span: Span },
     /// A number with its unit as written (`12.5 mm`, `-8 °C`), and its value in SI.
-    Literal { span: Span, quantity: Quantity },
+    Literal {
+        span: Span,
+        value: f64,
+        unit: Option<&'a str>,
+        quantity: Quantity,
+    },
     /// The kind of an element call (`layer` in `layer(...)`).
-    ElementKind { span: Span, kind: &'static dyn ElementKind },
+    ElementKind {
+        span: Span,
+        kind: &'static dyn ElementKind,
+    },
     /// A named argument of an element call (`thickness` in `thickness = 140 mm`).
-    ArgName { span: Span, kind: &'static dyn ElementKind, param: &'static ParamSpec },
+    ArgName {
+        span: Span,
+        kind: &'static dyn ElementKind,
+        param: &'static ParamSpec,
+    },
     /// The measure of a limit (`u_value`); `doc` says what it measures.
-    Measure { span: Span, name: &'static str, doc: &'static str },
+    Measure {
+        span: Span,
+        name: &'static str,
+        doc: &'static str,
+    },
     /// A standard function or the constant `pi`.
     Function { span: Span, name: &'a str },
 }
@@ -57,13 +73,21 @@ pub fn target_at(a: &Analysis, file: FileId, offset: u32) -> Option<Target<'_>> 
 fn in_item(item: &Item, offset: u32) -> Option<Target<'_>> {
     match &item.kind {
         ItemKind::Param { value, .. } => in_expr(value, offset),
-        ItemKind::Material { args, .. } | ItemKind::Node { args, .. } => args.iter().find_map(|a| in_expr(&a.value, offset)),
+        ItemKind::Material { args, .. } | ItemKind::Node { args, .. } => {
+            args.iter().find_map(|a| in_expr(&a.value, offset))
+        }
         ItemKind::Link { element, .. } => in_call(element, offset),
-        ItemKind::Buildup { elements, .. } => elements.iter().find_map(|e| in_call(&e.element, offset)),
+        ItemKind::Buildup { elements, .. } => {
+            elements.iter().find_map(|e| in_call(&e.element, offset))
+        }
         ItemKind::Limit { measure, value, .. } => {
             if measure.span.contains(offset) {
                 let &(name, _, doc) = MEASURES.iter().find(|m| m.0 == measure.name)?;
-                return Some(Target::Measure { span: measure.span, name, doc });
+                return Some(Target::Measure {
+                    span: measure.span,
+                    name,
+                    doc,
+                });
             }
             in_expr(value, offset)
         }
@@ -74,13 +98,20 @@ fn in_item(item: &Item, offset: u32) -> Option<Target<'_>> {
 fn in_call(call: &ElementCall, offset: u32) -> Option<Target<'_>> {
     let kind = elements::lookup(&call.kind.name);
     if call.kind.span.contains(offset) {
-        return kind.map(|kind| Target::ElementKind { span: call.kind.span, kind });
+        return kind.map(|kind| Target::ElementKind {
+            span: call.kind.span,
+            kind,
+        });
     }
     call.args.iter().find_map(|arg: &Arg| {
         if let (Some(name), Some(kind)) = (&arg.name, kind) {
             if name.span.contains(offset) {
                 let param = kind.params().iter().find(|p| p.name == name.name)?;
-                return Some(Target::ArgName { span: name.span, kind, param });
+                return Some(Target::ArgName {
+                    span: name.span,
+                    kind,
+                    param,
+                });
             }
         }
         in_expr(&arg.value, offset)
@@ -92,29 +123,44 @@ fn in_expr(e: &Expr, offset: u32) -> Option<Target<'_>> {
         return None;
     }
     match &e.kind {
-        ExprKind::Number { value, unit, .. } => literal(*value, unit.as_ref().map(|u| u.0.as_str()), e.span),
+        ExprKind::Number { value, unit, .. } => {
+            literal(*value, unit.as_ref().map(|u| u.0.as_str()), e.span)
+        }
         ExprKind::Neg(inner) => match &inner.kind {
             // `-8 °C` is one literal, as the evaluator reads it.
-            ExprKind::Number { value, unit, .. } => literal(-value, unit.as_ref().map(|u| u.0.as_str()), e.span),
+            ExprKind::Number { value, unit, .. } => {
+                literal(-*value, unit.as_ref().map(|u| u.0.as_str()), e.span)
+            }
             _ => in_expr(inner, offset),
         },
         ExprKind::Binary { lhs, rhs, .. } => in_expr(lhs, offset).or_else(|| in_expr(rhs, offset)),
         ExprKind::Paren(inner) => in_expr(inner, offset),
         ExprKind::Call { func, args } => {
             if func.span.contains(offset) {
-                return Some(Target::Function { span: func.span, name: &func.name });
+                return Some(Target::Function {
+                    span: func.span,
+                    name: &func.name,
+                });
             }
             args.iter().find_map(|a| in_expr(a, offset))
         }
-        ExprKind::Name(id) if id.name == "pi" => Some(Target::Function { span: id.span, name: &id.name }),
+        ExprKind::Name(id) if id.name == "pi" => Some(Target::Function {
+            span: id.span,
+            name: &id.name,
+        }),
         ExprKind::Name(_) | ExprKind::Missing => None,
     }
 }
 
-fn literal(value: f64, unit: Option<&str>, span: Span) -> Option<Target<'static>> {
+fn literal(value: f64, unit: Option<&str>, span: Span) -> Option<Target<'_>> {
     let quantity = match unit {
         Some(u) => parse_unit(u).ok()?.to_si(value),
         None => Quantity::number(value),
     };
-    Some(Target::Literal { span, quantity })
+    Some(Target::Literal {
+        span,
+        value,
+        unit,
+        quantity,
+    })
 }

@@ -52,7 +52,22 @@ pub fn node_balance(a: &Analysis, name: &str) -> Option<NodeBalance> {
 }
 
 /// US customary spellings; any literal using one counts for the US system.
-const US_ATOMS: &[&str] = &["°F", "degF", "℉", "°R", "degR", "Δ°F", "∆°F", "delta_degF", "in", "ft", "yd", "mi", "lb", "Btu"];
+const US_ATOMS: &[&str] = &[
+    "°F",
+    "degF",
+    "℉",
+    "°R",
+    "degR",
+    "Δ°F",
+    "∆°F",
+    "delta_degF",
+    "in",
+    "ft",
+    "yd",
+    "mi",
+    "lb",
+    "Btu",
+];
 
 /// The system most of the root file's quantities are written in (SI on a tie), so results can
 /// be shown first in the units the analyst uses.
@@ -63,8 +78,13 @@ pub fn preferred_system(a: &Analysis) -> crate::units::UnitSystem {
         return crate::units::UnitSystem::Si;
     };
     let mut count = |unit: &str| {
-        let atoms = unit.split(|c: char| matches!(c, '*' | '/' | '^' | '(' | ')' | '·' | '⋅') || c.is_ascii_digit() || c == '-');
-        if atoms.clone().any(|t| US_ATOMS.contains(&t.trim_end_matches(['²', '³', '⁻', '¹', '⁴']))) {
+        let atoms = unit.split(|c: char| {
+            matches!(c, '*' | '/' | '^' | '(' | ')' | '·' | '⋅') || c.is_ascii_digit() || c == '-'
+        });
+        if atoms
+            .clone()
+            .any(|t| US_ATOMS.contains(&t.trim_end_matches(['²', '³', '⁻', '¹', '⁴'])))
+        {
             us += 1;
         } else {
             si += 1;
@@ -73,9 +93,14 @@ pub fn preferred_system(a: &Analysis) -> crate::units::UnitSystem {
     for item in &root.items {
         let exprs: Vec<&Expr> = match &item.kind {
             ItemKind::Param { value, .. } | ItemKind::Limit { value, .. } => vec![value],
-            ItemKind::Material { args, .. } | ItemKind::Node { args, .. } => args.iter().map(|a| &a.value).collect(),
+            ItemKind::Material { args, .. } | ItemKind::Node { args, .. } => {
+                args.iter().map(|a| &a.value).collect()
+            }
             ItemKind::Link { element, .. } => element.args.iter().map(|a| &a.value).collect(),
-            ItemKind::Buildup { elements, .. } => elements.iter().flat_map(|e| e.element.args.iter().map(|a| &a.value)).collect(),
+            ItemKind::Buildup { elements, .. } => elements
+                .iter()
+                .flat_map(|e| e.element.args.iter().map(|a| &a.value))
+                .collect(),
             ItemKind::Title { .. } | ItemKind::Import { .. } => Vec::new(),
         };
         for e in exprs {
@@ -91,7 +116,9 @@ pub fn preferred_system(a: &Analysis) -> crate::units::UnitSystem {
 
 fn visit_units(e: &Expr, f: &mut dyn FnMut(&str)) {
     match &e.kind {
-        ExprKind::Number { unit: Some((u, _)), .. } => f(u),
+        ExprKind::Number {
+            unit: Some((u, _)), ..
+        } => f(u),
         ExprKind::Neg(x) | ExprKind::Paren(x) => visit_units(x, f),
         ExprKind::Binary { lhs, rhs, .. } => {
             visit_units(lhs, f);

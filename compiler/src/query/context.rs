@@ -2,14 +2,21 @@
 //! declaration around the cursor (the declaration being typed is usually incomplete, so the
 //! syntax tree does not hold it yet).
 
+use crate::analysis::Analysis;
+use crate::elements::{self, ArgType};
 use crate::lexer::{lex, Tok, Token};
 use crate::span::{FileId, Span};
+use crate::symbols::SymbolKind;
+use crate::units::Dim;
 
 /// Whose argument list the cursor is in.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub enum ArgOwner {
     /// An element call or a build-up use: `layer(...)`, `timber_wall(...)`.
-    Element { kind: String, in_buildup: bool },
+    Element {
+        kind: String,
+        in_buildup: bool,
+    },
     Material,
     Node,
 }
@@ -66,56 +73,119 @@ fn is_word(k: Tok) -> bool {
     k == Tok::Ident || k.starts_item() || k == Tok::To
 }
 
+/// The dimension the argument under the cursor expects, when it is a quantity.
+pub fn expected_dim(call: &CallInfo, a: &Analysis) -> Option<Dim> {
+    let name = call.arg.as_deref();
+    match &call.owner {
+        ArgOwner::Node => match name? {
+            "fixed" => Some(Dim::TEMPERATURE),
+            "load" => Some(Dim::POWER),
+            _ => None,
+        },
+        ArgOwner::Material => match name? {
+            "k" => Some(Dim::CONDUCTIVITY),
+            "density" => Some(Dim::DENSITY),
+            "specific_heat" => Some(Dim::SPECIFIC_HEAT),
+            _ => None,
+        },
+        ArgOwner::Element { kind, .. } => {
+            if a.symbols
+                .get(kind)
+                .is_some_and(|s| s.kind == SymbolKind::Buildup)
+            {
+                return Some(Dim::AREA);
+            }
+            let params = elements::lookup(kind)?.params();
+            let spec = match name {
+                Some(n) => params.iter().find(|p| p.name == n)?,
+                None if call.index == 0 => params.first()?,
+                None => return None,
+            };
+            match spec.ty {
+                ArgType::Quantity(d) => Some(d),
+                ArgType::Material => None,
+            }
+        }
+    }
+}
+
 /// The completion context at byte `offset` of `text`.
 pub fn completion_context(text: &str, offset: u32) -> CompletionContext {
     let file = FileId(0);
     let offset = offset.min(text.len() as u32);
     let all = lex(text, file);
     let here = Span::new(file, offset as usize, offset as usize);
-    let nothing = |replace| CompletionContext { slot: Slot::Nothing, replace, call: None };
+    let nothing = |replace| CompletionContext {
+        slot: Slot::Nothing,
+        replace,
+        call: None,
+    };
     let mut replace = here;
-    let mut unit_slot = false;
+    let mut unit_slot: Option<u32> = None;
     for t in &all {
         let inside = t.span.start < offset && offset <= t.span.end;
         match t.kind {
-            Tok::Comment if t.span.start < offset => {
-                if offset <= t.span.end {
-                    return nothing(here);
-                }
-            }
+            Tok::Comment if t.span.start < offset && offset <= t.span.end => return nothing(here),
             Tok::Str if inside && offset < t.span.end => return nothing(here),
             Tok::UnterminatedStr if inside => return nothing(here),
-            k if is_word(k) && inside => replace = Span { start: t.span.start, ..here },
-            Tok::Number(num_len) if inside => {
-                let unit_start = number_unit_start(text, t, num_len);
-                match unit_start {
-                    Some(u) if offset >= u => {
-                        unit_slot = true;
-                        replace = Span { start: last_atom_start(text, u, offset), ..here };
-                    }
-                    // A number followed by a space: its unit comes next.
-                    None if offset > t.span.start + num_len => unit_slot = true,
-                    _ => return nothing(here),
+            k if is_word(k) && inside => {
+                replace = Span {
+                    start: t.span.start,
+                    ..here
                 }
             }
-            Tok::Number(num_len) if t.span.end <= offset && number_unit_start(text, t, num_len).is_none() => {
+            Tok::Number(num_len) if inside => match number_unit_start(text, t, num_len) {
+                Some(u) if offset >= u => {
+                    unit_slot = Some(t.span.start);
+                    replace = Span {
+                        start: last_atom_start(text, u, offset),
+                        ..here
+                    };
+                }
+                _ => return nothing(here),
+            },
+            Tok::Number(num_len)
+                if t.span.end <= offset && number_unit_start(text, t, num_len).is_none() =>
+            {
+                // A number followed by a space: its unit comes next.
                 let between = &text[t.span.end as usize..offset as usize];
                 if !between.is_empty() && between.chars().all(|c| c == ' ' || c == '\t') {
-                    unit_slot = true;
+                    unit_slot = Some(t.span.start);
                 }
             }
             _ => {}
         }
     }
-    let before: Vec<Token> = all.iter().copied().filter(|t| t.kind != Tok::Comment && t.span.end <= replace.start).collect();
-    if unit_slot {
-        return CompletionContext { slot: Slot::Unit, replace, call: None };
+    let before: Vec<Token> = all
+        .iter()
+        .copied()
+        .filter(|t| t.kind != Tok::Comment && t.span.end <= replace.start)
+        .collect();
+    if let Some(number_start) = unit_slot {
+        // Where the number stands says which argument the unit is for.
+        let around = completion_context(text, number_start);
+        return CompletionContext {
+            slot: Slot::Unit,
+            replace,
+            call: around.call,
+        };
     }
-    let line_start = text[..replace.start as usize].rfind('\n').map(|i| i + 1).unwrap_or(0);
+    let line_start = text[..replace.start as usize]
+        .rfind('\n')
+        .map(|i| i + 1)
+        .unwrap_or(0);
     let fresh_line = text[line_start..replace.start as usize].trim().is_empty();
     let Some(k) = before.iter().rposition(|t| t.kind.starts_item()) else {
-        let slot = if fresh_line { Slot::Keyword } else { Slot::Nothing };
-        return CompletionContext { slot, replace, call: None };
+        let slot = if fresh_line {
+            Slot::Keyword
+        } else {
+            Slot::Nothing
+        };
+        return CompletionContext {
+            slot,
+            replace,
+            call: None,
+        };
     };
     let decl = &before[k..];
     let words = |t: &Token| &text[t.span.range()];
@@ -125,15 +195,30 @@ pub fn completion_context(text: &str, offset: u32) -> CompletionContext {
         Tok::RParen | Tok::RBrace => d - 1,
         _ => d,
     });
-    let ctx = |slot, call| CompletionContext { slot, replace, call };
+    let ctx = |slot, call| CompletionContext {
+        slot,
+        replace,
+        call,
+    };
     // A new line outside any bracket starts a new declaration.
     if fresh_line && open <= 0 {
         return ctx(Slot::Keyword, None);
     }
     match decl[0].kind {
-        Tok::Param => ctx(if rest.iter().any(|t| t.kind == Tok::Eq) { Slot::Expression } else { Slot::Nothing }, None),
+        Tok::Param => ctx(
+            if rest.iter().any(|t| t.kind == Tok::Eq) {
+                Slot::Expression
+            } else {
+                Slot::Nothing
+            },
+            None,
+        ),
         Tok::Material | Tok::Node => {
-            let owner = if decl[0].kind == Tok::Material { ArgOwner::Material } else { ArgOwner::Node };
+            let owner = if decl[0].kind == Tok::Material {
+                ArgOwner::Material
+            } else {
+                ArgOwner::Node
+            };
             match rest.iter().position(|t| t.kind == Tok::LParen) {
                 Some(p) => args(&rest[p + 1..], owner, text, replace),
                 None => nothing(replace),
@@ -143,7 +228,10 @@ pub fn completion_context(text: &str, offset: u32) -> CompletionContext {
             2 | 4 => ctx(Slot::Node, None),
             5 => ctx(Slot::LinkKind, None),
             n if n >= 7 && rest[6].kind == Tok::LParen => {
-                let owner = ArgOwner::Element { kind: words(&rest[5]).to_string(), in_buildup: false };
+                let owner = ArgOwner::Element {
+                    kind: words(&rest[5]).to_string(),
+                    in_buildup: false,
+                };
                 args(&rest[7..], owner, text, replace)
             }
             _ => nothing(replace),
@@ -151,7 +239,12 @@ pub fn completion_context(text: &str, offset: u32) -> CompletionContext {
         Tok::Buildup => buildup(rest, text, replace),
         Tok::Limit => match rest.len() {
             2 => ctx(Slot::Measure, None),
-            4 => ctx(Slot::LimitSubject { measure: words(&rest[2]).to_string() }, None),
+            4 => ctx(
+                Slot::LimitSubject {
+                    measure: words(&rest[2]).to_string(),
+                },
+                None,
+            ),
             n if n >= 7 => ctx(Slot::Expression, None),
             _ => nothing(replace),
         },
@@ -170,7 +263,9 @@ fn number_unit_start(text: &str, t: &Token, num_len: u32) -> Option<u32> {
 fn last_atom_start(text: &str, unit_start: u32, offset: u32) -> u32 {
     let typed = &text[unit_start as usize..offset as usize];
     match typed.rfind(['*', '/', '^', '(', '·', '⋅']) {
-        Some(i) => unit_start + i as u32 + typed[i..].chars().next().map_or(1, |c| c.len_utf8()) as u32,
+        Some(i) => {
+            unit_start + i as u32 + typed[i..].chars().next().map_or(1, |c| c.len_utf8()) as u32
+        }
         None => unit_start,
     }
 }
@@ -184,19 +279,29 @@ fn args(toks: &[Token], owner: ArgOwner, text: &str, replace: Span) -> Completio
     for (i, t) in toks.iter().enumerate() {
         match t.kind {
             Tok::LParen => depth += 1,
-            Tok::RParen if depth == 0 => return CompletionContext { slot: Slot::Nothing, replace, call: None },
+            Tok::RParen if depth == 0 => {
+                return CompletionContext {
+                    slot: Slot::Nothing,
+                    replace,
+                    call: None,
+                }
+            }
             Tok::RParen => depth -= 1,
             Tok::Comma if depth == 0 => {
                 index += 1;
                 current_start = i + 1;
             }
-            Tok::Eq if depth == 0 && i > 0 && toks[i - 1].kind == Tok::Ident => given.push(text[toks[i - 1].span.range()].to_string()),
+            Tok::Eq if depth == 0 && i > 0 && toks[i - 1].kind == Tok::Ident => {
+                given.push(text[toks[i - 1].span.range()].to_string())
+            }
             _ => {}
         }
     }
     let current = &toks[current_start..];
     let arg = match current {
-        [name, eq, ..] if name.kind == Tok::Ident && eq.kind == Tok::Eq => Some(text[name.span.range()].to_string()),
+        [name, eq, ..] if name.kind == Tok::Ident && eq.kind == Tok::Eq => {
+            Some(text[name.span.range()].to_string())
+        }
         _ => None,
     };
     let slot = if depth > 0 {
@@ -208,19 +313,43 @@ fn args(toks: &[Token], owner: ArgOwner, text: &str, replace: Span) -> Completio
     };
     if slot == Slot::ArgValue && arg.is_some() && current.len() > 2 {
         // A value is already written after `name =`; nothing more to offer until `,`.
-        let call = CallInfo { owner, index, arg, given };
-        return CompletionContext { slot: Slot::Nothing, replace, call: Some(call) };
+        let call = CallInfo {
+            owner,
+            index,
+            arg,
+            given,
+        };
+        return CompletionContext {
+            slot: Slot::Nothing,
+            replace,
+            call: Some(call),
+        };
     }
     if let Some(a) = &arg {
         given.retain(|g| g != a);
     }
-    CompletionContext { slot, replace, call: Some(CallInfo { owner, index, arg, given }) }
+    CompletionContext {
+        slot,
+        replace,
+        call: Some(CallInfo {
+            owner,
+            index,
+            arg,
+            given,
+        }),
+    }
 }
 
 /// The context inside a build-up declaration (`rest` follows the keyword).
 fn buildup(rest: &[Token], text: &str, replace: Span) -> CompletionContext {
-    let nothing = CompletionContext { slot: Slot::Nothing, replace, call: None };
-    let Some(brace) = rest.iter().position(|t| t.kind == Tok::LBrace) else { return nothing };
+    let nothing = CompletionContext {
+        slot: Slot::Nothing,
+        replace,
+        call: None,
+    };
+    let Some(brace) = rest.iter().position(|t| t.kind == Tok::LBrace) else {
+        return nothing;
+    };
     // Walk `name : kind ( args )` elements; `state` counts the parts of the current element.
     let body = &rest[brace + 1..];
     let mut state = 0;
@@ -252,7 +381,15 @@ fn buildup(rest: &[Token], text: &str, replace: Span) -> CompletionContext {
                     }
                     None => {
                         let kind = text[body[i - 1].span.range()].to_string();
-                        return args(&body[i + 1..], ArgOwner::Element { kind, in_buildup: true }, text, replace);
+                        return args(
+                            &body[i + 1..],
+                            ArgOwner::Element {
+                                kind,
+                                in_buildup: true,
+                            },
+                            text,
+                            replace,
+                        );
                     }
                 }
             }
@@ -261,7 +398,11 @@ fn buildup(rest: &[Token], text: &str, replace: Span) -> CompletionContext {
         i += 1;
     }
     match state {
-        2 => CompletionContext { slot: Slot::ElementKind, replace, call: None },
+        2 => CompletionContext {
+            slot: Slot::ElementKind,
+            replace,
+            call: None,
+        },
         _ => nothing,
     }
 }

@@ -22,7 +22,10 @@ const CANDIDATES: &[(Dim, &[&str])] = &[
     (Dim::ENERGY, &["J", "kJ", "kWh", "Btu"]),
     (Dim::CONDUCTIVITY, &["W/(m*K)", "mW/(m*K)", "Btu/(h*ft*°F)"]),
     (Dim::HEAT_TRANSFER_COEFF, &["W/(m^2*K)", "Btu/(h*ft^2*°F)"]),
-    (Dim::AREA_RESISTANCE, &["m^2*K/W", "cm^2*K/W", "h*ft^2*°F/Btu"]),
+    (
+        Dim::AREA_RESISTANCE,
+        &["m^2*K/W", "cm^2*K/W", "h*ft^2*°F/Btu"],
+    ),
     (Dim::RESISTANCE, &["K/W", "h*°F/Btu"]),
     (Dim::CONDUCTANCE, &["W/K", "Btu/(h*°F)"]),
     (Dim::HEAT_FLUX, &["W/m^2", "Btu/(h*ft^2)"]),
@@ -36,7 +39,9 @@ const TEMPERATURE_DIFFERENCES: &[&str] = &["K", "Δ°C", "Δ°F"];
 /// The literal `value unit` (as written) in the other common units of its dimension; empty
 /// when the unit is unknown or has no alternatives. Values keep 6 significant digits.
 pub fn unit_conversions(value: f64, unit: &str) -> Vec<Conversion> {
-    let Ok(from) = parse_unit(unit) else { return Vec::new() };
+    let Ok(from) = parse_unit(unit) else {
+        return Vec::new();
+    };
     let si = from.to_si(value);
     let list: &[&str] = if from.dim == Dim::TEMPERATURE {
         match from.kind {
@@ -44,7 +49,11 @@ pub fn unit_conversions(value: f64, unit: &str) -> Vec<Conversion> {
             _ => TEMPERATURE_DIFFERENCES,
         }
     } else {
-        CANDIDATES.iter().find(|(d, _)| *d == from.dim).map(|(_, l)| *l).unwrap_or(&[])
+        CANDIDATES
+            .iter()
+            .find(|(d, _)| *d == from.dim)
+            .map(|(_, l)| *l)
+            .unwrap_or(&[])
     };
     list.iter()
         .filter(|u| **u != unit.trim())
@@ -62,7 +71,10 @@ pub fn unit_conversions(value: f64, unit: &str) -> Vec<Conversion> {
                 return None;
             }
             let v = to.from_si(si.value);
-            Some(Conversion { unit: u, text: format!("{} {u}", format_significant(v, 6)) })
+            Some(Conversion {
+                unit: u,
+                text: format!("{} {u}", format_significant(v, 6)),
+            })
         })
         .collect()
 }
@@ -78,7 +90,13 @@ pub fn format_significant(v: f64, digits: i32) -> String {
         return "0".to_string();
     }
     let exp = v.abs().log10().floor() as i32;
-    let trim = |s: String| if s.contains('.') { s.trim_end_matches('0').trim_end_matches('.').to_string() } else { s };
+    let trim = |s: String| {
+        if s.contains('.') {
+            s.trim_end_matches('0').trim_end_matches('.').to_string()
+        } else {
+            s
+        }
+    };
     let s = if (-4..9).contains(&exp) {
         let decimals = usize::try_from(digits - 1 - exp).unwrap_or(0);
         trim(format!("{v:.decimals$}"))

@@ -56,26 +56,61 @@ pub fn highlights(a: &Analysis, file: FileId) -> Vec<Highlight> {
     let mut out = Vec::with_capacity(tokens.len());
     let mut depth = 0i32;
     for (i, t) in tokens.iter().enumerate() {
-        let next = tokens[i + 1..].iter().find(|n| n.kind != Tok::Comment).map(|n| n.kind);
-        let plain = |class| Highlight { span: t.span, class, declaration: false };
+        let next = tokens[i + 1..]
+            .iter()
+            .find(|n| n.kind != Tok::Comment)
+            .map(|n| n.kind);
+        let plain = |class| Highlight {
+            span: t.span,
+            class,
+            declaration: false,
+        };
         match t.kind {
             Tok::Comment => out.push(plain(Class::Comment)),
             Tok::Str | Tok::UnterminatedStr => out.push(plain(Class::String)),
-            Tok::Title | Tok::Import | Tok::Param | Tok::Material | Tok::Node | Tok::Link | Tok::Buildup | Tok::Limit | Tok::To => {
-                out.push(plain(Class::Keyword))
-            }
+            Tok::Title
+            | Tok::Import
+            | Tok::Param
+            | Tok::Material
+            | Tok::Node
+            | Tok::Link
+            | Tok::Buildup
+            | Tok::Limit
+            | Tok::To => out.push(plain(Class::Keyword)),
             Tok::Number(len) => {
                 let num_end = t.span.start + len;
-                out.push(Highlight { span: Span { end: num_end, ..t.span }, class: Class::Number, declaration: false });
+                out.push(Highlight {
+                    span: Span {
+                        end: num_end,
+                        ..t.span
+                    },
+                    class: Class::Number,
+                    declaration: false,
+                });
                 let unit = &text[num_end as usize..t.span.end as usize];
                 let lead = (unit.len() - unit.trim_start().len()) as u32;
                 if num_end + lead < t.span.end {
-                    out.push(Highlight { span: Span { start: num_end + lead, ..t.span }, class: Class::Unit, declaration: false });
+                    out.push(Highlight {
+                        span: Span {
+                            start: num_end + lead,
+                            ..t.span
+                        },
+                        class: Class::Unit,
+                        declaration: false,
+                    });
                 }
             }
-            Tok::Eq | Tok::Plus | Tok::Minus | Tok::Star | Tok::Slash | Tok::Caret | Tok::Lt | Tok::Le | Tok::Gt | Tok::Ge | Tok::PlusMinus => {
-                out.push(plain(Class::Operator))
-            }
+            Tok::Eq
+            | Tok::Plus
+            | Tok::Minus
+            | Tok::Star
+            | Tok::Slash
+            | Tok::Caret
+            | Tok::Lt
+            | Tok::Le
+            | Tok::Gt
+            | Tok::Ge
+            | Tok::PlusMinus => out.push(plain(Class::Operator)),
             Tok::LParen => depth += 1,
             Tok::RParen => depth -= 1,
             Tok::Ident => {
@@ -94,7 +129,11 @@ pub fn highlights(a: &Analysis, file: FileId) -> Vec<Highlight> {
                     None
                 };
                 if let Some((class, declaration)) = class {
-                    out.push(Highlight { span: t.span, class, declaration });
+                    out.push(Highlight {
+                        span: t.span,
+                        class,
+                        declaration,
+                    });
                 }
             }
             _ => {}

@@ -16,7 +16,7 @@ mod rename;
 
 pub use at::{target_at, Target};
 pub use balance::{node_balance, preferred_system, NodeBalance};
-pub use context::{completion_context, ArgOwner, CompletionContext, Slot};
+pub use context::{completion_context, expected_dim, ArgOwner, CallInfo, CompletionContext, Slot};
 pub use convert::{format_significant, unit_conversions, Conversion};
 pub use highlight::{highlights, Class, Highlight};
 pub use rename::{check_new_name, rename_edits};

@@ -24,7 +24,8 @@ fn solved(text: &str) -> Analysis {
 }
 
 fn at(text: &str, needle: &str) -> u32 {
-    text.find(needle).unwrap_or_else(|| panic!("`{needle}` not in text")) as u32
+    text.find(needle)
+        .unwrap_or_else(|| panic!("`{needle}` not in text")) as u32
 }
 
 #[test]
@@ -32,10 +33,18 @@ fn target_finds_symbols_literals_kinds_and_measures() {
     let a = solved(WALL);
     assert!(!a.has_errors(), "{:?}", a.diagnostics);
     let t = target_at(&a, FileId(0), at(WALL, "wood_fibre, thickness") + 2);
-    assert!(matches!(t, Some(Target::Symbol { symbol, .. }) if symbol.kind == SymbolKind::Material));
+    assert!(
+        matches!(t, Some(Target::Symbol { symbol, .. }) if symbol.kind == SymbolKind::Material)
+    );
     match target_at(&a, FileId(0), at(WALL, "140 mm") + 1) {
-        Some(Target::Literal { quantity, span }) => {
+        Some(Target::Literal {
+            quantity,
+            span,
+            value,
+            unit,
+        }) => {
             assert_eq!(&WALL[span.range()], "140 mm");
+            assert_eq!((value, unit), (140.0, Some("mm")));
             assert!((quantity.value - 0.14).abs() < 1e-15);
             assert_eq!(quantity.dim, Dim::LENGTH);
         }
@@ -43,17 +52,35 @@ fn target_finds_symbols_literals_kinds_and_measures() {
     }
     // `-8 °C` is one literal: 265.15 K (NIST SP 811: T/K = t/°C + 273.15).
     match target_at(&a, FileId(0), at(WALL, "8 °C") + 1) {
-        Some(Target::Literal { quantity, span }) => {
+        Some(Target::Literal {
+            quantity,
+            span,
+            value,
+            ..
+        }) => {
             assert_eq!(&WALL[span.range()], "-8 °C");
+            assert_eq!(value, -8.0);
             assert!((quantity.value - 265.15).abs() < 1e-12);
         }
         _ => panic!("expected a literal"),
     }
-    assert!(matches!(target_at(&a, FileId(0), at(WALL, "layer(")), Some(Target::ElementKind { kind, .. }) if kind.name() == "layer"));
-    assert!(matches!(target_at(&a, FileId(0), at(WALL, "thickness")), Some(Target::ArgName { param, .. }) if param.name == "thickness"));
-    assert!(matches!(target_at(&a, FileId(0), at(WALL, "temperature(")), Some(Target::Measure { name: "temperature", .. })));
+    assert!(
+        matches!(target_at(&a, FileId(0), at(WALL, "layer(")), Some(Target::ElementKind { kind, .. }) if kind.name() == "layer")
+    );
+    assert!(
+        matches!(target_at(&a, FileId(0), at(WALL, "thickness")), Some(Target::ArgName { param, .. }) if param.name == "thickness")
+    );
+    assert!(matches!(
+        target_at(&a, FileId(0), at(WALL, "temperature(")),
+        Some(Target::Measure {
+            name: "temperature",
+            ..
+        })
+    ));
     let g = target_at(&a, FileId(0), at(WALL, "north.inside") + 7);
-    assert!(matches!(g, Some(Target::Symbol { symbol, .. }) if symbol.kind == SymbolKind::GeneratedNode));
+    assert!(
+        matches!(g, Some(Target::Symbol { symbol, .. }) if symbol.kind == SymbolKind::GeneratedNode)
+    );
 }
 
 #[test]
@@ -85,13 +112,24 @@ fn rename_of_a_link_and_an_element_edits_generated_names() {
     for (span, new) in edits.iter().rev() {
         text.replace_range(span.range(), new);
     }
-    assert!(text.contains("link east: room") && text.contains("temperature(east.inside)"), "{text}");
-    let elem = a.symbols.symbols.iter().find(|s| s.kind == SymbolKind::BuildupElement && s.name == "inside").expect("element");
+    assert!(
+        text.contains("link east: room") && text.contains("temperature(east.inside)"),
+        "{text}"
+    );
+    let elem = a
+        .symbols
+        .symbols
+        .iter()
+        .find(|s| s.kind == SymbolKind::BuildupElement && s.name == "inside")
+        .expect("element");
     let mut text = WALL.to_string();
     for (span, new) in rename_edits(&a, elem, "lining").iter().rev() {
         text.replace_range(span.range(), new);
     }
-    assert!(text.contains("  lining:     film") && text.contains("temperature(north.lining)"), "{text}");
+    assert!(
+        text.contains("  lining:     film") && text.contains("temperature(north.lining)"),
+        "{text}"
+    );
     assert!(!solved(&text).has_errors());
 }
 
@@ -100,7 +138,9 @@ fn new_names_are_checked() {
     let a = solved(WALL);
     let node = a.symbols.get("room").expect("node");
     assert!(check_new_name(&a, node, "lounge").is_ok());
-    assert!(check_new_name(&a, node, "outdoor").unwrap_err().contains("already declared"));
+    assert!(check_new_name(&a, node, "outdoor")
+        .expect_err("taken")
+        .contains("already declared"));
     assert!(check_new_name(&a, node, "2nd").is_err());
     assert!(check_new_name(&a, node, "link").is_err());
     assert!(check_new_name(&a, node, "a.b").is_err());
@@ -128,12 +168,36 @@ fn conversions_use_exact_factors() {
 #[test]
 fn every_conversion_candidate_parses() {
     for value in [1.0, 20.0] {
-        for unit in ["m", "m^2", "m^3", "s", "kg", "W", "J", "W/(m*K)", "W/(m^2*K)", "m^2*K/W", "K/W", "W/K", "W/m^2", "kg/m^3", "J/(kg*K)", "°C", "K"] {
+        for unit in [
+            "m",
+            "m^2",
+            "m^3",
+            "s",
+            "kg",
+            "W",
+            "J",
+            "W/(m*K)",
+            "W/(m^2*K)",
+            "m^2*K/W",
+            "K/W",
+            "W/K",
+            "W/m^2",
+            "kg/m^3",
+            "J/(kg*K)",
+            "°C",
+            "K",
+        ] {
             for c in unit_conversions(value, unit) {
                 let (n, u) = c.text.split_once(' ').expect("number and unit");
-                let back = crate::units::parse_unit(u).expect(u).to_si(n.parse::<f64>().expect(n));
+                let back = crate::units::parse_unit(u)
+                    .expect(u)
+                    .to_si(n.parse::<f64>().expect(n));
                 let orig = crate::units::parse_unit(unit).expect(unit).to_si(value);
-                assert!((back.value - orig.value).abs() <= 1e-5 * orig.value.abs(), "{unit} -> {}", c.text);
+                assert!(
+                    (back.value - orig.value).abs() <= 1e-5 * orig.value.abs(),
+                    "{unit} -> {}",
+                    c.text
+                );
             }
         }
     }
@@ -141,7 +205,7 @@ fn every_conversion_candidate_parses() {
 
 #[test]
 fn format_significant_trims() {
-    assert_eq!(format_significant(0.14000000000000001, 6), "0.14");
+    assert_eq!(format_significant(140.0 * 0.001, 6), "0.14");
     assert_eq!(format_significant(-0.0000001, 6), "-1e-7");
     assert_eq!(format_significant(1234567.0, 6), "1234567");
     assert_eq!(format_significant(2.5e12, 6), "2.5e12");
@@ -172,23 +236,57 @@ fn completion_context_by_place() {
     let c = ctx("link x: a to b layer(wood, thickness = 1 m, |");
     assert_eq!(c.slot, Slot::ArgName);
     let call = c.call.expect("call");
-    assert_eq!((call.index, call.given.clone()), (2, vec!["thickness".to_string()]));
+    assert_eq!(
+        (call.index, call.given.clone()),
+        (2, vec!["thickness".to_string()])
+    );
     let c = ctx("link x: a to b layer(k = |");
     assert_eq!(c.slot, Slot::ArgValue);
     assert_eq!(c.call.and_then(|c| c.arg), Some("k".to_string()));
-    assert_eq!(ctx("link x: a to b layer(k = sqrt(|").slot, Slot::Expression);
+    assert_eq!(
+        ctx("link x: a to b layer(k = sqrt(|").slot,
+        Slot::Expression
+    );
     assert_eq!(ctx("node a (fixed = 20 °|").slot, Slot::Unit);
     assert_eq!(ctx("node a (fixed = 20 °C) # warm |").slot, Slot::Nothing);
     assert_eq!(ctx("param x = 2 m * |").slot, Slot::Expression);
     assert_eq!(ctx("param x|").slot, Slot::Nothing);
     assert_eq!(ctx("limit l: |").slot, Slot::Measure);
-    assert_eq!(ctx("limit l: temperature(|").slot, Slot::LimitSubject { measure: "temperature".into() });
+    assert_eq!(
+        ctx("limit l: temperature(|").slot,
+        Slot::LimitSubject {
+            measure: "temperature".into()
+        }
+    );
     assert_eq!(ctx("limit l: temperature(a) < |").slot, Slot::Expression);
     assert_eq!(ctx("buildup w {\n  inside: |").slot, Slot::ElementKind);
     let c = ctx("buildup w {\n  inside: film(h = 8 W/(m^2*K))\n  core: layer(|");
     assert_eq!(c.slot, Slot::ArgName);
-    assert_eq!(c.call.map(|c| c.owner), Some(ArgOwner::Element { kind: "layer".into(), in_buildup: true }));
+    assert_eq!(
+        c.call.map(|c| c.owner),
+        Some(ArgOwner::Element {
+            kind: "layer".into(),
+            in_buildup: true
+        })
+    );
     assert_eq!(ctx("buildup w {\n  |").slot, Slot::Nothing);
+    let c = ctx("link x: a to b layer(wood, thickness = 14 m|");
+    assert_eq!(c.slot, Slot::Unit);
+    let a = solved(WALL);
+    assert_eq!(
+        c.call.as_ref().and_then(|c| expected_dim(c, &a)),
+        Some(Dim::LENGTH)
+    );
+    let c = ctx("node n (fixed = 20 |");
+    assert_eq!(
+        c.call.as_ref().and_then(|c| expected_dim(c, &a)),
+        Some(Dim::TEMPERATURE)
+    );
+    let c = ctx("link x: a to b timber_wall(area = 2 |");
+    assert_eq!(
+        c.call.as_ref().and_then(|c| expected_dim(c, &a)),
+        Some(Dim::AREA)
+    );
     let u = ctx("material m (k = 0.04 W/(m*K|");
     assert_eq!(u.slot, Slot::Unit);
     assert_eq!(u.replace.end - u.replace.start, 1);
@@ -199,16 +297,29 @@ fn completion_context_by_place() {
 fn highlights_classify_names_by_what_they_name() {
     let a = solved(WALL);
     let h = highlights(&a, FileId(0));
-    let class_of = |needle: &str| h.iter().find(|x| &WALL[x.span.range()] == needle).map(|x| (x.class, x.declaration));
+    let class_of = |needle: &str| {
+        h.iter()
+            .find(|x| &WALL[x.span.range()] == needle)
+            .map(|x| (x.class, x.declaration))
+    };
     assert_eq!(class_of("title"), Some((Class::Keyword, false)));
-    assert_eq!(class_of("wall_area"), Some((Class::Symbol(SymbolKind::Param), true)));
+    assert_eq!(
+        class_of("wall_area"),
+        Some((Class::Symbol(SymbolKind::Param), true))
+    );
     assert_eq!(class_of("2.4"), Some((Class::Number, false)));
     assert_eq!(class_of("m²*K/W"), Some((Class::Unit, false)));
     assert_eq!(class_of("layer"), Some((Class::ElementKind, false)));
     assert_eq!(class_of("thickness"), Some((Class::ArgName, false)));
     assert_eq!(class_of("temperature"), Some((Class::Measure, false)));
-    assert_eq!(class_of("north.inside"), Some((Class::Symbol(SymbolKind::GeneratedNode), false)));
-    assert_eq!(class_of("timber_wall"), Some((Class::Symbol(SymbolKind::Buildup), true)));
+    assert_eq!(
+        class_of("north.inside"),
+        Some((Class::Symbol(SymbolKind::GeneratedNode), false))
+    );
+    assert_eq!(
+        class_of("timber_wall"),
+        Some((Class::Symbol(SymbolKind::Buildup), true))
+    );
     // Spans never overlap and come in order.
     assert!(h.windows(2).all(|w| w[0].span.end <= w[1].span.start));
 }
