@@ -7,7 +7,7 @@ use crate::proto::lsp;
 use crate::settings::Settings;
 use crate::snapshot::{Snapshot, Stage};
 use caloris_compiler::elements::{self, ArgType, ElementKind, ParamSpec};
-use caloris_compiler::query::{node_balance, target_at, Target};
+use caloris_compiler::query::{format_significant, node_balance, target_at, Target};
 use caloris_compiler::span::FileId;
 use caloris_compiler::symbols::{Symbol, SymbolKind};
 use caloris_compiler::syntax::ItemKind;
@@ -111,9 +111,9 @@ fn node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
         let dir = if into >= 0.0 { "in from" } else { "out to" };
         let _ = write!(
             out,
-            "\n- `{}` {dir} `{}`: {}",
-            link.name,
+            "\n- {dir} `{}` via link `{}`: {}",
             net.nodes[far].name,
+            link.name,
             signed(into, sys)
         );
     }
@@ -122,11 +122,9 @@ fn node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
     }
     match b.boundary {
         Some(bq) => {
-            let _ = write!(
-                out,
-                "\n\nThe boundary delivers **{}** into the network.",
-                both(q(bq, Dim::POWER), sys)
-            );
+            let verb = if bq >= 0.0 { "delivers" } else { "absorbs" };
+            let power = both(q(bq.abs(), Dim::POWER), sys);
+            let _ = write!(out, "\n\nThe boundary {verb} **{power}**.");
         }
         None => {
             let _ = write!(
@@ -433,10 +431,11 @@ fn limit(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
 }
 
 fn literal(written: &str, v: Quantity, sys: UnitSystem) -> String {
+    let n = format_significant(v.value, 6);
     let si = if v.dim.is_none() {
-        format_number(v.value)
+        n
     } else {
-        format!("{} {}", format_number(v.value), v.dim.si_unit())
+        format!("{n} {}", v.dim.si_unit())
     };
     let mut out = format!("`{written}` = **{si}** — {}", describe(v));
     if !v.dim.is_none() {
