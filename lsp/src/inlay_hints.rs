@@ -22,7 +22,7 @@ pub fn inlay_hints(snap: &Snapshot, range: Range, settings: &Settings) -> Vec<In
     let mut out = Vec::new();
     for item in &a.root().items {
         let item_range = proto::range(lines, item.span);
-        if !proto::touches(item_range, range) {
+        if !proto::overlaps(item_range, range) {
             continue;
         }
         let hint = match &item.kind {

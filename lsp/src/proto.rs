@@ -32,7 +32,12 @@ pub fn offset(lines: &LineIndex, pos: Position) -> u32 {
     })
 }
 
-/// True when two ranges overlap or touch.
+/// True when two ranges share some text (ranges are end-exclusive).
+pub fn overlaps(a: Range, b: Range) -> bool {
+    a.start < b.end && b.start < a.end
+}
+
+/// True when two ranges overlap or touch (a cursor at either end of a range touches it).
 pub fn touches(a: Range, b: Range) -> bool {
     !(a.end < b.start || b.end < a.start)
 }

@@ -142,14 +142,26 @@ pub fn completion_context(text: &str, offset: u32) -> CompletionContext {
                         ..here
                     };
                 }
-                _ => return nothing(here),
+                // Mid-number: nothing to complete, but signature help still wants the call.
+                _ => {
+                    let call = completion_context(text, t.span.start).call;
+                    return CompletionContext {
+                        slot: Slot::Nothing,
+                        replace: here,
+                        call,
+                    };
+                }
             },
-            Tok::Number(num_len)
-                if t.span.end <= offset && number_unit_start(text, t, num_len).is_none() =>
-            {
-                // A number followed by a space: its unit comes next.
+            Tok::Number(num_len) if t.span.end <= offset => {
                 let between = &text[t.span.end as usize..offset as usize];
-                if !between.is_empty() && between.chars().all(|c| c == ' ' || c == '\t') {
+                let has_unit = number_unit_start(text, t, num_len).is_some();
+                let spaces = between.chars().all(|c| c == ' ' || c == '\t');
+                let operators = between
+                    .chars()
+                    .all(|c| matches!(c, '*' | '/' | '^' | '(' | '·' | '⋅'));
+                if !between.is_empty() && ((!has_unit && spaces) || (has_unit && operators)) {
+                    // A number followed by a space: its unit comes next. Or `W/(m*`: the
+                    // lexer leaves a trailing operator out of the unit, which goes on.
                     unit_slot = Some(t.span.start);
                 }
             }
