@@ -48,14 +48,17 @@ impl RpcClient {
     pub fn new(reader: Box<dyn Read + Send>, writer: Box<dyn Write + Send>) -> RpcClient {
         let writer: Arc<Mutex<Box<dyn Write + Send>>> = Arc::new(Mutex::new(writer));
         let (tx, incoming) = channel();
-        let replier = writer.clone();
+        // Weak, so dropping the client closes the server's input.
+        let replier = Arc::downgrade(&writer);
         std::thread::spawn(move || {
             let mut reader = BufReader::new(reader);
             while let Some(msg) = read_message(&mut reader) {
                 if msg.get("method").is_some() && msg.get("id").is_some() {
                     let reply = json!({"jsonrpc": "2.0", "id": msg["id"].clone(), "result": null});
-                    if let Ok(mut w) = replier.lock() {
-                        let _ = write_message(&mut **w, &reply);
+                    if let Some(w) = replier.upgrade() {
+                        if let Ok(mut w) = w.lock() {
+                            let _ = write_message(&mut **w, &reply);
+                        }
                     }
                 }
                 if tx.send((Instant::now(), msg)).is_err() {
