@@ -36,7 +36,11 @@ impl Drop for Project {
 }
 
 fn at(text: &str, needle: &str) -> Value {
-    position_of(text, text.find(needle).unwrap_or_else(|| panic!("`{needle}` not in the text")))
+    position_of(
+        text,
+        text.find(needle)
+            .unwrap_or_else(|| panic!("`{needle}` not in the text")),
+    )
 }
 
 #[test]
@@ -78,31 +82,69 @@ fn a_session_over_stdio_uses_every_feature() {
     assert_eq!(c.diagnostics(&model, 1, T).expect("v1"), json!([]));
 
     // Edit: an unknown material on a line with `m²` before it.
-    let typo = CABIN.replace("layer(k = 0.035 W/(m*K), area = 9 m², thickness = 150 mm)", "layer(k = 0.035 W/(m*K), area = 9 m², thickness = 150 mx)");
+    let typo = CABIN.replace(
+        "layer(k = 0.035 W/(m*K), area = 9 m², thickness = 150 mm)",
+        "layer(k = 0.035 W/(m*K), area = 9 m², thickness = 150 mx)",
+    );
     c.change(&model, 2, &typo);
     let d = c.diagnostics(&model, 2, T).expect("v2");
     assert_eq!(d[0]["code"], "E100", "{d}");
     let line = typo.lines().nth(19).expect("floor line");
     let col = line[..line.find("mx").expect("mx")].encode_utf16().count();
-    assert_eq!(d[0]["range"]["start"], json!({"line": 19, "character": col}), "UTF-16 column after `m²`: {d}");
+    assert_eq!(
+        d[0]["range"]["start"],
+        json!({"line": 19, "character": col}),
+        "UTF-16 column after `m²`: {d}"
+    );
 
     // Back to the good text; a request right after the edit answers for it.
     c.change(&model, 3, CABIN);
-    let hover = c.request("textDocument/hover", json!({"textDocument": {"uri": model}, "position": at(CABIN, "room    (load")}));
+    let hover = c.request(
+        "textDocument/hover",
+        json!({"textDocument": {"uri": model}, "position": at(CABIN, "room    (load")}),
+    );
     let text = hover["contents"]["value"].as_str().unwrap_or_default();
-    assert!(text.contains("Temperature **19.53 °C (67.16 °F)**"), "{text}");
-    let hover = c.request("textDocument/hover", json!({"textDocument": {"uri": model}, "position": at(CABIN, "150 mm")}));
-    assert!(hover["contents"]["value"].as_str().unwrap_or_default().starts_with("`150 mm` = **0.15 m**"), "{hover}");
+    assert!(
+        text.contains("Temperature **19.53 °C (67.16 °F)**"),
+        "{text}"
+    );
+    let hover = c.request(
+        "textDocument/hover",
+        json!({"textDocument": {"uri": model}, "position": at(CABIN, "150 mm")}),
+    );
+    assert!(
+        hover["contents"]["value"]
+            .as_str()
+            .unwrap_or_default()
+            .starts_with("`150 mm` = **0.15 m**"),
+        "{hover}"
+    );
 
     let hints = c.request(
         "textDocument/inlayHint",
         json!({"textDocument": {"uri": model}, "range": {"start": {"line": 0, "character": 0}, "end": {"line": 40, "character": 0}}}),
     );
-    let labels: Vec<&str> = hints.as_array().into_iter().flatten().filter_map(|h| h["label"].as_str()).collect();
-    assert!(labels.contains(&"= 19.53 °C") && labels.contains(&"✓ margin 1.533 K"), "{labels:?}");
+    let labels: Vec<&str> = hints
+        .as_array()
+        .into_iter()
+        .flatten()
+        .filter_map(|h| h["label"].as_str())
+        .collect();
+    assert!(
+        labels.contains(&"= 19.53 °C") && labels.contains(&"✓ margin 1.533 K"),
+        "{labels:?}"
+    );
     // The hint after `-8 °C)` sits at the line's end in UTF-16 units.
-    let outdoor = hints.as_array().into_iter().flatten().find(|h| h["position"]["line"] == 8).expect("hint on line 9");
-    assert_eq!(outdoor["position"]["character"], CABIN.lines().nth(8).expect("line").encode_utf16().count());
+    let outdoor = hints
+        .as_array()
+        .into_iter()
+        .flatten()
+        .find(|h| h["position"]["line"] == 8)
+        .expect("hint on line 9");
+    assert_eq!(
+        outdoor["position"]["character"],
+        CABIN.lines().nth(8).expect("line").encode_utf16().count()
+    );
 
     let def = c.request("textDocument/definition", json!({"textDocument": {"uri": model}, "position": at(CABIN, "wood_fibre, thickness = 200")}));
     assert_eq!(def["uri"], lib, "{def}");
@@ -112,35 +154,87 @@ fn a_session_over_stdio_uses_every_feature() {
     );
     assert_eq!(refs.as_array().map(Vec::len), Some(2), "{refs}");
 
-    let prep = c.request("textDocument/prepareRename", json!({"textDocument": {"uri": model}, "position": at(CABIN, "north:")}));
+    let prep = c.request(
+        "textDocument/prepareRename",
+        json!({"textDocument": {"uri": model}, "position": at(CABIN, "north:")}),
+    );
     assert_eq!(prep["placeholder"], "north");
     let edit = c.request("textDocument/rename", json!({"textDocument": {"uri": model}, "position": at(CABIN, "north:"), "newName": "north_wall"}));
-    assert_eq!(edit["changes"][&model].as_array().map(Vec::len), Some(2), "{edit}");
-    let refused = c.request_raw("textDocument/rename", json!({"textDocument": {"uri": model}, "position": at(CABIN, "north:"), "newName": "roof"}));
-    assert!(refused["error"]["message"].as_str().unwrap_or_default().contains("already declared"), "{refused}");
+    assert_eq!(
+        edit["changes"][&model].as_array().map(Vec::len),
+        Some(2),
+        "{edit}"
+    );
+    let refused = c.request_raw(
+        "textDocument/rename",
+        json!({"textDocument": {"uri": model}, "position": at(CABIN, "north:"), "newName": "roof"}),
+    );
+    assert!(
+        refused["error"]["message"]
+            .as_str()
+            .unwrap_or_default()
+            .contains("already declared"),
+        "{refused}"
+    );
 
-    let outline = c.request("textDocument/documentSymbol", json!({"textDocument": {"uri": model}}));
-    let names: Vec<&str> = outline.as_array().into_iter().flatten().filter_map(|s| s["name"].as_str()).collect();
-    assert!(names.contains(&"timber_wall") && names.contains(&"no_mould"), "{names:?}");
+    let outline = c.request(
+        "textDocument/documentSymbol",
+        json!({"textDocument": {"uri": model}}),
+    );
+    let names: Vec<&str> = outline
+        .as_array()
+        .into_iter()
+        .flatten()
+        .filter_map(|s| s["name"].as_str())
+        .collect();
+    assert!(
+        names.contains(&"timber_wall") && names.contains(&"no_mould"),
+        "{names:?}"
+    );
     let ws = c.request("workspace/symbol", json!({"query": "spruce"}));
     assert_eq!(ws[0]["location"]["uri"], lib, "{ws}");
 
     let text = format!("{CABIN}link door: room to outdoor layer(");
     c.change(&model, 4, &text);
     let end = position_of(&text, text.len());
-    let items = c.request("textDocument/completion", json!({"textDocument": {"uri": model}, "position": end}));
-    let labels: Vec<&str> = items.as_array().into_iter().flatten().filter_map(|i| i["label"].as_str()).collect();
-    assert!(labels.contains(&"thickness") && labels.contains(&"spruce"), "{labels:?}");
-    let sig = c.request("textDocument/signatureHelp", json!({"textDocument": {"uri": model}, "position": end}));
-    assert_eq!(sig["signatures"][0]["label"], "layer(material, k, thickness, area)");
+    let items = c.request(
+        "textDocument/completion",
+        json!({"textDocument": {"uri": model}, "position": end}),
+    );
+    let labels: Vec<&str> = items
+        .as_array()
+        .into_iter()
+        .flatten()
+        .filter_map(|i| i["label"].as_str())
+        .collect();
+    assert!(
+        labels.contains(&"thickness") && labels.contains(&"spruce"),
+        "{labels:?}"
+    );
+    let sig = c.request(
+        "textDocument/signatureHelp",
+        json!({"textDocument": {"uri": model}, "position": end}),
+    );
+    assert_eq!(
+        sig["signatures"][0]["label"],
+        "layer(material, k, thickness, area)"
+    );
 
     c.change(&model, 5, CABIN);
-    let tokens = c.request("textDocument/semanticTokens/full", json!({"textDocument": {"uri": model}}));
+    let tokens = c.request(
+        "textDocument/semanticTokens/full",
+        json!({"textDocument": {"uri": model}}),
+    );
     let data = tokens["data"].as_array().map(Vec::len).unwrap_or(0);
     assert!(data > 0 && data % 5 == 0, "{tokens}");
     let pos = at(CABIN, "140 mm");
     let actions = c.request("textDocument/codeAction", json!({"textDocument": {"uri": model}, "range": {"start": pos, "end": pos}, "context": {"diagnostics": []}}));
-    let titles: Vec<&str> = actions.as_array().into_iter().flatten().filter_map(|a| a["title"].as_str()).collect();
+    let titles: Vec<&str> = actions
+        .as_array()
+        .into_iter()
+        .flatten()
+        .filter_map(|a| a["title"].as_str())
+        .collect();
     assert!(titles.contains(&"Convert to m: 0.14 m"), "{titles:?}");
 
     c.shutdown();
@@ -165,5 +259,8 @@ fn closing_the_input_without_shutdown_ends_the_server() {
     drop(c);
     drop(child.stdin.take());
     // Dropping the client closes our end of the pipe; the server must not hang.
-    assert!(wait_exit(&mut child).is_some(), "server still running after its input closed");
+    assert!(
+        wait_exit(&mut child).is_some(),
+        "server still running after its input closed"
+    );
 }
