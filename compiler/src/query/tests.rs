@@ -323,3 +323,75 @@ fn highlights_classify_names_by_what_they_name() {
     // Spans never overlap and come in order.
     assert!(h.windows(2).all(|w| w[0].span.end <= w[1].span.start));
 }
+
+mod properties {
+    use super::*;
+    use proptest::prelude::*;
+
+    /// Text made of the language's pieces and the non-ASCII characters that matter for columns.
+    fn model_text() -> impl Strategy<Value = String> {
+        let pieces = prop::sample::select(vec![
+            "node ",
+            "link ",
+            "material ",
+            "param ",
+            "buildup ",
+            "limit ",
+            "title ",
+            "import ",
+            " to ",
+            "a",
+            "b",
+            "x.y",
+            "(",
+            ")",
+            "{",
+            "}",
+            ",",
+            ":",
+            "=",
+            " ",
+            "\n",
+            "12",
+            ".5",
+            " mm",
+            " °C",
+            " m²",
+            "*",
+            "/",
+            "^",
+            "-",
+            "# c",
+            "\"s",
+            "layer",
+            "film",
+            "k",
+            "°",
+            "²",
+            "😀",
+        ]);
+        prop::collection::vec(pieces, 0..40).prop_map(|v| v.concat())
+    }
+
+    proptest! {
+        #[test]
+        fn queries_never_panic_and_stay_in_bounds(text in model_text()) {
+            let a = analyze("p.heat", &text, &NoImports, &Options { check_only: true, ..Options::default() });
+            let hs = highlights(&a, FileId(0));
+            for w in hs.windows(2) {
+                prop_assert!(w[0].span.end <= w[1].span.start);
+            }
+            for h in &hs {
+                prop_assert!(text.is_char_boundary(h.span.start as usize) && text.is_char_boundary(h.span.end as usize));
+            }
+            for (offset, _) in text.char_indices().chain(std::iter::once((text.len(), ' '))) {
+                let c = completion_context(&text, offset as u32);
+                prop_assert!(c.replace.start <= c.replace.end && c.replace.end as usize <= text.len());
+                prop_assert!(text.is_char_boundary(c.replace.start as usize));
+                if let Some(t) = target_at(&a, FileId(0), offset as u32) {
+                    prop_assert!(t.span().end as usize <= text.len());
+                }
+            }
+        }
+    }
+}
