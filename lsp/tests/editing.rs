@@ -258,7 +258,6 @@ fn workspace_symbols_match_fuzzily_across_documents() {
     let found: Vec<String> = ["wf", "oo"]
         .iter()
         .flat_map(|q| symbols::workspace_symbols(&snaps, q))
-        .into_iter()
         .map(|s| {
             let file = match &s.location {
                 caloris_lsp::proto::lsp::OneOf::Left(l) => l.uri.as_str().to_string(),
