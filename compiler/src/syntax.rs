@@ -22,11 +22,22 @@ pub enum BinOp {
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub enum ExprKind {
     /// A number and the unit written after it (`12.5 mm`); `unit` is `None` for a bare number.
-    Number { value: f64, text: String, unit: Option<(String, Span)> },
+    Number {
+        value: f64,
+        text: String,
+        unit: Option<(String, Span)>,
+    },
     Name(Ident),
     Neg(Box<Expr>),
-    Binary { op: BinOp, lhs: Box<Expr>, rhs: Box<Expr> },
-    Call { func: Ident, args: Vec<Expr> },
+    Binary {
+        op: BinOp,
+        lhs: Box<Expr>,
+        rhs: Box<Expr>,
+    },
+    Call {
+        func: Ident,
+        args: Vec<Expr>,
+    },
     Paren(Box<Expr>),
     /// Placeholder left by error recovery; never evaluated because the parse error is reported.
     Missing,
@@ -87,14 +98,42 @@ pub struct BuildupElement {
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub enum ItemKind {
-    Title { text: String },
-    Import { path: String, path_span: Span },
-    Param { name: Ident, value: Expr },
-    Material { name: Ident, args: Vec<Arg> },
-    Node { name: Ident, args: Vec<Arg> },
-    Link { name: Ident, from: Ident, to: Ident, element: ElementCall },
-    Buildup { name: Ident, elements: Vec<BuildupElement> },
-    Limit { name: Ident, measure: Ident, subject: Ident, op: CmpOp, value: Expr },
+    Title {
+        text: String,
+    },
+    Import {
+        path: String,
+        path_span: Span,
+    },
+    Param {
+        name: Ident,
+        value: Expr,
+    },
+    Material {
+        name: Ident,
+        args: Vec<Arg>,
+    },
+    Node {
+        name: Ident,
+        args: Vec<Arg>,
+    },
+    Link {
+        name: Ident,
+        from: Ident,
+        to: Ident,
+        element: ElementCall,
+    },
+    Buildup {
+        name: Ident,
+        elements: Vec<BuildupElement>,
+    },
+    Limit {
+        name: Ident,
+        measure: Ident,
+        subject: Ident,
+        op: CmpOp,
+        value: Expr,
+    },
 }
 
 /// A top-level declaration.
