@@ -95,6 +95,8 @@ enum Command {
         #[arg(long, value_enum, default_value_t = Units::Si)]
         units: Units,
     },
+    /// Run the language server on standard input and output (for editors; see docs/lsp.md).
+    Lsp,
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -147,6 +149,13 @@ fn main() -> ExitCode {
             path,
             units,
         } => report::run(&file, &out, path.as_deref(), units.system()),
+        Command::Lsp => match caloris_lsp::run_stdio() {
+            Ok(()) => exit::OK,
+            Err(e) => {
+                eprintln!("error: cannot start the language server: {e}");
+                exit::USAGE
+            }
+        },
     };
     ExitCode::from(code)
 }

@@ -16,6 +16,7 @@ pub mod lexer;
 pub mod limits;
 pub mod network;
 pub mod parser;
+pub mod query;
 pub mod render;
 pub mod results;
 pub mod solve;

@@ -1,0 +1,491 @@
+//! Hover: solved temperature and heat balance on a node; heat flow, direction, resistance and
+//! formula on a link; SI value and dimension on a quantity; properties on a material; verdict
+//! and margin on a limit.
+
+use crate::display::{both, point, q};
+use crate::proto::lsp;
+use crate::settings::Settings;
+use crate::snapshot::{Snapshot, Stage};
+use caloris_compiler::elements::{self, ArgType, ElementKind, ParamSpec};
+use caloris_compiler::query::{format_significant, node_balance, target_at, Target};
+use caloris_compiler::span::FileId;
+use caloris_compiler::symbols::{Symbol, SymbolKind};
+use caloris_compiler::syntax::ItemKind;
+use caloris_compiler::units::{format_number, Dim, Quantity, TempKind, UnitSystem};
+use lsp::{Hover, HoverContents, MarkupContent, MarkupKind, Position};
+use std::fmt::Write;
+
+/// Caution shown beside design-limit verdicts (results can decide burns, mould or failures).
+const CAUTION: &str = "_Engineering estimate from the stated model; where safety or compliance depends on it, confirm against local codes and licensed practice._";
+
+pub fn hover(snap: &Snapshot, pos: Position, settings: &Settings) -> Option<Hover> {
+    let offset = snap.offset(pos);
+    let target = target_at(&snap.analysis, FileId(0), offset)?;
+    let sys = snap.system(settings);
+    let value = match target {
+        Target::Symbol { symbol, .. } => symbol_text(snap, symbol, sys),
+        Target::Literal { span, quantity, .. } => {
+            literal(&snap.text()[span.range()], quantity, sys)
+        }
+        Target::ElementKind { kind, .. } => element_kind(kind, false),
+        Target::ArgName { kind, param, .. } => format!(
+            "**{}** — argument of `{}`\n\n{}",
+            param.name,
+            kind.name(),
+            param_doc(param)
+        ),
+        Target::Measure { name, doc, .. } => format!("**{name}** — limit measure\n\n{doc}"),
+        Target::Function { name, .. } => function(name)?,
+    };
+    Some(Hover {
+        contents: HoverContents::Markup(MarkupContent {
+            kind: MarkupKind::Markdown,
+            value,
+        }),
+        range: Some(snap.range(target.span())),
+    })
+}
+
+fn symbol_text(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
+    let mut out = match s.kind {
+        SymbolKind::Node | SymbolKind::GeneratedNode => node(snap, s, sys),
+        SymbolKind::Link => link(snap, s, sys),
+        SymbolKind::Material => material(snap, s, sys),
+        SymbolKind::Param => param(snap, s, sys),
+        SymbolKind::Buildup => buildup(snap, s, sys),
+        SymbolKind::BuildupElement => buildup_element(snap, s),
+        SymbolKind::Limit => limit(snap, s, sys),
+    };
+    if s.def.file != FileId(0) {
+        let _ = write!(
+            out,
+            "\n\nDeclared in `{}`.",
+            snap.analysis.sources.name(s.def.file)
+        );
+    }
+    out
+}
+
+/// Why there are no solved values, when there are none.
+fn unsolved(snap: &Snapshot) -> &'static str {
+    if snap.analysis.has_errors() {
+        "_Not solved: the model has errors (see the problems list)._"
+    } else if snap.stage == Stage::Checked {
+        "_Solving…_"
+    } else {
+        "_Not solved._"
+    }
+}
+
+fn node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
+    let a = &snap.analysis;
+    let net = &a.network;
+    let mut out = format!("**node** `{}`", s.name);
+    let Some(id) = net.node_id(&s.name) else {
+        return format!("{out}\n\n{}", unsolved(snap));
+    };
+    let n = &net.nodes[id];
+    out.push_str(" · ");
+    if let Some(t) = n.fixed {
+        let _ = write!(out, "boundary, fixed at {}", both(point(t), sys));
+    } else if n.generated {
+        let (link, element) = n.name.split_once('.').unwrap_or((&n.name, ""));
+        let _ = write!(out, "face after element `{element}` of link `{link}`");
+    } else if n.load != 0.0 {
+        let _ = write!(out, "free, heat load {}", both(q(n.load, Dim::POWER), sys));
+    } else {
+        out.push_str("free");
+    }
+    let Some(b) = node_balance(a, &s.name) else {
+        return format!("{out}\n\n{}", unsolved(snap));
+    };
+    let _ = write!(
+        out,
+        "\n\nTemperature **{}**",
+        both(point(b.temperature), sys)
+    );
+    out.push_str("\n\nHeat balance (into the node):\n");
+    for &(l, into) in &b.links {
+        let link = &net.links[l];
+        let far = if link.to == id { link.from } else { link.to };
+        let dir = if into >= 0.0 { "in from" } else { "out to" };
+        let _ = write!(
+            out,
+            "\n- {dir} `{}` via link `{}`: {}",
+            net.nodes[far].name,
+            link.name,
+            signed(into, sys)
+        );
+    }
+    if b.load != 0.0 {
+        let _ = write!(out, "\n- heat load: {}", signed(b.load, sys));
+    }
+    match b.boundary {
+        Some(bq) => {
+            let verb = if bq >= 0.0 { "delivers" } else { "absorbs" };
+            let power = both(q(bq.abs(), Dim::POWER), sys);
+            let _ = write!(out, "\n\nThe boundary {verb} **{power}**.");
+        }
+        None => {
+            let _ = write!(
+                out,
+                "\n- sum: {} W (closes to round-off)",
+                format_number(b.residual)
+            );
+        }
+    }
+    out
+}
+
+fn signed(w: f64, sys: UnitSystem) -> String {
+    let s = both(q(w, Dim::POWER), sys);
+    if w > 0.0 {
+        format!("+{s}")
+    } else {
+        s
+    }
+}
+
+fn link(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
+    let a = &snap.analysis;
+    let net = &a.network;
+    let sol = a.solution.as_ref();
+    if let Some(g) = net.group_id(&s.name) {
+        let group = &net.groups[g];
+        let (from, to) = (&net.nodes[group.from].name, &net.nodes[group.to].name);
+        let mut out = format!(
+            "**link** `{}` · build-up `{}` from `{from}` to `{to}`",
+            s.name, group.buildup
+        );
+        if let Some(area) = group.area {
+            let _ = write!(out, ", area {}", both(q(area, Dim::AREA), sys));
+        }
+        let Some(sol) = sol else {
+            return format!("{out}\n\n{}", unsolved(snap));
+        };
+        let r = &sol.groups[g];
+        out.push_str("\n\n");
+        out.push_str(&flow_line(r.heat_flow, from, to, sys));
+        let _ = write!(
+            out,
+            "\n\nTotal resistance **{}**",
+            both(q(r.resistance, Dim::RESISTANCE), sys)
+        );
+        if let (Some(u), Some(rv)) = (r.u_value, r.r_value) {
+            let _ = write!(
+                out,
+                " · U-value **{}** · R-value {}",
+                both(q(u, Dim::HEAT_TRANSFER_COEFF), sys),
+                both(q(rv, Dim::AREA_RESISTANCE), sys)
+            );
+        }
+        let _ = write!(out, "\n\nElements in series from `{from}`:\n");
+        for &l in &group.links {
+            let link = &net.links[l];
+            let element = link.name.rsplit('.').next().unwrap_or(&link.name);
+            let _ = write!(
+                out,
+                "\n- `{element}` ({}): `{}` → `{}` at {}",
+                link.kind,
+                link.formula,
+                net.nodes[link.to].name,
+                both(point(sol.temperatures[link.to]), sys)
+            );
+        }
+        return out;
+    }
+    let Some(l) = net.link_id(&s.name) else {
+        return format!("**link** `{}`\n\n{}", s.name, unsolved(snap));
+    };
+    let link = &net.links[l];
+    let (from, to) = (&net.nodes[link.from].name, &net.nodes[link.to].name);
+    let mut out = format!(
+        "**link** `{}` · {} from `{from}` to `{to}`",
+        s.name, link.kind
+    );
+    if let Some(kind) = elements::lookup(&link.kind) {
+        let _ = write!(out, "\n\n{}", kind.summary());
+    }
+    let _ = write!(out, "\n\n```text\n{}\n```", link.formula);
+    let g = link.conductance();
+    let _ = write!(
+        out,
+        "\n\nResistance **{}** · conductance {}",
+        both(q(1.0 / g, Dim::RESISTANCE), sys),
+        both(q(g, Dim::CONDUCTANCE), sys)
+    );
+    let Some(sol) = sol else {
+        return format!("{out}\n\n{}", unsolved(snap));
+    };
+    let flow = sol.heat_flows[l];
+    let _ = write!(out, "\n\n{}", flow_line(flow, from, to, sys));
+    if let Some(area) = link.area {
+        let _ = write!(
+            out,
+            "\n\nHeat flux {}",
+            both(q(flow.abs() / area, Dim::HEAT_FLUX), sys)
+        );
+    }
+    let _ = write!(
+        out,
+        "\n\nTemperatures: `{from}` {}, `{to}` {}",
+        both(point(sol.temperatures[link.from]), sys),
+        both(point(sol.temperatures[link.to]), sys)
+    );
+    out
+}
+
+fn flow_line(flow: f64, from: &str, to: &str, sys: UnitSystem) -> String {
+    let (a, b) = if flow >= 0.0 { (from, to) } else { (to, from) };
+    format!(
+        "Heat flow **{}** from `{a}` to `{b}`",
+        both(q(flow.abs(), Dim::POWER), sys)
+    )
+}
+
+fn material(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
+    let mut out = format!("**material** `{}`", s.name);
+    match snap.analysis.materials.iter().find(|m| m.name == s.name) {
+        Some(m) => {
+            let _ = write!(
+                out,
+                "\n\n- conductivity k = {}",
+                both(q(m.k, Dim::CONDUCTIVITY), sys)
+            );
+            if let Some(d) = m.density {
+                let _ = write!(out, "\n- density = {}", both(q(d, Dim::DENSITY), sys));
+            }
+            if let Some(c) = m.specific_heat {
+                let _ = write!(
+                    out,
+                    "\n- specific heat = {}",
+                    both(q(c, Dim::SPECIFIC_HEAT), sys)
+                );
+            }
+        }
+        None => out.push_str("\n\n_Its properties have errors (see the problems list)._"),
+    }
+    let _ = write!(
+        out,
+        "\n\nUsed {} time{}.",
+        s.refs.len(),
+        if s.refs.len() == 1 { "" } else { "s" }
+    );
+    out
+}
+
+fn param(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
+    match snap
+        .analysis
+        .params
+        .iter()
+        .find(|p| p.0 == s.name)
+        .and_then(|p| p.1)
+    {
+        Some(v) => format!(
+            "**param** `{}` = **{}** — {}",
+            s.name,
+            both(v, sys),
+            describe(v)
+        ),
+        None => format!(
+            "**param** `{}`\n\n_Its value has errors (see the problems list)._",
+            s.name
+        ),
+    }
+}
+
+fn describe(v: Quantity) -> String {
+    match v.kind {
+        TempKind::Point => "a temperature on a scale".to_string(),
+        TempKind::Difference => "a temperature difference (K)".to_string(),
+        TempKind::Absolute => "an absolute temperature (K)".to_string(),
+        TempKind::NotTemperature => v.dim.describe(),
+    }
+}
+
+fn buildup(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
+    let a = &snap.analysis;
+    let mut out = format!("**build-up** `{}`", s.name);
+    let elements = a
+        .modules
+        .iter()
+        .flat_map(|(_, m)| m.items.iter())
+        .find_map(|i| match &i.kind {
+            ItemKind::Buildup { name, elements } if name.span == s.def => Some(elements),
+            _ => None,
+        });
+    if let Some(els) = elements {
+        let text = a.sources.text(s.def.file);
+        let _ = writeln!(
+            out,
+            " — {} element{}, in order:",
+            els.len(),
+            if els.len() == 1 { "" } else { "s" }
+        );
+        for e in els {
+            let _ = write!(
+                out,
+                "\n- `{}`: `{}`",
+                e.name.name,
+                &text[e.element.span.range()]
+            );
+        }
+    }
+    let users: Vec<usize> = a
+        .network
+        .groups
+        .iter()
+        .enumerate()
+        .filter(|(_, g)| g.buildup == s.name)
+        .map(|(i, _)| i)
+        .collect();
+    if !users.is_empty() {
+        out.push_str("\n\nUsed by:\n");
+        for g in users {
+            let group = &a.network.groups[g];
+            let _ = write!(out, "\n- link `{}`", group.name);
+            if let Some(u) = a.solution.as_ref().and_then(|sol| sol.groups[g].u_value) {
+                let _ = write!(
+                    out,
+                    ": U-value {}",
+                    both(q(u, Dim::HEAT_TRANSFER_COEFF), sys)
+                );
+            }
+        }
+    }
+    out
+}
+
+fn buildup_element(snap: &Snapshot, s: &Symbol) -> String {
+    let parent = s.parent.as_deref().unwrap_or("?");
+    let text = snap.analysis.sources.text(s.decl.file);
+    let mut out = format!(
+        "**element** `{}` of build-up `{parent}`\n\n```heat\n{}\n```",
+        s.name,
+        &text[s.decl.range()]
+    );
+    let kind = text[s.decl.range()]
+        .split(':')
+        .nth(1)
+        .and_then(|k| k.split('(').next())
+        .map(str::trim);
+    if let Some(kind) = kind.and_then(elements::lookup) {
+        let _ = write!(out, "\n\n{}", kind.summary());
+    }
+    let _ = write!(
+        out,
+        "\n\nEach link using `{parent}` gets a node `LINK.{}` at the element's far face.",
+        s.name
+    );
+    out
+}
+
+fn limit(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
+    let a = &snap.analysis;
+    let text = a.sources.text(s.decl.file);
+    let mut out = format!(
+        "**limit** `{}`\n\n```heat\n{}\n```",
+        s.name,
+        &text[s.decl.range()]
+    );
+    let Some(r) = a
+        .solution
+        .as_ref()
+        .and_then(|sol| sol.limits.iter().find(|l| l.name == s.name))
+    else {
+        return format!("{out}\n\n{}", unsolved(snap));
+    };
+    let dim = r.measure.dim();
+    let actual = both(
+        Quantity {
+            value: r.actual,
+            dim,
+            kind: r.kind(),
+        },
+        sys,
+    );
+    let margin = both(
+        Quantity {
+            value: r.margin.abs(),
+            dim,
+            kind: r.margin_kind(),
+        },
+        sys,
+    );
+    if r.passed {
+        let _ = write!(
+            out,
+            "\n\n✓ **holds**: {} is {actual}, margin {margin}",
+            r.measure.name()
+        );
+    } else {
+        let _ = write!(
+            out,
+            "\n\n✗ **fails**: {} is {actual}, {margin} beyond the limit",
+            r.measure.name()
+        );
+    }
+    let _ = write!(out, "\n\n{CAUTION}");
+    out
+}
+
+fn literal(written: &str, v: Quantity, sys: UnitSystem) -> String {
+    let n = format_significant(v.value, 6);
+    let si = if v.dim.is_none() {
+        n
+    } else {
+        format!("{n} {}", v.dim.si_unit())
+    };
+    let mut out = format!("`{written}` = **{si}** — {}", describe(v));
+    if !v.dim.is_none() {
+        let _ = write!(out, "\n\n= {}", both(v, sys));
+    }
+    out
+}
+
+fn param_doc(p: &ParamSpec) -> String {
+    let ty = match p.ty {
+        ArgType::Material => "the name of a declared material".to_string(),
+        ArgType::Quantity(d) => d.describe(),
+    };
+    let positive = if p.positive {
+        "; must be greater than zero"
+    } else {
+        ""
+    };
+    format!("{} — {ty}{positive}", p.doc)
+}
+
+/// The hover text of an element kind; `in_buildup` leaves out the area a build-up supplies.
+pub fn element_kind(kind: &dyn ElementKind, in_buildup: bool) -> String {
+    let mut out = format!(
+        "**{}** — {}\n\nArguments (the first may be written without its name):\n",
+        kind.name(),
+        kind.summary()
+    );
+    for p in kind
+        .params()
+        .iter()
+        .filter(|p| !(in_buildup && p.name == "area"))
+    {
+        let _ = write!(out, "\n- `{}`: {}", p.name, param_doc(p));
+    }
+    out
+}
+
+fn function(name: &str) -> Option<String> {
+    let doc = match name {
+        "sqrt" => {
+            "square root; the argument's dimension must have even powers (`sqrt(4 m^2)` = `2 m`)"
+        }
+        "ln" => "natural logarithm of a dimensionless number greater than zero",
+        "exp" => "e raised to a dimensionless number",
+        "abs" => "absolute value, same unit",
+        "min" => "the smaller of two values of the same dimension",
+        "max" => "the larger of two values of the same dimension",
+        "pi" => "π = 3.14159…",
+        _ => return None,
+    };
+    Some(format!("**{name}** — {doc}"))
+}

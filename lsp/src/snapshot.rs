@@ -1,0 +1,111 @@
+//! One analysis of one document version: what every feature reads.
+
+use crate::loader::DocLoader;
+use crate::proto::{self, lsp, uri_path};
+use crate::settings::{Settings, Units};
+use caloris_compiler::query::preferred_system;
+use caloris_compiler::span::{FileId, LineIndex, Span};
+use caloris_compiler::units::UnitSystem;
+use caloris_compiler::{analyze, Analysis, Options};
+use lsp::{Location, Position, Range, Uri};
+
+/// How far the analysis of a version has gone.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Stage {
+    /// Syntax, names, units and connectivity are checked; the solve is still to come.
+    Checked,
+    /// Nothing more will come for this version: solved, or stopped by errors.
+    Final,
+}
+
+/// The analysis of one version of a document.
+pub struct Snapshot {
+    pub uri: Uri,
+    pub version: i32,
+    pub stage: Stage,
+    pub analysis: Analysis,
+}
+
+impl Snapshot {
+    /// Analyse `text` as the document `uri` (imports through `loader`); `check_only` stops
+    /// before the solve.
+    pub fn analyze(
+        uri: Uri,
+        version: i32,
+        text: &str,
+        loader: &DocLoader,
+        check_only: bool,
+    ) -> Snapshot {
+        let name = uri_path(&uri)
+            .map(|p| p.display().to_string())
+            .unwrap_or_else(|| uri.as_str().to_string());
+        let analysis = analyze(
+            &name,
+            text,
+            loader,
+            &Options {
+                check_only,
+                ..Options::default()
+            },
+        );
+        let stage = if check_only && !analysis.has_errors() {
+            Stage::Checked
+        } else {
+            Stage::Final
+        };
+        Snapshot {
+            uri,
+            version,
+            stage,
+            analysis,
+        }
+    }
+
+    /// The document's own text.
+    pub fn text(&self) -> &str {
+        self.analysis.sources.text(FileId(0))
+    }
+
+    pub fn lines(&self, file: FileId) -> &LineIndex {
+        &self.analysis.sources.get(file).lines
+    }
+
+    /// The protocol range of a span in any file of the analysis.
+    pub fn range(&self, span: Span) -> Range {
+        proto::range(self.lines(span.file), span)
+    }
+
+    /// The byte offset of a position in the document.
+    pub fn offset(&self, pos: Position) -> u32 {
+        proto::offset(self.lines(FileId(0)), pos)
+    }
+
+    /// The URI of a file of the analysis (the document itself or an imported file).
+    pub fn uri_of(&self, file: FileId) -> Option<Uri> {
+        if file == FileId(0) {
+            return Some(self.uri.clone());
+        }
+        proto::path_uri(std::path::Path::new(self.analysis.sources.name(file)))
+    }
+
+    pub fn location(&self, span: Span) -> Option<Location> {
+        Some(Location {
+            uri: self.uri_of(span.file)?,
+            range: self.range(span),
+        })
+    }
+
+    /// The unit system to show first.
+    pub fn system(&self, settings: &Settings) -> UnitSystem {
+        match settings.units {
+            Units::Si => UnitSystem::Si,
+            Units::Us => UnitSystem::Us,
+            Units::Auto => preferred_system(&self.analysis),
+        }
+    }
+
+    /// True when the solve has run and produced results.
+    pub fn solved(&self) -> bool {
+        self.analysis.solution.is_some()
+    }
+}

@@ -1,0 +1,116 @@
+//! One task per open document: analyse the newest text off the async runtime, publish the fast
+//! check at once and the solved analysis when ready, drop whatever a newer edit superseded.
+
+use crate::diagnostics;
+use crate::documents::Job;
+use crate::loader::DocLoader;
+use crate::proto::lsp;
+use crate::server::State;
+use crate::snapshot::{Snapshot, Stage};
+use lsp::{MessageType, Uri};
+use std::sync::Arc;
+use tokio::sync::watch;
+use tower_lsp_server::Client;
+
+/// True when a newer job (or a close) is waiting.
+fn superseded(jobs: &watch::Receiver<Job>) -> bool {
+    jobs.has_changed().unwrap_or(true)
+}
+
+async fn analyze(
+    client: &Client,
+    uri: &Uri,
+    job: &Job,
+    loader: DocLoader,
+    check_only: bool,
+) -> Option<(Arc<Snapshot>, Vec<lsp::Diagnostic>)> {
+    let (uri2, text, version) = (uri.clone(), job.text.clone(), job.version);
+    let done = tokio::task::spawn_blocking(move || {
+        let snap = Snapshot::analyze(uri2, version, &text, &loader, check_only);
+        let diags = diagnostics::to_lsp(&snap);
+        (Arc::new(snap), diags)
+    })
+    .await;
+    match done {
+        Ok(v) => Some(v),
+        Err(e) => {
+            // The compiler should never panic; if it does, say so and keep serving.
+            client
+                .log_message(
+                    MessageType::ERROR,
+                    format!("caloris: analysis of {} failed: {e}", uri.as_str()),
+                )
+                .await;
+            None
+        }
+    }
+}
+
+/// Serve one document until it is closed.
+pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::Receiver<Job>) {
+    let mut pending = true;
+    loop {
+        if !pending && jobs.changed().await.is_err() {
+            return;
+        }
+        pending = false;
+        let job = jobs.borrow_and_update().clone();
+        if job.closed {
+            client
+                .publish_diagnostics(uri.clone(), Vec::new(), None)
+                .await;
+            return;
+        }
+        let loader = state.docs.loader();
+        let Some((check, diags)) = analyze(&client, &uri, &job, loader.clone(), true).await else {
+            continue;
+        };
+        if superseded(&jobs) {
+            pending = true;
+            continue;
+        }
+        if !state.docs.install(check.clone()) {
+            continue;
+        }
+        client
+            .publish_diagnostics(uri.clone(), diags.clone(), Some(job.version))
+            .await;
+        if check.stage == Stage::Final {
+            continue;
+        }
+        // Let a burst of typing settle before the solve.
+        let delay = state.settings().solve_delay;
+        tokio::select! {
+            _ = tokio::time::sleep(delay) => {}
+            changed = jobs.changed() => {
+                if changed.is_err() {
+                    return;
+                }
+                pending = true;
+                continue;
+            }
+        }
+        let Some((full, full_diags)) = analyze(&client, &uri, &job, loader, false).await else {
+            continue;
+        };
+        if superseded(&jobs) {
+            pending = true;
+            continue;
+        }
+        if !state.docs.install(full) {
+            continue;
+        }
+        if full_diags != diags {
+            client
+                .publish_diagnostics(uri.clone(), full_diags, Some(job.version))
+                .await;
+        }
+        if state.inlay_refresh() {
+            let c = client.clone();
+            // Not awaited here: the worker must not wait on the editor's answer.
+            tokio::spawn(async move {
+                let _ = c.inlay_hint_refresh().await;
+            });
+        }
+    }
+}

@@ -1,0 +1,266 @@
+//! `caloris lsp` as an editor runs it: the built binary over standard input and output,
+//! speaking JSON-RPC. One session walks through every feature on a model that imports a
+//! material library and uses `°C` and `m²` (UTF-16 columns).
+
+#[path = "../lsp/tests/support/client.rs"]
+mod client;
+#[path = "../lsp/tests/support/fixture.rs"]
+mod fixture;
+
+use client::{position_of, RpcClient};
+use fixture::{CABIN, MATERIALS};
+use serde_json::{json, Value};
+use std::process::{Command, Stdio};
+use std::time::Duration;
+
+const T: Duration = Duration::from_secs(30);
+
+fn spawn() -> (std::process::Child, RpcClient) {
+    let mut child = Command::new(env!("CARGO_BIN_EXE_caloris"))
+        .arg("lsp")
+        .stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::inherit())
+        .spawn()
+        .expect("start caloris lsp");
+    let stdin = child.stdin.take().expect("stdin");
+    let stdout = child.stdout.take().expect("stdout");
+    (child, RpcClient::new(Box::new(stdout), Box::new(stdin)))
+}
+
+struct Project(std::path::PathBuf);
+impl Drop for Project {
+    fn drop(&mut self) {
+        let _ = std::fs::remove_dir_all(&self.0);
+    }
+}
+
+fn at(text: &str, needle: &str) -> Value {
+    position_of(
+        text,
+        text.find(needle)
+            .unwrap_or_else(|| panic!("`{needle}` not in the text")),
+    )
+}
+
+#[test]
+fn a_session_over_stdio_uses_every_feature() {
+    let dir = std::env::temp_dir().join(format!("caloris-stdio-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(dir.join(".git")).expect("dir");
+    let _guard = Project(dir.clone());
+    std::fs::write(dir.join("materials.heat"), MATERIALS).expect("lib");
+    std::fs::write(dir.join("model.heat"), CABIN).expect("model");
+    let root = format!("file://{}", dir.display());
+    let model = format!("file://{}/model.heat", dir.display());
+    let lib = format!("file://{}/materials.heat", dir.display());
+
+    let (mut child, mut c) = spawn();
+    let init = c.initialize(&root);
+    let caps = &init["capabilities"];
+    for cap in [
+        "hoverProvider",
+        "definitionProvider",
+        "referencesProvider",
+        "renameProvider",
+        "documentSymbolProvider",
+        "workspaceSymbolProvider",
+        "completionProvider",
+        "signatureHelpProvider",
+        "semanticTokensProvider",
+        "codeActionProvider",
+        "inlayHintProvider",
+    ] {
+        assert!(!caps[cap].is_null(), "{cap} not advertised: {caps}");
+    }
+    // Formatting is not offered until the formatter is wired in.
+    assert!(caps["documentFormattingProvider"].is_null());
+    assert_eq!(init["serverInfo"]["name"], "caloris");
+
+    // Open: diagnostics with the version.
+    c.open(&model, 1, CABIN);
+    assert_eq!(c.diagnostics(&model, 1, T).expect("v1"), json!([]));
+
+    // Edit: an unknown material on a line with `m²` before it.
+    let typo = CABIN.replace(
+        "layer(k = 0.035 W/(m*K), area = 9 m², thickness = 150 mm)",
+        "layer(k = 0.035 W/(m*K), area = 9 m², thickness = 150 mx)",
+    );
+    c.change(&model, 2, &typo);
+    let d = c.diagnostics(&model, 2, T).expect("v2");
+    assert_eq!(d[0]["code"], "E100", "{d}");
+    let line = typo.lines().nth(19).expect("floor line");
+    let col = line[..line.find("mx").expect("mx")].encode_utf16().count();
+    assert_eq!(
+        d[0]["range"]["start"],
+        json!({"line": 19, "character": col}),
+        "UTF-16 column after `m²`: {d}"
+    );
+
+    // Back to the good text; a request right after the edit answers for it.
+    c.change(&model, 3, CABIN);
+    let hover = c.request(
+        "textDocument/hover",
+        json!({"textDocument": {"uri": model}, "position": at(CABIN, "room    (load")}),
+    );
+    let text = hover["contents"]["value"].as_str().unwrap_or_default();
+    assert!(
+        text.contains("Temperature **19.53 °C (67.16 °F)**"),
+        "{text}"
+    );
+    let hover = c.request(
+        "textDocument/hover",
+        json!({"textDocument": {"uri": model}, "position": at(CABIN, "150 mm")}),
+    );
+    assert!(
+        hover["contents"]["value"]
+            .as_str()
+            .unwrap_or_default()
+            .starts_with("`150 mm` = **0.15 m**"),
+        "{hover}"
+    );
+
+    let hints = c.request(
+        "textDocument/inlayHint",
+        json!({"textDocument": {"uri": model}, "range": {"start": {"line": 0, "character": 0}, "end": {"line": 40, "character": 0}}}),
+    );
+    let labels: Vec<&str> = hints
+        .as_array()
+        .into_iter()
+        .flatten()
+        .filter_map(|h| h["label"].as_str())
+        .collect();
+    assert!(
+        labels.contains(&"= 19.53 °C") && labels.contains(&"✓ margin 1.533 K"),
+        "{labels:?}"
+    );
+    // The hint after `-8 °C)` sits at the line's end in UTF-16 units.
+    let outdoor = hints
+        .as_array()
+        .into_iter()
+        .flatten()
+        .find(|h| h["position"]["line"] == 8)
+        .expect("hint on line 9");
+    assert_eq!(
+        outdoor["position"]["character"],
+        CABIN.lines().nth(8).expect("line").encode_utf16().count()
+    );
+
+    let def = c.request("textDocument/definition", json!({"textDocument": {"uri": model}, "position": at(CABIN, "wood_fibre, thickness = 200")}));
+    assert_eq!(def["uri"], lib, "{def}");
+    let refs = c.request(
+        "textDocument/references",
+        json!({"textDocument": {"uri": model}, "position": at(CABIN, "ground  (fixed"), "context": {"includeDeclaration": true}}),
+    );
+    assert_eq!(refs.as_array().map(Vec::len), Some(2), "{refs}");
+
+    let prep = c.request(
+        "textDocument/prepareRename",
+        json!({"textDocument": {"uri": model}, "position": at(CABIN, "north:")}),
+    );
+    assert_eq!(prep["placeholder"], "north");
+    let edit = c.request("textDocument/rename", json!({"textDocument": {"uri": model}, "position": at(CABIN, "north:"), "newName": "north_wall"}));
+    assert_eq!(
+        edit["changes"][&model].as_array().map(Vec::len),
+        Some(2),
+        "{edit}"
+    );
+    let refused = c.request_raw(
+        "textDocument/rename",
+        json!({"textDocument": {"uri": model}, "position": at(CABIN, "north:"), "newName": "roof"}),
+    );
+    assert!(
+        refused["error"]["message"]
+            .as_str()
+            .unwrap_or_default()
+            .contains("already declared"),
+        "{refused}"
+    );
+
+    let outline = c.request(
+        "textDocument/documentSymbol",
+        json!({"textDocument": {"uri": model}}),
+    );
+    let names: Vec<&str> = outline
+        .as_array()
+        .into_iter()
+        .flatten()
+        .filter_map(|s| s["name"].as_str())
+        .collect();
+    assert!(
+        names.contains(&"timber_wall") && names.contains(&"no_mould"),
+        "{names:?}"
+    );
+    let ws = c.request("workspace/symbol", json!({"query": "spruce"}));
+    assert_eq!(ws[0]["location"]["uri"], lib, "{ws}");
+
+    let text = format!("{CABIN}link door: room to outdoor layer(");
+    c.change(&model, 4, &text);
+    let end = position_of(&text, text.len());
+    let items = c.request(
+        "textDocument/completion",
+        json!({"textDocument": {"uri": model}, "position": end}),
+    );
+    let labels: Vec<&str> = items
+        .as_array()
+        .into_iter()
+        .flatten()
+        .filter_map(|i| i["label"].as_str())
+        .collect();
+    assert!(
+        labels.contains(&"thickness") && labels.contains(&"spruce"),
+        "{labels:?}"
+    );
+    let sig = c.request(
+        "textDocument/signatureHelp",
+        json!({"textDocument": {"uri": model}, "position": end}),
+    );
+    assert_eq!(
+        sig["signatures"][0]["label"],
+        "layer(material, k, thickness, area)"
+    );
+
+    c.change(&model, 5, CABIN);
+    let tokens = c.request(
+        "textDocument/semanticTokens/full",
+        json!({"textDocument": {"uri": model}}),
+    );
+    let data = tokens["data"].as_array().map(Vec::len).unwrap_or(0);
+    assert!(data > 0 && data % 5 == 0, "{tokens}");
+    let pos = at(CABIN, "140 mm");
+    let actions = c.request("textDocument/codeAction", json!({"textDocument": {"uri": model}, "range": {"start": pos, "end": pos}, "context": {"diagnostics": []}}));
+    let titles: Vec<&str> = actions
+        .as_array()
+        .into_iter()
+        .flatten()
+        .filter_map(|a| a["title"].as_str())
+        .collect();
+    assert!(titles.contains(&"Convert to m: 0.14 m"), "{titles:?}");
+
+    c.shutdown();
+    let status = wait_exit(&mut child);
+    assert_eq!(status, Some(0), "exit status after shutdown/exit");
+}
+
+fn wait_exit(child: &mut std::process::Child) -> Option<i32> {
+    for _ in 0..100 {
+        if let Ok(Some(s)) = child.try_wait() {
+            return s.code();
+        }
+        std::thread::sleep(Duration::from_millis(50));
+    }
+    let _ = child.kill();
+    None
+}
+
+#[test]
+fn closing_the_input_without_shutdown_ends_the_server() {
+    let (mut child, c) = spawn();
+    drop(c);
+    drop(child.stdin.take());
+    // Dropping the client closes our end of the pipe; the server must not hang.
+    assert!(
+        wait_exit(&mut child).is_some(),
+        "server still running after its input closed"
+    );
+}
