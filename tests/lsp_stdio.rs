@@ -70,11 +70,10 @@ fn a_session_over_stdio_uses_every_feature() {
         "semanticTokensProvider",
         "codeActionProvider",
         "inlayHintProvider",
+        "documentFormattingProvider",
     ] {
         assert!(!caps[cap].is_null(), "{cap} not advertised: {caps}");
     }
-    // Formatting is not offered until the formatter is wired in.
-    assert!(caps["documentFormattingProvider"].is_null());
     assert_eq!(init["serverInfo"]["name"], "caloris");
 
     // Open: diagnostics with the version.
@@ -236,6 +235,22 @@ fn a_session_over_stdio_uses_every_feature() {
         .filter_map(|a| a["title"].as_str())
         .collect();
     assert!(titles.contains(&"Convert to m: 0.14 m"), "{titles:?}");
+
+    // Formatting answers with the formatter's canonical text (or no edits when already canonical).
+    let edits = c.request(
+        "textDocument/formatting",
+        json!({"textDocument": {"uri": model}, "options": {"tabSize": 2, "insertSpaces": true}}),
+    );
+    let edits = edits
+        .as_array()
+        .expect("formatting answers with a list of edits");
+    if let Some(e) = edits.first() {
+        let new_text = e["newText"].as_str().expect("text");
+        assert_eq!(
+            caloris_compiler::format::format_source(new_text).as_deref(),
+            Ok(new_text)
+        );
+    }
 
     c.shutdown();
     let status = wait_exit(&mut child);

@@ -11,6 +11,7 @@ pub mod completion;
 pub mod diagnostics;
 pub mod display;
 pub mod documents;
+pub mod formatting;
 pub mod hover;
 pub mod inlay_hints;
 pub mod loader;

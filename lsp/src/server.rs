@@ -125,6 +125,7 @@ fn capabilities() -> ServerCapabilities {
             work_done_progress_options: Default::default(),
         })),
         document_symbol_provider: Some(OneOf::Left(true)),
+        document_formatting_provider: Some(OneOf::Left(true)),
         workspace_symbol_provider: Some(OneOf::Left(true)),
         completion_provider: Some(CompletionOptions {
             trigger_characters: Some(
@@ -394,6 +395,16 @@ impl LanguageServer for Backend {
         Ok(Some(SemanticTokensResult::Tokens(
             semantic_tokens::semantic_tokens(&snap),
         )))
+    }
+
+    async fn formatting(&self, params: DocumentFormattingParams) -> Result<Option<Vec<TextEdit>>> {
+        let Some(snap) = self
+            .snapshot(&params.text_document.uri, Need::Checked)
+            .await
+        else {
+            return Ok(None);
+        };
+        Ok(crate::formatting::format_document(&snap))
     }
 
     async fn code_action(&self, params: CodeActionParams) -> Result<Option<CodeActionResponse>> {

@@ -408,3 +408,26 @@ fn a_problem_in_an_imported_file_is_shown_at_the_import() {
         ))
     );
 }
+
+#[test]
+fn formatting_returns_the_canonical_layout_as_one_edit_and_refuses_broken_text() {
+    let messy = "# cabin\nnode   room(fixed=20 °C)   # inside\n\n\n\nnode outdoor (fixed = -8 °C)\nlink w : room to outdoor resistance( 0.5 K/W )\n";
+    let (snap, _) = analyse(&format!("$0{messy}"));
+    let edits = caloris_lsp::formatting::format_document(&snap).expect("formatted");
+    assert_eq!(edits.len(), 1);
+    // The edit covers the whole document (last line is empty after the final newline).
+    assert_eq!(edits[0].range.start, Position::new(0, 0));
+    assert_eq!(edits[0].range.end, Position::new(7, 0));
+    let expected = caloris_compiler::format::format_source(messy).expect("formats");
+    assert_eq!(edits[0].new_text, expected);
+    assert!(expected.contains("# inside") && !expected.contains("\n\n\n"));
+    // Already canonical: no edits.
+    let (snap, _) = analyse(&format!("$0{expected}"));
+    assert_eq!(
+        caloris_lsp::formatting::format_document(&snap),
+        Some(Vec::new())
+    );
+    // Syntax errors: nothing is touched.
+    let (snap, _) = analyse("$0node room (fixed = 20 °C\nlink");
+    assert_eq!(caloris_lsp::formatting::format_document(&snap), None);
+}
