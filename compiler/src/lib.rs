@@ -21,6 +21,7 @@ pub mod source;
 pub mod span;
 pub mod symbols;
 pub mod syntax;
+pub mod transient;
 pub mod units;
 
 pub use analysis::{analyze, Analysis, Options};

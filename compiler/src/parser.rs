@@ -133,7 +133,7 @@ impl<'a> Parser<'a> {
             self.pos += 1;
         }
         while let Some(k) = self.peek() {
-            if k.starts_item() {
+            if k.starts_item() || (self.at_declaration_word(self.pos) && self.starts_line(self.pos)) {
                 break;
             }
             self.pos += 1;
@@ -211,6 +211,7 @@ impl<'a> Parser<'a> {
                 let value = self.expr()?;
                 ItemKind::Limit { name, measure, subject, op, value }
             }
+            Tok::Ident if self.at_declaration_word(self.pos) => self.declaration()?,
             _ => {
                 return Err(self.unexpected(
                     t,
@@ -219,6 +220,106 @@ impl<'a> Parser<'a> {
             }
         };
         Ok(Item { kind, span: t.span.to(self.prev_end()) })
+    }
+
+    /// A contextual declaration word (`schedule`, `case`, `transient`) followed by a name.
+    fn at_declaration_word(&self, i: usize) -> bool {
+        let is_word = |t: &Token| t.kind == Tok::Ident && DECLARATION_WORDS.contains(&self.slice(t.span));
+        self.tokens.get(i).is_some_and(is_word) && self.tokens.get(i + 1).is_some_and(|t| t.kind == Tok::Ident)
+    }
+
+    /// True when token `i` is the first on its line.
+    fn starts_line(&self, i: usize) -> bool {
+        match (i.checked_sub(1).and_then(|p| self.tokens.get(p)), self.tokens.get(i)) {
+            (Some(prev), Some(t)) => self.text[prev.span.end as usize..t.span.start as usize].contains('\n'),
+            _ => true,
+        }
+    }
+
+    fn declaration(&mut self) -> PResult<ItemKind> {
+        let word = self.ident("a declaration word")?;
+        let name = self.ident(&format!("the {}'s name", word.name))?;
+        let args = if self.peek() == Some(Tok::LParen) { self.arg_list("`(`")? } else { Vec::new() };
+        let rows = if self.eat(Tok::LBrace).is_some() { Some(self.rows()?) } else { None };
+        Ok(ItemKind::Declaration { word, name, args, rows })
+    }
+
+    /// Rows `KEY: VALUE`, one per line, up to `}`.
+    fn rows(&mut self) -> PResult<Vec<Row>> {
+        let mut out = Vec::new();
+        loop {
+            match self.peek_token() {
+                Some(t) if t.kind == Tok::RBrace => {
+                    self.bump();
+                    return Ok(out);
+                }
+                Some(t) if t.kind.starts_item() || (self.at_declaration_word(self.pos) && self.starts_line(self.pos)) => {
+                    return Err(Diagnostic::error("E002", "this table is not closed", t.span)
+                        .with_label("a new declaration starts before `}`")
+                        .with_help("add `}` after the table's last row"))
+                }
+                None => {
+                    return Err(Diagnostic::error("E002", "this table is not closed", self.eof_span())
+                        .with_label("the file ends before `}`")
+                        .with_help("add `}` after the table's last row"))
+                }
+                Some(_) => {
+                    let start = self.pos;
+                    match self.row() {
+                        Ok(r) => out.push(r),
+                        Err(d) => {
+                            // Resume at the next line, `}` or declaration.
+                            self.diags.push(d);
+                            if self.pos == start {
+                                self.pos += 1;
+                            }
+                            while self.peek().is_some_and(|k| k != Tok::RBrace && !k.starts_item()) && !self.starts_line(self.pos) {
+                                self.pos += 1;
+                            }
+                        }
+                    }
+                }
+            }
+        }
+    }
+
+    /// One row, confined to its line so that a value never runs on into the next row's key
+    /// (`3 °C` followed by a row `-1 h: ...` is two rows, not a subtraction).
+    fn row(&mut self) -> PResult<Row> {
+        let mut end = self.pos + 1;
+        while end < self.tokens.len() && !self.starts_line(end) {
+            end += 1;
+        }
+        let line_end = self.tokens[end - 1].span;
+        let line_end = Span { start: line_end.end, ..line_end };
+        let tail = self.tokens.split_off(end);
+        let parsed = self.row_on_line(line_end);
+        self.tokens.extend(tail);
+        parsed.map_err(|mut d| {
+            if d.message.ends_with("found the end of the file") {
+                d.message = d.message.replace("found the end of the file", "found the end of the line");
+                d.primary.span = line_end;
+            }
+            d
+        })
+    }
+
+    fn row_on_line(&mut self, line_end: Span) -> PResult<Row> {
+        let key = self.expr()?;
+        if self.eat(Tok::Colon).is_none() {
+            return Err(match self.peek_token() {
+                Some(t) => self.unexpected(t, "`:` between the time and the value, as in `6 h: -4 °C`"),
+                None => Diagnostic::error("E002", "expected `:` and a value, found the end of the line", line_end)
+                    .with_label("expected `:`")
+                    .with_help("write each row as `TIME: VALUE`, e.g. `6 h: -4 °C`"),
+            });
+        }
+        let value = self.expr()?;
+        if let Some(t) = self.peek_token() {
+            return Err(self.unexpected(t, "the end of the row (one row per line)"));
+        }
+        let span = key.span.to(value.span);
+        Ok(Row { key, value, span })
     }
 
     fn string(&mut self, expected: &str) -> PResult<(String, Span)> {
