@@ -2,6 +2,12 @@
 
 mod loader;
 mod output;
+mod plot;
+mod progress;
+mod run_cmd;
+mod run_report;
+mod study_cmd;
+mod study_report;
 
 use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::units::UnitSystem;
@@ -21,6 +27,8 @@ pub mod exit {
     pub const USAGE: u8 = 2;
     /// The model solved but at least one design limit fails.
     pub const LIMIT_FAILED: u8 = 3;
+    /// A run or study was stopped with Ctrl-C; what was computed so far was written.
+    pub const INTERRUPTED: u8 = 130;
 }
 
 #[derive(Parser)]
@@ -48,6 +56,11 @@ enum Command {
         #[arg(long, value_enum, default_value_t = Units::Si)]
         units: Units,
     },
+    /// Run a model through time (node capacities, schedules) and report temperatures, crossings,
+    /// limits over the run and the energy balance.
+    Run(Box<run_cmd::RunCli>),
+    /// Solve a model over a sweep of parameters and/or its named cases, checking every limit.
+    Study(Box<study_cmd::StudyCli>),
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -74,6 +87,8 @@ fn main() -> ExitCode {
             };
             run(&file, false, format, system)
         }
+        Command::Run(c) => run_cmd::run(*c),
+        Command::Study(c) => study_cmd::study(*c),
     };
     ExitCode::from(code)
 }

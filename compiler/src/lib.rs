@@ -19,6 +19,7 @@ pub mod results;
 pub mod solve;
 pub mod source;
 pub mod span;
+pub mod study;
 pub mod symbols;
 pub mod syntax;
 pub mod transient;

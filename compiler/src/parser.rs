@@ -393,9 +393,12 @@ impl<'a> Parser<'a> {
             return Ok(args);
         }
         loop {
-            let named = self.peek() == Some(Tok::Ident) && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::Eq);
+            // A keyword before `=` is an argument name too: `layer(material = brick)`.
+            let named = self.peek().is_some_and(|k| k == Tok::Ident || k.starts_item() || k == Tok::To)
+                && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::Eq);
             let name = if named {
-                let n = self.ident("an argument name")?;
+                let t = self.bump();
+                let n = Ident { name: self.slice(t.span).to_string(), span: t.span };
                 self.bump();
                 Some(n)
             } else {
@@ -553,6 +556,37 @@ mod tests {
         let (m, d) = parse(src, FileId(0));
         assert!(d.is_empty(), "{d:?}");
         assert_eq!(m.items.len(), 4);
+    }
+
+    #[test]
+    fn keywords_may_name_arguments() {
+        let (m, d) = parse("link a: x to y layer(material = brick, thickness = 1 cm, area = 1 m^2)\n", FileId(0));
+        assert!(d.is_empty(), "{d:?}");
+        let ItemKind::Link { element, .. } = &m.items[0].kind else { panic!("not a link") };
+        assert_eq!(element.args[0].name.as_ref().map(|n| n.name.as_str()), Some("material"));
+    }
+
+    #[test]
+    fn contextual_declarations_and_rows() {
+        let src = "node case (fixed = 20 °C)\nschedule night (repeat = 24 h) {\n  0 h: 3 °C\n  6 h: -2 °C\n}\ncase winter (t = -8 °C)\ntransient run1 (duration = 2 h)\n";
+        let (m, d) = parse(src, FileId(0));
+        assert!(d.is_empty(), "{d:?}");
+        assert_eq!(m.items.len(), 4);
+        let ItemKind::Declaration { word, rows, .. } = &m.items[1].kind else { panic!("not a declaration") };
+        assert_eq!(word.name, "schedule");
+        assert_eq!(rows.as_ref().map(Vec::len), Some(2));
+    }
+
+    #[test]
+    fn a_row_ends_at_its_line_and_errors_recover_to_the_next_row() {
+        // The second row's leading minus must not be read as a subtraction from the first value.
+        let src = "schedule s {\n  0 h: 3 °C\n  -1 h: 2 °C\n  oops\n  5 h: 1 °C\n}\nparam p = 1 m\n";
+        let (m, d) = parse(src, FileId(0));
+        assert_eq!(d.len(), 1, "{d:?}");
+        assert!(d[0].message.contains("found the end of the line"), "{}", d[0].message);
+        let ItemKind::Declaration { rows, .. } = &m.items[0].kind else { panic!("not a declaration") };
+        assert_eq!(rows.as_ref().map(Vec::len), Some(3));
+        assert_eq!(m.items.len(), 2);
     }
 
     #[test]

@@ -11,7 +11,9 @@ use crate::network::{Network, NodeId};
 use crate::span::Span;
 use crate::symbols::SymbolKind;
 use crate::syntax::{Arg, ExprKind, Ident, Item, ItemKind, Row};
-use crate::transient::model::{Binding, CaseSpec, Driven, Dynamics, Lump, NodeCapacity, RunSpec, Studies};
+use crate::transient::model::{
+    Binding, CaseSpec, Driven, Dynamics, Lump, NodeCapacity, RunSpec, Studies,
+};
 use crate::transient::schedule::Schedule;
 use crate::units::{Dim, Quantity, TempKind};
 use std::collections::HashMap;
@@ -41,9 +43,17 @@ pub(super) fn symbol_kind(word: &str) -> SymbolKind {
     }
 }
 
-fn declarations<'i>(items: &'i [&'i Item], which: &'static str) -> impl Iterator<Item = (&'i Ident, &'i [Arg], Option<&'i [Row]>, Span)> + 'i {
+fn declarations<'i>(
+    items: &'i [&'i Item],
+    which: &'static str,
+) -> impl Iterator<Item = (&'i Ident, &'i [Arg], Option<&'i [Row]>, Span)> + 'i {
     items.iter().filter_map(move |i| match &i.kind {
-        ItemKind::Declaration { word, name, args, rows } if word.name == which => Some((name, args.as_slice(), rows.as_deref(), i.span)),
+        ItemKind::Declaration {
+            word,
+            name,
+            args,
+            rows,
+        } if word.name == which => Some((name, args.as_slice(), rows.as_deref(), i.span)),
         _ => None,
     })
 }
@@ -56,15 +66,24 @@ impl Cx<'_> {
         }
     }
 
-    fn named_args<'x>(&mut self, args: &'x [Arg], what: &str, example: &str) -> Vec<(&'x Ident, &'x Arg)> {
+    fn named_args<'x>(
+        &mut self,
+        args: &'x [Arg],
+        what: &str,
+        example: &str,
+    ) -> Vec<(&'x Ident, &'x Arg)> {
         let mut seen: HashMap<&str, Span> = HashMap::new();
         let mut out = Vec::new();
         for arg in args {
             let Some(an) = &arg.name else {
                 self.diags.push(
-                    Diagnostic::error("E204", format!("the arguments of {what} are written `name = value`"), arg.span)
-                        .with_label("argument without a name")
-                        .with_help(format!("write e.g. `{example}`")),
+                    Diagnostic::error(
+                        "E204",
+                        format!("the arguments of {what} are written `name = value`"),
+                        arg.span,
+                    )
+                    .with_label("argument without a name")
+                    .with_help(format!("write e.g. `{example}`")),
                 );
                 continue;
             };
@@ -82,7 +101,10 @@ impl Cx<'_> {
         for (an, arg) in self.named_args(args, "a schedule", "repeat = 24 h") {
             match an.name.as_str() {
                 "repeat" => {
-                    repeat = self.quantity(&arg.value, Dim::TIME, "repeat").filter(|q| self.positive(q.value, &arg.value, "repeat")).map(|q| q.value)
+                    repeat = self
+                        .quantity(&arg.value, Dim::TIME, "repeat")
+                        .filter(|q| self.positive(q.value, &arg.value, "repeat"))
+                        .map(|q| q.value)
                 }
                 _ => self.unknown_arg(an, "a schedule", &["repeat"]),
             }
@@ -112,16 +134,29 @@ impl Cx<'_> {
                 Some((q0, s0)) if q0.dim != v.dim => {
                     ok = false;
                     self.diags.push(
-                        Diagnostic::error("E101", format!("the values of a schedule must all be {}; this is {}", q0.dim.describe(), v.dim.describe()), row.value.span)
-                            .with_label(format!("{} here", v.dim.describe()))
-                            .with_secondary(s0, "the first value sets the schedule's kind")
-                            .with_help("a schedule gives either temperatures or heat loads; check the unit"),
+                        Diagnostic::error(
+                            "E101",
+                            format!(
+                                "the values of a schedule must all be {}; this is {}",
+                                q0.dim.describe(),
+                                v.dim.describe()
+                            ),
+                            row.value.span,
+                        )
+                        .with_label(format!("{} here", v.dim.describe()))
+                        .with_secondary(s0, "the first value sets the schedule's kind")
+                        .with_help(
+                            "a schedule gives either temperatures or heat loads; check the unit",
+                        ),
                     );
                     continue;
                 }
                 Some(_) => {}
             }
-            let clash = matches!((kind, v.kind), (TempKind::Point, TempKind::Difference) | (TempKind::Difference, TempKind::Point));
+            let clash = matches!(
+                (kind, v.kind),
+                (TempKind::Point, TempKind::Difference) | (TempKind::Difference, TempKind::Point)
+            );
             if clash {
                 ok = false;
                 self.diags.push(
@@ -166,17 +201,32 @@ impl Cx<'_> {
             return;
         }
         let Some((q0, _)) = first else { return };
-        self.timed.schedule_index.insert(name.name.clone(), self.timed.dynamics.schedules.len());
-        self.timed.dynamics.schedules.push(Schedule { name: name.name.clone(), span: name.span, points, repeat, dim: q0.dim, kind });
+        self.timed
+            .schedule_index
+            .insert(name.name.clone(), self.timed.dynamics.schedules.len());
+        self.timed.dynamics.schedules.push(Schedule {
+            name: name.name.clone(),
+            span: name.span,
+            points,
+            repeat,
+            dim: q0.dim,
+            kind,
+        });
     }
 
     /// The schedule an argument names, when it names one that suits `fixed` or `load`.
     fn fitting_schedule(&self, what: &str, value: &crate::syntax::Expr) -> Option<usize> {
-        let ExprKind::Name(id) = &value.kind else { return None };
+        let ExprKind::Name(id) = &value.kind else {
+            return None;
+        };
         let &i = self.timed.schedule_index.get(&id.name)?;
         let s = &self.timed.dynamics.schedules[i];
         let fits = match what {
-            "fixed" => s.dim == Dim::TEMPERATURE && s.kind != TempKind::Difference && s.points.iter().all(|p| p.1 > 0.0),
+            "fixed" => {
+                s.dim == Dim::TEMPERATURE
+                    && s.kind != TempKind::Difference
+                    && s.points.iter().all(|p| p.1 > 0.0)
+            }
             _ => s.dim == Dim::POWER,
         };
         fits.then_some(i)
@@ -186,7 +236,9 @@ impl Cx<'_> {
     /// steady solve uses), or `Some(None)` when it does not fit (reported here). `None` when the
     /// value is not the name of a schedule, so the ordinary check applies.
     pub(super) fn scheduled_arg(&mut self, an: &Ident, arg: &Arg) -> Option<Option<f64>> {
-        let ExprKind::Name(id) = &arg.value.kind else { return None };
+        let ExprKind::Name(id) = &arg.value.kind else {
+            return None;
+        };
         if self.symbols.get(&id.name)?.kind != SymbolKind::Schedule {
             return None;
         }
@@ -196,22 +248,46 @@ impl Cx<'_> {
             return Some(Some(self.timed.dynamics.schedules[i].value(0.0)));
         }
         let s = &self.timed.dynamics.schedules[i];
-        let (dim, expects) = if an.name == "fixed" { (Dim::TEMPERATURE, "temperatures") } else { (Dim::POWER, "heat loads (a power)") };
-        let d = if s.dim != dim {
-            Diagnostic::error("E101", format!("`{}` expects a schedule of {expects}; `{}` gives {}", an.name, id.name, s.dim.describe()), id.span)
-                .with_label(format!("a schedule of {}", s.dim.describe()))
-                .with_secondary(s.span, "schedule declared here")
-                .with_help("use a schedule whose values have the right unit")
-        } else if s.kind == TempKind::Difference {
-            Diagnostic::error("E103", format!("`fixed` expects temperatures on a scale; schedule `{}` gives differences", id.name), id.span)
-                .with_label("a schedule of temperature differences")
-                .with_secondary(s.span, "schedule declared here")
-                .with_help("write the schedule's values in °C, °F or K")
+        let (dim, expects) = if an.name == "fixed" {
+            (Dim::TEMPERATURE, "temperatures")
         } else {
-            Diagnostic::error("E202", format!("schedule `{}` goes to or below absolute zero", id.name), id.span)
-                .with_label("below 0 K")
-                .with_secondary(s.span, "schedule declared here")
-                .with_help("check the schedule's values and their unit")
+            (Dim::POWER, "heat loads (a power)")
+        };
+        let d = if s.dim != dim {
+            Diagnostic::error(
+                "E101",
+                format!(
+                    "`{}` expects a schedule of {expects}; `{}` gives {}",
+                    an.name,
+                    id.name,
+                    s.dim.describe()
+                ),
+                id.span,
+            )
+            .with_label(format!("a schedule of {}", s.dim.describe()))
+            .with_secondary(s.span, "schedule declared here")
+            .with_help("use a schedule whose values have the right unit")
+        } else if s.kind == TempKind::Difference {
+            Diagnostic::error(
+                "E103",
+                format!(
+                    "`fixed` expects temperatures on a scale; schedule `{}` gives differences",
+                    id.name
+                ),
+                id.span,
+            )
+            .with_label("a schedule of temperature differences")
+            .with_secondary(s.span, "schedule declared here")
+            .with_help("write the schedule's values in °C, °F or K")
+        } else {
+            Diagnostic::error(
+                "E202",
+                format!("schedule `{}` goes to or below absolute zero", id.name),
+                id.span,
+            )
+            .with_label("below 0 K")
+            .with_secondary(s.span, "schedule declared here")
+            .with_help("check the schedule's values and their unit")
         };
         self.diags.push(d);
         Some(None)
@@ -237,12 +313,24 @@ impl Cx<'_> {
             match an.name.as_str() {
                 "fixed" | "load" => {
                     if let Some(schedule) = self.fitting_schedule(&an.name, v) {
-                        let what = if an.name == "fixed" { Driven::Fixed } else { Driven::Load };
-                        self.timed.dynamics.bindings.push(Binding { node, what, schedule, span: v.span });
+                        let what = if an.name == "fixed" {
+                            Driven::Fixed
+                        } else {
+                            Driven::Load
+                        };
+                        self.timed.dynamics.bindings.push(Binding {
+                            node,
+                            what,
+                            schedule,
+                            span: v.span,
+                        });
                     }
                     continue;
                 }
-                "capacity" => match self.quantity(v, Dim::CAPACITY, "capacity").filter(|q| self.positive(q.value, v, "capacity")) {
+                "capacity" => match self
+                    .quantity(v, Dim::CAPACITY, "capacity")
+                    .filter(|q| self.positive(q.value, v, "capacity"))
+                {
                     Some(q) => capacity = Some((q.value, an.span)),
                     None => failed = true,
                 },
@@ -250,11 +338,17 @@ impl Cx<'_> {
                     Some(m) => material = Some((m, an.span)),
                     None => material_failed = true,
                 },
-                "volume" => match self.quantity(v, Dim::VOLUME, "volume").filter(|q| self.positive(q.value, v, "volume")) {
+                "volume" => match self
+                    .quantity(v, Dim::VOLUME, "volume")
+                    .filter(|q| self.positive(q.value, v, "volume"))
+                {
                     Some(q) => volume = Some((q.value, an.span)),
                     None => failed = true,
                 },
-                "mass" => match self.quantity(v, Dim::MASS, "mass").filter(|q| self.positive(q.value, v, "mass")) {
+                "mass" => match self
+                    .quantity(v, Dim::MASS, "mass")
+                    .filter(|q| self.positive(q.value, v, "mass"))
+                {
                     Some(q) => mass = Some((q.value, an.span)),
                     None => failed = true,
                 },
@@ -266,9 +360,13 @@ impl Cx<'_> {
                         }
                         Ok(()) if q.value <= 0.0 => {
                             self.diags.push(
-                                Diagnostic::error("E202", "this temperature is at or below absolute zero", v.span)
-                                    .with_label("below 0 K")
-                                    .with_help("check the value and its unit (°C, °F or K)"),
+                                Diagnostic::error(
+                                    "E202",
+                                    "this temperature is at or below absolute zero",
+                                    v.span,
+                                )
+                                .with_label("below 0 K")
+                                .with_help("check the value and its unit (°C, °F or K)"),
                             );
                             failed = true;
                         }
@@ -293,11 +391,25 @@ impl Cx<'_> {
         let mut c = None;
         match (capacity, &material) {
             (Some(_), Some((_, ms))) => {
-                self.alternatives("capacity", "material", *ms, capacity.map(|c| c.1).unwrap_or(*ms));
+                self.alternatives(
+                    "capacity",
+                    "material",
+                    *ms,
+                    capacity.map(|c| c.1).unwrap_or(*ms),
+                );
                 failed = true;
             }
-            (Some((value, span)), None) => c = Some(NodeCapacity { node, capacity: value, span, lump: None }),
-            (None, Some((m, span))) => c = self.material_capacity(node, name, m, *span, volume, mass),
+            (Some((value, span)), None) => {
+                c = Some(NodeCapacity {
+                    node,
+                    capacity: value,
+                    span,
+                    lump: None,
+                })
+            }
+            (None, Some((m, span))) => {
+                c = self.material_capacity(node, name, m, *span, volume, mass)
+            }
             (None, None) => {
                 if let Some((_, s)) = volume.or(mass) {
                     let which = if volume.is_some() { "volume" } else { "mass" };
@@ -334,10 +446,16 @@ impl Cx<'_> {
 
     fn alternatives(&mut self, a: &str, b: &str, span_a: Span, span_b: Span) {
         self.diags.push(
-            Diagnostic::error("E207", format!("a node takes `{a}` or `{b}`, not both"), span_b)
-                .with_label(format!("`{b}` given as well as `{a}`"))
-                .with_secondary(span_a, format!("`{a}` given here"))
-                .with_help(format!("keep one of them; `{a}` and `{b}` state the capacity two ways")),
+            Diagnostic::error(
+                "E207",
+                format!("a node takes `{a}` or `{b}`, not both"),
+                span_b,
+            )
+            .with_label(format!("`{b}` given as well as `{a}`"))
+            .with_secondary(span_a, format!("`{a}` given here"))
+            .with_help(format!(
+                "keep one of them; `{a}` and `{b}` state the capacity two ways"
+            )),
         );
     }
 
@@ -351,10 +469,17 @@ impl Cx<'_> {
         mass: Option<(f64, Span)>,
     ) -> Option<NodeCapacity> {
         let missing = |what: &str, example: &str| {
-            Diagnostic::error("E703", format!("material `{}` has no `{what}`, needed for the capacity of node `{}`", m.name, name.name), span)
-                .with_label(format!("`{what}` missing"))
-                .with_secondary(m.span, "material declared here")
-                .with_help(format!("add it to the material, e.g. `{what} = {example}`"))
+            Diagnostic::error(
+                "E703",
+                format!(
+                    "material `{}` has no `{what}`, needed for the capacity of node `{}`",
+                    m.name, name.name
+                ),
+                span,
+            )
+            .with_label(format!("`{what}` missing"))
+            .with_secondary(m.span, "material declared here")
+            .with_help(format!("add it to the material, e.g. `{what} = {example}`"))
         };
         let (v, ms) = match (volume, mass) {
             (Some(v), Some(ms)) => {
@@ -363,9 +488,16 @@ impl Cx<'_> {
             }
             (None, None) => {
                 self.diags.push(
-                    Diagnostic::error("E203", format!("node `{}` needs the `volume` or `mass` of its material", name.name), span)
-                        .with_label("`volume` or `mass` missing")
-                        .with_help("add it, e.g. `material = water, volume = 2.5 L`"),
+                    Diagnostic::error(
+                        "E203",
+                        format!(
+                            "node `{}` needs the `volume` or `mass` of its material",
+                            name.name
+                        ),
+                        span,
+                    )
+                    .with_label("`volume` or `mass` missing")
+                    .with_help("add it, e.g. `material = water, volume = 2.5 L`"),
                 );
                 return None;
             }
@@ -386,7 +518,16 @@ impl Cx<'_> {
             (None, Some(mass)) => (mass * cp, m.density.map(|rho| mass / rho)),
             (None, None) => return None,
         };
-        Some(NodeCapacity { node, capacity, span, lump: Some(Lump { material: m.name.clone(), k: m.k, volume }) })
+        Some(NodeCapacity {
+            node,
+            capacity,
+            span,
+            lump: Some(Lump {
+                material: m.name.clone(),
+                k: m.k,
+                volume,
+            }),
+        })
     }
 
     fn material_ref(&mut self, v: &crate::syntax::Expr) -> Option<Material> {
@@ -394,7 +535,9 @@ impl Cx<'_> {
             self.diags.push(
                 Diagnostic::error("E101", "`material` expects the name of a material", v.span)
                     .with_label("not a material name")
-                    .with_help("name a declared material, or give the capacity as `capacity = ...`"),
+                    .with_help(
+                        "name a declared material, or give the capacity as `capacity = ...`",
+                    ),
             );
             return None;
         };
@@ -402,15 +545,25 @@ impl Cx<'_> {
             self.symbols.add_ref(&id.name, id.span);
             return Some(self.materials[i].clone());
         }
-        if self.symbols.get(&id.name).is_some_and(|s| s.kind == SymbolKind::Material) {
+        if self
+            .symbols
+            .get(&id.name)
+            .is_some_and(|s| s.kind == SymbolKind::Material)
+        {
             // The material failed its own check, which is reported there.
             self.symbols.add_ref(&id.name, id.span);
             return None;
         }
         let known: Vec<&str> = self.symbols.names_of(SymbolKind::Material).collect();
         let mut d = match self.symbols.get(&id.name) {
-            Some(s) => Diagnostic::error("E105", format!("`{}` is {}, not a material", id.name, s.kind.article()), id.span).with_label("a material was expected"),
-            None => Diagnostic::error("E102", format!("unknown material `{}`", id.name), id.span).with_label("no material has this name"),
+            Some(s) => Diagnostic::error(
+                "E105",
+                format!("`{}` is {}, not a material", id.name, s.kind.article()),
+                id.span,
+            )
+            .with_label("a material was expected"),
+            None => Diagnostic::error("E102", format!("unknown material `{}`", id.name), id.span)
+                .with_label("no material has this name"),
         };
         d = match did_you_mean(&id.name, known) {
             Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), id.span, s),
@@ -450,7 +603,10 @@ impl Cx<'_> {
             self.diags.push(
                 Diagnostic::error("E204", format!("{what} takes no table of rows"), r.span)
                     .with_label("row not expected here")
-                    .with_help(format!("remove the braces after `{}`; tables belong to `schedule`", name.name)),
+                    .with_help(format!(
+                        "remove the braces after `{}`; tables belong to `schedule`",
+                        name.name
+                    )),
             );
         }
     }
@@ -463,14 +619,32 @@ impl Cx<'_> {
             if is_param != Some(SymbolKind::Param) {
                 ok = false;
                 let d = match is_param {
-                    Some(k) => Diagnostic::error("E105", format!("`{}` is {}, not a parameter", an.name, k.article()), an.span)
-                        .with_label("a case sets parameters")
-                        .with_help("declare the value as a `param` and use it in the model, then set it here"),
+                    Some(k) => Diagnostic::error(
+                        "E105",
+                        format!("`{}` is {}, not a parameter", an.name, k.article()),
+                        an.span,
+                    )
+                    .with_label("a case sets parameters")
+                    .with_help(
+                        "declare the value as a `param` and use it in the model, then set it here",
+                    ),
                     None => {
-                        let d = Diagnostic::error("E102", format!("unknown parameter `{}`", an.name), an.span).with_label("no parameter has this name");
+                        let d = Diagnostic::error(
+                            "E102",
+                            format!("unknown parameter `{}`", an.name),
+                            an.span,
+                        )
+                        .with_label("no parameter has this name");
                         match did_you_mean(&an.name, self.symbols.names_of(SymbolKind::Param)) {
-                            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), an.span, s),
-                            None => d.with_help(format!("a case sets parameters; declare `param {} = ...` first", an.name)),
+                            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
+                                format!("Replace with `{s}`"),
+                                an.span,
+                                s,
+                            ),
+                            None => d.with_help(format!(
+                                "a case sets parameters; declare `param {} = ...` first",
+                                an.name
+                            )),
                         }
                     }
                 };
@@ -485,7 +659,13 @@ impl Cx<'_> {
                 continue;
             };
             if let Some(base) = base {
-                if let Err(d) = fits_parameter(&an.name, base, q, &arg.value, self.sources.text(arg.value.span.file)) {
+                if let Err(d) = fits_parameter(
+                    &an.name,
+                    base,
+                    q,
+                    &arg.value,
+                    self.sources.text(arg.value.span.file),
+                ) {
                     ok = false;
                     self.diags.push(d);
                     continue;
@@ -494,19 +674,34 @@ impl Cx<'_> {
             overrides.push((an.name.clone(), q));
         }
         if ok {
-            self.timed.studies.cases.push(CaseSpec { name: name.name.clone(), span: name.span, overrides });
+            self.timed.studies.cases.push(CaseSpec {
+                name: name.name.clone(),
+                span: name.span,
+                overrides,
+            });
         }
     }
 
     fn run(&mut self, name: &Ident, args: &[Arg]) {
-        let mut spec = RunSpec { name: name.name.clone(), span: name.span, duration: 0.0, step: None, output: None, tolerance: None, start: 0.0 };
+        let mut spec = RunSpec {
+            name: name.name.clone(),
+            span: name.span,
+            duration: 0.0,
+            step: None,
+            output: None,
+            tolerance: None,
+            start: 0.0,
+        };
         let mut ok = true;
         let mut has_duration = false;
         for (an, arg) in self.named_args(args, "a transient run", "duration = 12 h") {
             let v = &arg.value;
             let what = an.name.as_str();
             match what {
-                "duration" | "step" | "output" => match self.quantity(v, Dim::TIME, what).filter(|q| self.positive(q.value, v, what)) {
+                "duration" | "step" | "output" => match self
+                    .quantity(v, Dim::TIME, what)
+                    .filter(|q| self.positive(q.value, v, what))
+                {
                     Some(q) if what == "duration" => {
                         spec.duration = q.value;
                         has_duration = true;
@@ -540,9 +735,16 @@ impl Cx<'_> {
         if !has_duration {
             if ok {
                 self.diags.push(
-                    Diagnostic::error("E203", format!("transient run `{}` needs a `duration`", name.name), name.span)
-                        .with_label("`duration` missing")
-                        .with_help(format!("add it, e.g. `transient {} (duration = 12 h)`", name.name)),
+                    Diagnostic::error(
+                        "E203",
+                        format!("transient run `{}` needs a `duration`", name.name),
+                        name.span,
+                    )
+                    .with_label("`duration` missing")
+                    .with_help(format!(
+                        "add it, e.g. `transient {} (duration = 12 h)`",
+                        name.name
+                    )),
                 );
             }
             return;
@@ -550,9 +752,16 @@ impl Cx<'_> {
         if let Some(step) = spec.step {
             if spec.duration / step > crate::transient::MAX_STEPS as f64 {
                 self.diags.push(
-                    Diagnostic::error("E705", format!("a step this short needs more than {} steps", crate::transient::MAX_STEPS), name.span)
-                        .with_label("too many steps")
-                        .with_help("lengthen `step`, or leave it out for the automatic step"),
+                    Diagnostic::error(
+                        "E705",
+                        format!(
+                            "a step this short needs more than {} steps",
+                            crate::transient::MAX_STEPS
+                        ),
+                        name.span,
+                    )
+                    .with_label("too many steps")
+                    .with_help("lengthen `step`, or leave it out for the automatic step"),
                 );
                 return;
             }
@@ -566,7 +775,9 @@ impl Cx<'_> {
         for c in &self.timed.dynamics.capacities {
             let Some(lump) = &c.lump else { continue };
             let Some(volume) = lump.volume else { continue };
-            let Some(biot) = biot_number(net, c.node, volume, lump.k) else { continue };
+            let Some(biot) = biot_number(net, c.node, volume, lump.k) else {
+                continue;
+            };
             if biot.number > BIOT_LUMPED {
                 self.diags.push(
                     Diagnostic::warning(
@@ -619,24 +830,57 @@ pub fn biot_number(net: &Network, node: NodeId, volume: f64, k: f64) -> Option<B
     }
     let h = g / a;
     let length = volume / a;
-    Some(Biot { number: h * length / k, h, length, surface: a })
+    Some(Biot {
+        number: h * length / k,
+        h,
+        length,
+        surface: a,
+    })
 }
 
 /// A value that replaces a parameter must have the parameter's dimension and, for
 /// temperatures, the same kind (a point for a point, a difference for a difference).
-pub fn fits_parameter(name: &str, base: Quantity, q: Quantity, expr: &crate::syntax::Expr, source: &str) -> Result<(), Diagnostic> {
+pub fn fits_parameter(
+    name: &str,
+    base: Quantity,
+    q: Quantity,
+    expr: &crate::syntax::Expr,
+    source: &str,
+) -> Result<(), Diagnostic> {
     if base.dim != q.dim {
         let written = source.get(expr.span.range()).unwrap_or("this value");
-        return Err(Diagnostic::error("E101", format!("parameter `{name}` is {}; `{written}` is {}", base.dim.describe(), q.dim.describe()), expr.span)
-            .with_label(format!("{} here", q.dim.describe()))
-            .with_help(format!("give `{name}` a value in a unit of {}", base.dim.describe())));
+        return Err(Diagnostic::error(
+            "E101",
+            format!(
+                "parameter `{name}` is {}; `{written}` is {}",
+                base.dim.describe(),
+                q.dim.describe()
+            ),
+            expr.span,
+        )
+        .with_label(format!("{} here", q.dim.describe()))
+        .with_help(format!(
+            "give `{name}` a value in a unit of {}",
+            base.dim.describe()
+        )));
     }
-    let clash = matches!((base.kind, q.kind), (TempKind::Point, TempKind::Difference) | (TempKind::Difference, TempKind::Point));
+    let clash = matches!(
+        (base.kind, q.kind),
+        (TempKind::Point, TempKind::Difference) | (TempKind::Difference, TempKind::Point)
+    );
     if clash {
-        let (is, was) = if q.kind == TempKind::Point { ("a temperature on a scale", "a difference") } else { ("a difference", "a temperature on a scale") };
-        return Err(Diagnostic::error("E103", format!("parameter `{name}` is {was}; this value is {is}"), expr.span)
-            .with_label(is)
-            .with_help("use the same kind of temperature as the parameter's own value"));
+        let (is, was) = if q.kind == TempKind::Point {
+            ("a temperature on a scale", "a difference")
+        } else {
+            ("a difference", "a temperature on a scale")
+        };
+        return Err(Diagnostic::error(
+            "E103",
+            format!("parameter `{name}` is {was}; this value is {is}"),
+            expr.span,
+        )
+        .with_label(is)
+        .with_help("use the same kind of temperature as the parameter's own value"));
     }
     Ok(())
 }

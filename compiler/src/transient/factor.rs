@@ -40,11 +40,30 @@ fn position(g: &SparseColMat<usize, f64>, row: usize, col: usize) -> Option<usiz
 impl StepMatrices {
     /// Analyse the pattern of G given by its lower-triangle entries (every diagonal present).
     pub fn new(n: usize, entries: &[Entry], capacity: &[f64]) -> Result<StepMatrices, SolveError> {
-        let g = SparseColMat::<usize, f64>::try_new_from_triplets(n, n, entries).map_err(|_| SolveError::NotPositiveDefinite)?;
-        let diag = (0..n).map(|j| position(&g, j, j)).collect::<Option<Vec<_>>>().ok_or(SolveError::NotPositiveDefinite)?;
-        let slots = entries.iter().map(|e| position(&g, e.row, e.col)).collect::<Option<Vec<_>>>().ok_or(SolveError::NotPositiveDefinite)?;
-        let symbolic = SymbolicLlt::try_new(g.symbolic(), Side::Lower).map_err(|_| SolveError::NotPositiveDefinite)?;
-        Ok(StepMatrices { n, g, diag, slots, capacity: capacity.to_vec(), symbolic, cache: Vec::new(), factorisations: 0, solves: 0 })
+        let g = SparseColMat::<usize, f64>::try_new_from_triplets(n, n, entries)
+            .map_err(|_| SolveError::NotPositiveDefinite)?;
+        let diag = (0..n)
+            .map(|j| position(&g, j, j))
+            .collect::<Option<Vec<_>>>()
+            .ok_or(SolveError::NotPositiveDefinite)?;
+        let slots = entries
+            .iter()
+            .map(|e| position(&g, e.row, e.col))
+            .collect::<Option<Vec<_>>>()
+            .ok_or(SolveError::NotPositiveDefinite)?;
+        let symbolic = SymbolicLlt::try_new(g.symbolic(), Side::Lower)
+            .map_err(|_| SolveError::NotPositiveDefinite)?;
+        Ok(StepMatrices {
+            n,
+            g,
+            diag,
+            slots,
+            capacity: capacity.to_vec(),
+            symbolic,
+            cache: Vec::new(),
+            factorisations: 0,
+            solves: 0,
+        })
     }
 
     /// Replace G's values by new entries of the same pattern and order (a nonlinear network
@@ -73,7 +92,8 @@ impl StepMatrices {
                 vals[p] += c * self.capacity[j];
             }
         }
-        let llt = Llt::try_new_with_symbolic(self.symbolic.clone(), a.as_ref(), Side::Lower).map_err(|_| SolveError::NotPositiveDefinite)?;
+        let llt = Llt::try_new_with_symbolic(self.symbolic.clone(), a.as_ref(), Side::Lower)
+            .map_err(|_| SolveError::NotPositiveDefinite)?;
         self.factorisations += 1;
         if self.cache.len() >= CACHE {
             self.cache.remove(0);

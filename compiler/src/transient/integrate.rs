@@ -114,7 +114,10 @@ fn mul_entries(entries: &[Entry], x: &[f64], y: &mut [f64]) {
 }
 
 fn max_abs(v: &[f64]) -> f64 {
-    v.iter().fold(0.0f64, |m, x| if x.is_nan() { f64::NAN } else { m.max(x.abs()) })
+    v.iter().fold(
+        0.0f64,
+        |m, x| if x.is_nan() { f64::NAN } else { m.max(x.abs()) },
+    )
 }
 
 impl Stepper<'_> {
@@ -124,7 +127,8 @@ impl Stepper<'_> {
             self.sys.assemble(t, x, None, &mut self.rhs);
             self.mats.mul_g(x, &mut self.tmp);
         } else {
-            self.sys.assemble(t, x, Some(&mut self.entries), &mut self.rhs);
+            self.sys
+                .assemble(t, x, Some(&mut self.entries), &mut self.rhs);
             mul_entries(&self.entries, x, &mut self.tmp);
         }
         for i in 0..f.len() {
@@ -145,7 +149,8 @@ impl Stepper<'_> {
             return Ok(key);
         }
         for _ in 0..MAX_NEWTON {
-            self.sys.assemble(t, x, Some(&mut self.entries), &mut self.rhs);
+            self.sys
+                .assemble(t, x, Some(&mut self.entries), &mut self.rhs);
             self.mats.set_values(&self.entries);
             let key = self.mats.factor(c).map_err(|_| RunError::Singular)?;
             for i in 0..x.len() {
@@ -173,28 +178,54 @@ impl Stepper<'_> {
 
 /// Integrate C·dx/dt = f(t, x) from `x0` at t = 0 to `settings.duration`, calling `on_step`
 /// after every accepted step.
-pub fn integrate(sys: &dyn HeatSystem, x0: &[f64], settings: &Settings, on_step: &mut dyn FnMut(&StepView) -> Control) -> Result<Stats, RunError> {
+pub fn integrate(
+    sys: &dyn HeatSystem,
+    x0: &[f64],
+    settings: &Settings,
+    on_step: &mut dyn FnMut(&StepView) -> Control,
+) -> Result<Stats, RunError> {
     let n = sys.len();
     let duration = settings.duration;
-    let mut stats = Stats { smallest_step: f64::INFINITY, ..Stats::default() };
+    let mut stats = Stats {
+        smallest_step: f64::INFINITY,
+        ..Stats::default()
+    };
     let mut entries = Vec::new();
     let mut rhs = vec![0.0; n];
     sys.assemble(0.0, x0, Some(&mut entries), &mut rhs);
     let cap = sys.capacity().to_vec();
     let mats = StepMatrices::new(n, &entries, &cap).map_err(|_| RunError::Singular)?;
-    let mut st = Stepper { sys, mats, linear: sys.is_linear(), cap, entries, rhs, tmp: vec![0.0; n], newton: 0 };
+    let mut st = Stepper {
+        sys,
+        mats,
+        linear: sys.is_linear(),
+        cap,
+        entries,
+        rhs,
+        tmp: vec![0.0; n],
+        newton: 0,
+    };
 
     let mut x = x0.to_vec();
     let mut f = vec![0.0; n];
     st.balance(0.0, &x, &mut f);
-    let (mut xg, mut x1, mut fg, mut f1, mut known, mut tau) = (vec![0.0; n], vec![0.0; n], vec![0.0; n], vec![0.0; n], vec![0.0; n], vec![0.0; n]);
+    let (mut xg, mut x1, mut fg, mut f1, mut known, mut tau) = (
+        vec![0.0; n],
+        vec![0.0; n],
+        vec![0.0; n],
+        vec![0.0; n],
+        vec![0.0; n],
+        vec![0.0; n],
+    );
 
     let tol = settings.tolerance;
     let hmax = duration / 10.0;
     let hmin = duration * 1e-12;
     let h0 = match settings.mode {
         StepMode::Fixed(h) => h.min(duration),
-        StepMode::Auto => settings.first_step.unwrap_or_else(|| first_step(&f, &st.cap, &st.mats.diagonal(), tol, duration)),
+        StepMode::Auto => settings
+            .first_step
+            .unwrap_or_else(|| first_step(&f, &st.cap, &st.mats.diagonal(), tol, duration)),
     };
     let mut level: i32 = 0;
     let mut corners = Vec::new();
@@ -213,7 +244,12 @@ pub fn integrate(sys: &dyn HeatSystem, x0: &[f64], settings: &Settings, on_step:
         if settings.mode == StepMode::Auto {
             corners.clear();
             sys.corners(t, target, &mut corners);
-            if let Some(tc) = corners.iter().copied().filter(|&c| c > t + hmin).reduce(f64::min) {
+            if let Some(tc) = corners
+                .iter()
+                .copied()
+                .filter(|&c| c > t + hmin)
+                .reduce(f64::min)
+            {
                 if tc < target {
                     target = tc;
                     clipped = true;
@@ -243,14 +279,21 @@ pub fn integrate(sys: &dyn HeatSystem, x0: &[f64], settings: &Settings, on_step:
         st.balance(target, &x1, &mut f1);
         // Error estimate.
         for i in 0..n {
-            tau[i] = 2.0 * K_ERR * h * (f[i] / GAMMA - fg[i] / (GAMMA * (1.0 - GAMMA)) + f1[i] / (1.0 - GAMMA));
+            tau[i] = 2.0
+                * K_ERR
+                * h
+                * (f[i] / GAMMA - fg[i] / (GAMMA * (1.0 - GAMMA)) + f1[i] / (1.0 - GAMMA));
         }
         st.mats.solve(key, &mut tau);
         let error = c * max_abs(&tau);
         if error.is_nan() || max_abs(&x1).is_nan() {
             return Err(RunError::NonFinite { time: target });
         }
-        let ratio = if error > 0.0 { 0.9 * (tol / error).cbrt() } else { f64::INFINITY };
+        let ratio = if error > 0.0 {
+            0.9 * (tol / error).cbrt()
+        } else {
+            f64::INFINITY
+        };
         if settings.mode == StepMode::Auto && error > tol {
             stats.rejected += 1;
             if h <= hmin {
@@ -263,7 +306,14 @@ pub fn integrate(sys: &dyn HeatSystem, x0: &[f64], settings: &Settings, on_step:
             continue;
         }
 
-        let control = on_step(&StepView { t, h, x0: &x, xg: &xg, x1: &x1, error });
+        let control = on_step(&StepView {
+            t,
+            h,
+            x0: &x,
+            xg: &xg,
+            x1: &x1,
+            error,
+        });
         stats.steps += 1;
         stats.smallest_step = stats.smallest_step.min(h);
         stats.largest_step = stats.largest_step.max(h);

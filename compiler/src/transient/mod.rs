@@ -42,13 +42,25 @@ pub enum RunError {
 impl std::fmt::Display for RunError {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         match self {
-            RunError::Singular => write!(f, "the step matrix C/(d·h) + G could not be factored (not positive definite)"),
-            RunError::NonFinite { time } => write!(f, "temperatures stopped being finite numbers at t = {time:.6e} s"),
+            RunError::Singular => write!(
+                f,
+                "the step matrix C/(d·h) + G could not be factored (not positive definite)"
+            ),
+            RunError::NonFinite { time } => write!(
+                f,
+                "temperatures stopped being finite numbers at t = {time:.6e} s"
+            ),
             RunError::StepTooSmall { time, step } => {
                 write!(f, "the automatic step fell to {step:.3e} s at t = {time:.6e} s without meeting the tolerance")
             }
-            RunError::TooManySteps { time } => write!(f, "the run needs more steps than allowed (stopped at t = {time:.6e} s)"),
-            RunError::NoConvergence { time } => write!(f, "the nonlinear iteration did not converge at t = {time:.6e} s"),
+            RunError::TooManySteps { time } => write!(
+                f,
+                "the run needs more steps than allowed (stopped at t = {time:.6e} s)"
+            ),
+            RunError::NoConvergence { time } => write!(
+                f,
+                "the nonlinear iteration did not converge at t = {time:.6e} s"
+            ),
         }
     }
 }

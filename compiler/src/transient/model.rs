@@ -71,7 +71,10 @@ impl Dynamics {
         c
     }
     pub fn schedule_of(&self, node: NodeId, what: Driven) -> Option<&Schedule> {
-        self.bindings.iter().find(|b| b.node == node && b.what == what).and_then(|b| self.schedules.get(b.schedule))
+        self.bindings
+            .iter()
+            .find(|b| b.node == node && b.what == what)
+            .and_then(|b| self.schedules.get(b.schedule))
     }
 }
 

@@ -26,17 +26,34 @@ impl Probe {
             (Measure::Temperature, Subject::Node(n)) => Probe::Temperature(n),
             (Measure::HeatFlow, Subject::Link(l)) => Probe::LinkFlow(l),
             (Measure::HeatFlow, Subject::Group(g)) => Probe::GroupFlow(g),
-            (Measure::HeatFlux, Subject::Link(l)) => Probe::PerArea(Box::new(Probe::LinkFlow(l)), net.links[l].area.unwrap_or(f64::NAN)),
-            (Measure::HeatFlux, Subject::Group(g)) => Probe::PerArea(Box::new(Probe::GroupFlow(g)), net.groups[g].area.unwrap_or(f64::NAN)),
+            (Measure::HeatFlux, Subject::Link(l)) => Probe::PerArea(
+                Box::new(Probe::LinkFlow(l)),
+                net.links[l].area.unwrap_or(f64::NAN),
+            ),
+            (Measure::HeatFlux, Subject::Group(g)) => Probe::PerArea(
+                Box::new(Probe::GroupFlow(g)),
+                net.groups[g].area.unwrap_or(f64::NAN),
+            ),
             (Measure::UValue | Measure::RValue, Subject::Link(l)) => {
-                let (g, a) = (net.links[l].conductance(), net.links[l].area.unwrap_or(f64::NAN));
+                let (g, a) = (
+                    net.links[l].conductance(),
+                    net.links[l].area.unwrap_or(f64::NAN),
+                );
                 Probe::Constant(if m == Measure::UValue { g / a } else { a / g })
             }
             (Measure::UValue | Measure::RValue, Subject::Group(gi)) => {
                 let group = &net.groups[gi];
-                let r: f64 = group.links.iter().map(|&l| 1.0 / net.links[l].conductance()).sum();
+                let r: f64 = group
+                    .links
+                    .iter()
+                    .map(|&l| 1.0 / net.links[l].conductance())
+                    .sum();
                 let a = group.area.unwrap_or(f64::NAN);
-                Probe::Constant(if m == Measure::UValue { 1.0 / (r * a) } else { r * a })
+                Probe::Constant(if m == Measure::UValue {
+                    1.0 / (r * a)
+                } else {
+                    r * a
+                })
             }
             _ => Probe::Constant(f64::NAN),
         }
@@ -52,7 +69,11 @@ impl Probe {
             }
             Probe::GroupFlow(g) => {
                 let group = &net.groups[*g];
-                let r: f64 = group.links.iter().map(|&l| 1.0 / net.links[l].conductance()).sum();
+                let r: f64 = group
+                    .links
+                    .iter()
+                    .map(|&l| 1.0 / net.links[l].conductance())
+                    .sum();
                 (t[group.from] - t[group.to]) / r
             }
             Probe::Constant(v) => *v,
@@ -73,7 +94,11 @@ impl Quadratic {
     /// Through (0, p0), (γ, pg), (1, p1).
     pub fn through(p0: f64, pg: f64, p1: f64, gamma: f64) -> Quadratic {
         let a = (pg - p0 - gamma * (p1 - p0)) / (gamma * (gamma - 1.0));
-        Quadratic { a, b: p1 - p0 - a, c: p0 }
+        Quadratic {
+            a,
+            b: p1 - p0 - a,
+            c: p0,
+        }
     }
 
     pub fn at(&self, s: f64) -> f64 {
@@ -144,7 +169,11 @@ impl Quadratic {
 
 /// Lagrange weights of the quadratic through s = 0, γ, 1, evaluated at `s`.
 pub fn weights(s: f64, gamma: f64) -> [f64; 3] {
-    [(s - gamma) * (s - 1.0) / gamma, s * (s - 1.0) / (gamma * (gamma - 1.0)), s * (s - gamma) / (1.0 - gamma)]
+    [
+        (s - gamma) * (s - 1.0) / gamma,
+        s * (s - 1.0) / (gamma * (gamma - 1.0)),
+        s * (s - gamma) / (1.0 - gamma),
+    ]
 }
 
 #[cfg(test)]

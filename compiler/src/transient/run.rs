@@ -3,7 +3,9 @@
 //! worst value over the run and when it first fails, each node's final and extreme values, and
 //! the energy balance (stored = delivered by boundaries + loads, the first law).
 
-use super::integrate::{integrate, Control, Settings, Stats, StepMode, StepView, GAMMA, W0, W1, W2};
+use super::integrate::{
+    integrate, Control, Settings, Stats, StepMode, StepView, GAMMA, W0, W1, W2,
+};
 use super::model::RunSpec;
 use super::probe::{weights, Probe, Quadratic};
 use super::system::{HeatSystem, NetworkSystem};
@@ -36,7 +38,11 @@ pub struct RunOptions {
 
 impl Default for RunOptions {
     fn default() -> Self {
-        RunOptions { record: Record::All, crossings: Vec::new(), max_steps: MAX_STEPS }
+        RunOptions {
+            record: Record::All,
+            crossings: Vec::new(),
+            max_steps: MAX_STEPS,
+        }
     }
 }
 
@@ -127,25 +133,41 @@ pub struct RunResult {
 /// 1, 2, 3, 6, 12 h, 1, 2, 5, 10 d ... not below `at_least`.
 pub fn nice_interval(at_least: f64) -> f64 {
     const NICE: &[f64] = &[
-        1.0, 2.0, 5.0, 10.0, 15.0, 30.0, 60.0, 120.0, 300.0, 600.0, 900.0, 1800.0, 3600.0, 7200.0, 10800.0, 21600.0, 43200.0, 86400.0,
-        172800.0, 432000.0, 864000.0,
+        1.0, 2.0, 5.0, 10.0, 15.0, 30.0, 60.0, 120.0, 300.0, 600.0, 900.0, 1800.0, 3600.0, 7200.0,
+        10800.0, 21600.0, 43200.0, 86400.0, 172800.0, 432000.0, 864000.0,
     ];
     if at_least < 1.0 {
         // Below a second: 1, 2, 5 × a power of ten.
         let p = 10f64.powf(at_least.log10().floor());
-        return [1.0, 2.0, 5.0, 10.0].iter().map(|m| m * p).find(|&v| v >= at_least * (1.0 - 1e-12)).unwrap_or(at_least);
+        return [1.0, 2.0, 5.0, 10.0]
+            .iter()
+            .map(|m| m * p)
+            .find(|&v| v >= at_least * (1.0 - 1e-12))
+            .unwrap_or(at_least);
     }
-    NICE.iter().copied().find(|&v| v >= at_least * (1.0 - 1e-12)).unwrap_or_else(|| (at_least / 86400.0).ceil() * 86400.0)
+    NICE.iter()
+        .copied()
+        .find(|&v| v >= at_least * (1.0 - 1e-12))
+        .unwrap_or_else(|| (at_least / 86400.0).ceil() * 86400.0)
 }
 
 /// Run the network through `spec`. The initial state is the steady solution at the start time
 /// (schedules at their start values), replaced by the stated `initial` temperatures; nodes without
 /// capacity are then set consistent with their neighbours.
-pub fn run_transient(net: &Network, limits: &[LimitSpec], spec: &RunSpec, options: &RunOptions, mut hooks: Hooks) -> Result<RunResult, RunError> {
+pub fn run_transient(
+    net: &Network,
+    limits: &[LimitSpec],
+    spec: &RunSpec,
+    options: &RunOptions,
+    mut hooks: Hooks,
+) -> Result<RunResult, RunError> {
     let sys = NetworkSystem::new(net, spec.start);
     let duration = spec.duration;
     let tolerance = spec.tolerance.unwrap_or(DEFAULT_TOLERANCE);
-    let output_interval = spec.output.unwrap_or_else(|| nice_interval(duration / 100.0)).min(duration);
+    let output_interval = spec
+        .output
+        .unwrap_or_else(|| nice_interval(duration / 100.0))
+        .min(duration);
     let mode = match spec.step {
         Some(h) => StepMode::Fixed(h.min(duration)),
         None => StepMode::Auto,
@@ -160,13 +182,19 @@ pub fn run_transient(net: &Network, limits: &[LimitSpec], spec: &RunSpec, option
         Record::Nodes(v) => v.clone(),
         Record::Nothing => Vec::new(),
     };
-    let fixed_nodes: Vec<NodeId> = (0..n_all).filter(|&i| net.nodes[i].fixed.is_some()).collect();
+    let fixed_nodes: Vec<NodeId> = (0..n_all)
+        .filter(|&i| net.nodes[i].fixed.is_some())
+        .collect();
     let mut fixed_slot = vec![usize::MAX; n_all];
     for (k, &i) in fixed_nodes.iter().enumerate() {
         fixed_slot[i] = k;
     }
     // Links that touch a fixed node, for the heat each boundary delivers.
-    let boundary_links: Vec<usize> = (0..net.links.len()).filter(|&l| fixed_slot[net.links[l].from] != usize::MAX || fixed_slot[net.links[l].to] != usize::MAX).collect();
+    let boundary_links: Vec<usize> = (0..net.links.len())
+        .filter(|&l| {
+            fixed_slot[net.links[l].from] != usize::MAX || fixed_slot[net.links[l].to] != usize::MAX
+        })
+        .collect();
     let boundary_flows = |s: &[f64], out: &mut Vec<f64>| {
         out.clear();
         out.resize(fixed_nodes.len(), 0.0);
@@ -182,7 +210,10 @@ pub fn run_transient(net: &Network, limits: &[LimitSpec], spec: &RunSpec, option
         }
     };
     let total_load = |t: f64| -> f64 { sys.free.iter().map(|&i| sys.load(i, t)).sum() };
-    let probes: Vec<Probe> = limits.iter().map(|l| Probe::for_measure(net, l.measure, l.subject)).collect();
+    let probes: Vec<Probe> = limits
+        .iter()
+        .map(|l| Probe::for_measure(net, l.measure, l.subject))
+        .collect();
 
     let mut q0 = Vec::new();
     boundary_flows(&s0, &mut q0);
@@ -198,10 +229,23 @@ pub fn run_transient(net: &Network, limits: &[LimitSpec], spec: &RunSpec, option
         temperatures: vec![recorded.iter().map(|&i| s0[i]).collect()],
         fixed_nodes: fixed_nodes.clone(),
         boundary_heat: vec![q0.clone()],
-        nodes: s0.iter().map(|&v| NodeTrace { initial: v, last: v, min: v, min_time: 0.0, max: v, max_time: 0.0 }).collect(),
+        nodes: s0
+            .iter()
+            .map(|&v| NodeTrace {
+                initial: v,
+                last: v,
+                min: v,
+                min_time: 0.0,
+                max: v,
+                max_time: 0.0,
+            })
+            .collect(),
         crossings: Vec::new(),
         limits: Vec::new(),
-        energy: Energy { boundaries: fixed_nodes.iter().map(|&i| (i, 0.0)).collect(), ..Energy::default() },
+        energy: Energy {
+            boundaries: fixed_nodes.iter().map(|&i| (i, 0.0)).collect(),
+            ..Energy::default()
+        },
         stats: Stats::default(),
         interrupted: false,
         notes: Vec::new(),
@@ -239,8 +283,17 @@ pub fn run_transient(net: &Network, limits: &[LimitSpec], spec: &RunSpec, option
             let to = output_time(next_output);
             let w = weights(((to - t) / h).clamp(0.0, 1.0), GAMMA);
             result.times.push(to);
-            result.temperatures.push(recorded.iter().map(|&i| w[0] * s0[i] + w[1] * sg[i] + w[2] * s1[i]).collect());
-            result.boundary_heat.push((0..q0.len()).map(|k| w[0] * q0[k] + w[1] * qg[k] + w[2] * q1[k]).collect());
+            result.temperatures.push(
+                recorded
+                    .iter()
+                    .map(|&i| w[0] * s0[i] + w[1] * sg[i] + w[2] * s1[i])
+                    .collect(),
+            );
+            result.boundary_heat.push(
+                (0..q0.len())
+                    .map(|k| w[0] * q0[k] + w[1] * qg[k] + w[2] * q1[k])
+                    .collect(),
+            );
             next_output += 1;
         }
         for (i, tr) in result.nodes.iter_mut().enumerate() {
@@ -268,7 +321,10 @@ pub fn run_transient(net: &Network, limits: &[LimitSpec], spec: &RunSpec, option
                 state.1 = t + s_worst * h;
             }
             if state.2.is_none() {
-                let into_failure = q.crossings(spec.value).into_iter().find(|&(_, rising)| rising == upper);
+                let into_failure = q
+                    .crossings(spec.value)
+                    .into_iter()
+                    .find(|&(_, rising)| rising == upper);
                 if let Some((s, _)) = into_failure {
                     state.2 = Some(t + s * h);
                 } else if !verdict(spec, p1).passed {
@@ -281,7 +337,12 @@ pub fn run_transient(net: &Network, limits: &[LimitSpec], spec: &RunSpec, option
             let q = Quadratic::through(s0[node], sg[node], s1[node], GAMMA);
             for (s, rising) in q.crossings(level) {
                 if result.crossings.len() < 10_000 {
-                    result.crossings.push(Crossing { node, level, time: t + s * h, rising });
+                    result.crossings.push(Crossing {
+                        node,
+                        level,
+                        time: t + s * h,
+                        rising,
+                    });
                 }
             }
         }
@@ -308,7 +369,13 @@ pub fn run_transient(net: &Network, limits: &[LimitSpec], spec: &RunSpec, option
         // Only fixed nodes: their schedules are the whole answer.
         quiet_run(&sys, duration, output_interval, &mut on_step)
     } else {
-        let settings = Settings { duration, mode, tolerance, max_steps: options.max_steps, first_step: None };
+        let settings = Settings {
+            duration,
+            mode,
+            tolerance,
+            max_steps: options.max_steps,
+            first_step: None,
+        };
         integrate(&sys, &x0, &settings, &mut on_step)?
     };
     // `s0` holds the final state now.
@@ -316,17 +383,28 @@ pub fn run_transient(net: &Network, limits: &[LimitSpec], spec: &RunSpec, option
         result.interrupted = true;
         if result.times.last().is_some_and(|&t| t < stats.end_time) {
             result.times.push(stats.end_time);
-            result.temperatures.push(recorded.iter().map(|&i| s0[i]).collect());
+            result
+                .temperatures
+                .push(recorded.iter().map(|&i| s0[i]).collect());
             result.boundary_heat.push(q0.clone());
         }
     }
-    result.energy.stored = capacity_all.iter().zip(s0.iter().zip(&start_state)).map(|(c, (a, b))| c * (a - b)).sum();
-    let delivered: f64 = result.energy.boundaries.iter().map(|b| b.1).sum::<f64>() + result.energy.loads;
+    result.energy.stored = capacity_all
+        .iter()
+        .zip(s0.iter().zip(&start_state))
+        .map(|(c, (a, b))| c * (a - b))
+        .sum();
+    let delivered: f64 =
+        result.energy.boundaries.iter().map(|b| b.1).sum::<f64>() + result.energy.loads;
     result.energy.residual = result.energy.stored - delivered;
     result.limits = limits
         .iter()
         .zip(limit_state)
-        .map(|(spec, (worst, time, first))| LimitOverRun { result: verdict(spec, worst), worst_time: time, first_failure: first })
+        .map(|(spec, (worst, time, first))| LimitOverRun {
+            result: verdict(spec, worst),
+            worst_time: time,
+            first_failure: first,
+        })
         .collect();
     if let StepMode::Fixed(h) = mode {
         if stats.largest_error > tolerance {
@@ -341,12 +419,24 @@ pub fn run_transient(net: &Network, limits: &[LimitSpec], spec: &RunSpec, option
 }
 
 /// A run with no free node: step from output to output so the observer still sees the schedules.
-fn quiet_run(sys: &NetworkSystem, duration: f64, interval: f64, on_step: &mut dyn FnMut(&StepView) -> Control) -> Stats {
+fn quiet_run(
+    sys: &NetworkSystem,
+    duration: f64,
+    interval: f64,
+    on_step: &mut dyn FnMut(&StepView) -> Control,
+) -> Stats {
     let mut stats = Stats::default();
     let mut t = 0.0;
     while duration - t > 1e-12 * duration {
         let t1 = (t + interval).min(duration);
-        let control = on_step(&StepView { t, h: t1 - t, x0: &[], xg: &[], x1: &[], error: 0.0 });
+        let control = on_step(&StepView {
+            t,
+            h: t1 - t,
+            x0: &[],
+            xg: &[],
+            x1: &[],
+            error: 0.0,
+        });
         stats.steps += 1;
         t = t1;
         if control == Control::Stop {
@@ -411,7 +501,8 @@ fn initial_state(sys: &NetworkSystem, net: &Network) -> Result<Vec<f64>, RunErro
                 (r, c) => sub.push(faer::sparse::Triplet::new(r, c, e.val)),
             }
         }
-        let xa = crate::solve::solve_spd(algebraic.len(), &sub, &b).map_err(|_| RunError::Singular)?;
+        let xa =
+            crate::solve::solve_spd(algebraic.len(), &sub, &b).map_err(|_| RunError::Singular)?;
         for (a, &k) in algebraic.iter().enumerate() {
             x[k] = xa[a];
         }

@@ -47,7 +47,12 @@ impl Schedule {
             return;
         }
         match self.repeat {
-            None => out.extend(self.points.iter().map(|p| p.0).filter(|&t| t > t0 && t <= t1)),
+            None => out.extend(
+                self.points
+                    .iter()
+                    .map(|p| p.0)
+                    .filter(|&t| t > t0 && t <= t1),
+            ),
             Some(period) => {
                 let mut k = (t0 / period).floor() - 1.0;
                 // A run spans at most a bounded number of periods (the step count is bounded).
@@ -87,7 +92,14 @@ mod tests {
     use super::*;
 
     fn sched(points: &[(f64, f64)], repeat: Option<f64>) -> Schedule {
-        Schedule { name: "s".into(), span: Span::default(), points: points.to_vec(), repeat, dim: Dim::POWER, kind: TempKind::NotTemperature }
+        Schedule {
+            name: "s".into(),
+            span: Span::default(),
+            points: points.to_vec(),
+            repeat,
+            dim: Dim::POWER,
+            kind: TempKind::NotTemperature,
+        }
     }
 
     #[test]

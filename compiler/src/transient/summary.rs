@@ -40,26 +40,36 @@ pub fn summarize(analysis: &Analysis, cancel: &AtomicBool) -> Option<Result<RunS
         return None;
     }
     let spec = analysis.studies.runs.first()?;
-    let options = RunOptions { record: Record::Nothing, ..RunOptions::default() };
-    let hooks = Hooks { cancel: Some(cancel), progress: None };
-    Some(run_transient(&analysis.network, &analysis.limits, spec, &options, hooks).map(|r| RunSummary {
-        run: r.name.clone(),
-        duration_s: r.duration,
-        reached_s: r.stats.end_time,
-        stopped_early: r.interrupted,
-        nodes: r
-            .nodes
-            .iter()
-            .enumerate()
-            .map(|(i, tr)| NodeSummary {
-                node: i,
-                name: analysis.network.nodes[i].name.clone(),
-                final_k: tr.last,
-                max_k: tr.max,
-                max_time_s: tr.max_time,
-                min_k: tr.min,
-                min_time_s: tr.min_time,
-            })
-            .collect(),
-    }))
+    let options = RunOptions {
+        record: Record::Nothing,
+        ..RunOptions::default()
+    };
+    let hooks = Hooks {
+        cancel: Some(cancel),
+        progress: None,
+    };
+    Some(
+        run_transient(&analysis.network, &analysis.limits, spec, &options, hooks).map(|r| {
+            RunSummary {
+                run: r.name.clone(),
+                duration_s: r.duration,
+                reached_s: r.stats.end_time,
+                stopped_early: r.interrupted,
+                nodes: r
+                    .nodes
+                    .iter()
+                    .enumerate()
+                    .map(|(i, tr)| NodeSummary {
+                        node: i,
+                        name: analysis.network.nodes[i].name.clone(),
+                        final_k: tr.last,
+                        max_k: tr.max,
+                        max_time_s: tr.max_time,
+                        min_k: tr.min,
+                        min_time_s: tr.min_time,
+                    })
+                    .collect(),
+            }
+        }),
+    )
 }

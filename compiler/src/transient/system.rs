@@ -60,8 +60,12 @@ impl<'a> NetworkSystem<'a> {
         }
         let all_c = net.dynamics.capacity_vector(n_all);
         let capacity = free.iter().map(|&i| all_c[i]).collect();
-        let fixed_schedules = (0..n_all).map(|i| net.dynamics.schedule_of(i, Driven::Fixed)).collect();
-        let load_schedules = (0..n_all).map(|i| net.dynamics.schedule_of(i, Driven::Load)).collect();
+        let fixed_schedules = (0..n_all)
+            .map(|i| net.dynamics.schedule_of(i, Driven::Fixed))
+            .collect();
+        let load_schedules = (0..n_all)
+            .map(|i| net.dynamics.schedule_of(i, Driven::Load))
+            .collect();
         let mut boundary_links = Vec::new();
         for l in &net.links {
             match (index[l.from], index[l.to]) {
@@ -71,7 +75,16 @@ impl<'a> NetworkSystem<'a> {
                 _ => {}
             }
         }
-        NetworkSystem { net, index, free, capacity, start, fixed_schedules, load_schedules, boundary_links }
+        NetworkSystem {
+            net,
+            index,
+            free,
+            capacity,
+            start,
+            fixed_schedules,
+            load_schedules,
+            boundary_links,
+        }
     }
 
     /// Temperature of a fixed node at time `t` of the run, K.
@@ -139,7 +152,12 @@ impl HeatSystem for NetworkSystem<'_> {
     }
     fn corners(&self, t0: f64, t1: f64, out: &mut Vec<f64>) {
         let before = out.len();
-        for s in self.fixed_schedules.iter().chain(&self.load_schedules).flatten() {
+        for s in self
+            .fixed_schedules
+            .iter()
+            .chain(&self.load_schedules)
+            .flatten()
+        {
             s.corners(self.start + t0, self.start + t1, out);
         }
         for t in &mut out[before..] {
