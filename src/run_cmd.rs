@@ -29,6 +29,10 @@ pub struct RunCli {
     /// Interval between reported times, e.g. `15min`.
     #[arg(long)]
     output: Option<String>,
+    /// Report at these times instead, e.g. `--at 30min,2h,5.5h` (the start and end are always
+    /// reported).
+    #[arg(long, value_name = "TIMES")]
+    at: Option<String>,
     /// Local error allowed per automatic step, e.g. `0.01K`.
     #[arg(long)]
     tolerance: Option<String>,
@@ -316,9 +320,21 @@ pub fn run(args: RunCli) -> u8 {
     catch_interrupt();
     let mut progress = Progress::new(format!("run `{}`", spec.name));
     let mut on_progress = |t: f64, d: f64| progress.update(t, d);
+    let times = match &args.at {
+        Some(list) => match list
+            .split(',')
+            .map(|t| time_arg(&Some(t.trim().to_string()), "at"))
+            .collect::<Result<Vec<_>, _>>()
+        {
+            Ok(v) => Some(v.into_iter().flatten().collect()),
+            Err(e) => return usage(e),
+        },
+        None => None,
+    };
     let options = RunOptions {
         record,
         crossings,
+        times,
         ..RunOptions::default()
     };
     let outcome = run_transient(

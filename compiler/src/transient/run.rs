@@ -33,6 +33,9 @@ pub struct RunOptions {
     pub record: Record,
     /// `(node, level in K)`: report every time the node's temperature passes the level.
     pub crossings: Vec<(NodeId, f64)>,
+    /// Report at exactly these times (s from the start) instead of every output interval; the
+    /// start and the end are always reported.
+    pub times: Option<Vec<f64>>,
     pub max_steps: usize,
 }
 
@@ -41,6 +44,7 @@ impl Default for RunOptions {
         RunOptions {
             record: Record::All,
             crossings: Vec::new(),
+            times: None,
             max_steps: MAX_STEPS,
         }
     }
@@ -261,9 +265,26 @@ pub fn run_transient(
         .collect();
     let mut p0: Vec<f64> = probes.iter().map(|p| p.value(net, &s0)).collect();
     let mut load0 = total_load(0.0);
-    let mut next_output = 1usize;
-    let output_time = |k: usize| ((k as f64) * output_interval).min(duration);
-    let n_outputs = (duration / output_interval - 1e-9).ceil() as usize;
+    let output_times: Vec<f64> = match &options.times {
+        Some(list) => {
+            let mut v: Vec<f64> = list
+                .iter()
+                .copied()
+                .filter(|&t| t > 0.0 && t < duration)
+                .collect();
+            v.sort_by(f64::total_cmp);
+            v.dedup();
+            v.push(duration);
+            v
+        }
+        None => {
+            let n = (duration / output_interval - 1e-9).ceil() as usize;
+            (1..=n)
+                .map(|k| (k as f64 * output_interval).min(duration))
+                .collect()
+        }
+    };
+    let mut next_output = 0usize;
 
     let mut sg = vec![0.0; n_all];
     let mut s1 = vec![0.0; n_all];
@@ -279,8 +300,8 @@ pub fn run_transient(
         boundary_flows(&sg, &mut qg);
         boundary_flows(&s1, &mut q1);
         // Outputs inside (t, t1].
-        while next_output <= n_outputs && output_time(next_output) <= t1 + 1e-9 * h {
-            let to = output_time(next_output);
+        while next_output < output_times.len() && output_times[next_output] <= t1 + 1e-9 * h {
+            let to = output_times[next_output];
             let w = weights(((to - t) / h).clamp(0.0, 1.0), GAMMA);
             result.times.push(to);
             result.temperatures.push(
