@@ -268,7 +268,10 @@ impl<'a> Parser<'a> {
                     match self.row() {
                         Ok(r) => out.push(r),
                         Err(d) => {
-                            // Resume at the next line, `}` or declaration.
+                            // Keep a placeholder row (never evaluated: the error is reported)
+                            // so the table does not also look empty; resume at the next line.
+                            let missing = Expr { kind: ExprKind::Missing, span: d.primary.span };
+                            out.push(Row { key: missing.clone(), value: missing, span: d.primary.span });
                             self.diags.push(d);
                             if self.pos == start {
                                 self.pos += 1;
@@ -585,7 +588,9 @@ mod tests {
         assert_eq!(d.len(), 1, "{d:?}");
         assert!(d[0].message.contains("found the end of the line"), "{}", d[0].message);
         let ItemKind::Declaration { rows, .. } = &m.items[0].kind else { panic!("not a declaration") };
-        assert_eq!(rows.as_ref().map(Vec::len), Some(3));
+        let rows = rows.as_ref().expect("rows");
+        assert_eq!(rows.len(), 4);
+        assert_eq!(rows[2].key.kind, ExprKind::Missing);
         assert_eq!(m.items.len(), 2);
     }
 

@@ -113,7 +113,7 @@ impl Cx<'_> {
             self.diags.push(
                 Diagnostic::error("E203", format!("schedule `{}` has no rows", name.name), name.span)
                     .with_label("no `TIME: VALUE` rows")
-                    .with_help("list the points in braces, one per line, e.g. `schedule night { 0 h: 4 °C\n  6 h: -3 °C }`"),
+                    .with_help("list the points in braces, one `TIME: VALUE` row per line, such as `0 h: 4 °C` and then `6 h: -3 °C`")
             );
             return;
         };
@@ -264,7 +264,7 @@ impl Cx<'_> {
                 ),
                 id.span,
             )
-            .with_label(format!("a schedule of {}", s.dim.describe()))
+            .with_label(format!("this schedule gives {}", s.dim.describe()))
             .with_secondary(s.span, "schedule declared here")
             .with_help("use a schedule whose values have the right unit")
         } else if s.kind == TempKind::Difference {
@@ -391,12 +391,8 @@ impl Cx<'_> {
         let mut c = None;
         match (capacity, &material) {
             (Some(_), Some((_, ms))) => {
-                self.alternatives(
-                    "capacity",
-                    "material",
-                    *ms,
-                    capacity.map(|c| c.1).unwrap_or(*ms),
-                );
+                let capacity_span = capacity.map(|c| c.1).unwrap_or(*ms);
+                self.alternatives("capacity", "material", capacity_span, *ms);
                 failed = true;
             }
             (Some((value, span)), None) => {
@@ -732,8 +728,11 @@ impl Cx<'_> {
                 }
             }
         }
+        let duration_written = args
+            .iter()
+            .any(|a| a.name.as_ref().is_some_and(|n| n.name == "duration"));
         if !has_duration {
-            if ok {
+            if !duration_written {
                 self.diags.push(
                     Diagnostic::error(
                         "E203",
