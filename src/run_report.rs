@@ -109,6 +109,10 @@ fn right(t: &mut Table, from: usize) {
     }
 }
 
+fn plural(n: usize, one: &str, many: &str) -> String {
+    format!("{n} {}", if n == 1 { one } else { many })
+}
+
 /// One line on how the run was stepped.
 pub fn stepping(r: &RunResult) -> String {
     let st = &r.stats;
@@ -119,20 +123,22 @@ pub fn stepping(r: &RunResult) -> String {
             format_number(r.tolerance)
         ),
     };
-    let range = if st.steps > 0 {
+    let range = if st.steps == 0 || r.mode != StepMode::Auto {
+        String::new()
+    } else if st.smallest_step == st.largest_step {
+        format!(", every step {}", show_time(st.smallest_step))
+    } else {
         format!(
-            ", steps {} to {}",
+            ", steps from {} to {}",
             show_time(st.smallest_step),
             show_time(st.largest_step)
         )
-    } else {
-        String::new()
     };
     format!(
-        "{how}: {} steps ({} rejected), {} factorisations{range}, largest local error estimate {} K",
-        st.steps,
+        "{how}: {} ({} rejected), {}{range}; largest local error estimate {} K",
+        plural(st.steps, "step", "steps"),
         st.rejected,
-        st.factorisations,
+        plural(st.factorisations, "factorisation", "factorisations"),
         format_number(st.largest_error)
     )
 }
