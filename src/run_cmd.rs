@@ -10,7 +10,7 @@ use caloris_compiler::transient::{run_transient, Hooks, Record, RunOptions};
 use caloris_compiler::units::{Dim, Quantity, TempKind, UnitSystem};
 use caloris_compiler::{analyze, Analysis, Diagnostic, Options};
 use std::io::IsTerminal;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 /// `caloris run` arguments.
 #[derive(clap::Args)]
@@ -77,7 +77,7 @@ fn usage(msg: impl std::fmt::Display) -> u8 {
 pub fn analyse(
     name: &str,
     text: &str,
-    file: &PathBuf,
+    file: &Path,
     overrides: Vec<(String, Quantity)>,
     quiet_warnings: bool,
 ) -> Option<Analysis> {

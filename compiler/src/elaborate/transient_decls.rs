@@ -166,9 +166,10 @@ impl Cx<'_> {
                 );
                 continue;
             }
-            if matches!(v.kind, TempKind::Point | TempKind::Difference) {
-                kind = v.kind;
-            } else if kind == TempKind::NotTemperature {
+            // A point or a difference decides the schedule's kind; `K` alone fits either.
+            if matches!(v.kind, TempKind::Point | TempKind::Difference)
+                || kind == TempKind::NotTemperature
+            {
                 kind = v.kind;
             }
             if let Some((prev, prev_span)) = last_time {
@@ -839,6 +840,7 @@ pub fn biot_number(net: &Network, node: NodeId, volume: f64, k: f64) -> Option<B
 
 /// A value that replaces a parameter must have the parameter's dimension and, for
 /// temperatures, the same kind (a point for a point, a difference for a difference).
+#[allow(clippy::result_large_err)] // the one Diagnostic type, as `eval::expect_dim` returns it
 pub fn fits_parameter(
     name: &str,
     base: Quantity,

@@ -131,8 +131,8 @@ impl Stepper<'_> {
                 .assemble(t, x, Some(&mut self.entries), &mut self.rhs);
             mul_entries(&self.entries, x, &mut self.tmp);
         }
-        for i in 0..f.len() {
-            f[i] = self.rhs[i] - self.tmp[i];
+        for ((f, r), g) in f.iter_mut().zip(&self.rhs).zip(&self.tmp) {
+            *f = r - g;
         }
     }
 
@@ -142,8 +142,8 @@ impl Stepper<'_> {
         if self.linear {
             self.sys.assemble(t, x, None, &mut self.rhs);
             let key = self.mats.factor(c).map_err(|_| RunError::Singular)?;
-            for i in 0..x.len() {
-                x[i] = known[i] + self.rhs[i];
+            for ((x, k), r) in x.iter_mut().zip(known).zip(&self.rhs) {
+                *x = k + r;
             }
             self.mats.solve(key, x);
             return Ok(key);
@@ -153,17 +153,17 @@ impl Stepper<'_> {
                 .assemble(t, x, Some(&mut self.entries), &mut self.rhs);
             self.mats.set_values(&self.entries);
             let key = self.mats.factor(c).map_err(|_| RunError::Singular)?;
-            for i in 0..x.len() {
-                self.tmp[i] = known[i] + self.rhs[i];
+            for ((t, k), r) in self.tmp.iter_mut().zip(known).zip(&self.rhs) {
+                *t = k + r;
             }
             self.mats.solve(key, &mut self.tmp);
             self.newton += 1;
             let mut change = 0.0f64;
             let mut size = 1.0f64;
-            for i in 0..x.len() {
-                change = change.max((self.tmp[i] - x[i]).abs());
-                size = size.max(self.tmp[i].abs());
-                x[i] = self.tmp[i];
+            for (x, &new) in x.iter_mut().zip(&self.tmp) {
+                change = change.max((new - *x).abs());
+                size = size.max(new.abs());
+                *x = new;
             }
             if change.is_nan() {
                 return Err(RunError::NonFinite { time: t });
