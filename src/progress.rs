@@ -54,10 +54,14 @@ impl Progress {
             if self.started.elapsed() < SHOW_AFTER {
                 return;
             }
-            let bar = ProgressBar::with_draw_target(Some(1000), ProgressDrawTarget::stderr());
-            let style = ProgressStyle::with_template("{msg} [{bar:40}] {percent:>3}%  {elapsed} (about {eta} left)  Ctrl-C stops and keeps what is done")
-                .unwrap_or_else(|_| ProgressStyle::default_bar())
-                .progress_chars("=> ");
+            let bar = ProgressBar::with_draw_target(Some(1000), ProgressDrawTarget::stderr())
+                .with_elapsed(self.started.elapsed());
+            // Short enough for an 80-column terminal, so the line never wraps.
+            let style = ProgressStyle::with_template(
+                "{msg:.bold} [{bar:24}] {percent:>3}% {elapsed} (~{eta} left) Ctrl-C: stop, keep results",
+            )
+            .unwrap_or_else(|_| ProgressStyle::default_bar())
+            .progress_chars("=> ");
             bar.set_style(style);
             bar.set_message(self.message.clone());
             self.bar = Some(bar);

@@ -184,7 +184,7 @@ pub fn table(
     }
     out.push_str(&format!("{t}\n\n"));
     let passing = r.points.iter().filter(|p| p.all_limits_pass()).count();
-    if !r.limits.is_empty() {
+    if !r.limits.is_empty() && !r.points.is_empty() {
         out.push_str(&format!(
             "{passing} of {} points meet every limit.\n",
             r.points.len()
