@@ -57,7 +57,14 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     let root = sources.add(name, text);
     let mut diagnostics = Vec::new();
     let mut modules = Vec::new();
-    load_module(root, &mut sources, loader, &mut modules, &mut diagnostics, &mut vec![name.to_string()]);
+    load_module(
+        root,
+        &mut sources,
+        loader,
+        &mut modules,
+        &mut diagnostics,
+        &mut vec![name.to_string()],
+    );
     let module_refs: Vec<&Module> = modules.iter().map(|(_, m)| m).collect();
     for m in &module_refs {
         diagnostics.extend(check_buildup_kinds(m));
@@ -81,12 +88,23 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     };
     if !analysis.has_errors() && !options.check_only {
         match solve_steady(&analysis.network) {
-            Ok(t) => analysis.solution = Some(Solution::new(&analysis.network, t, &analysis.limits)),
+            Ok(t) => {
+                analysis.solution = Some(Solution::new(&analysis.network, t, &analysis.limits))
+            }
             Err(e) => {
-                let span = analysis.network.nodes.first().map(|n| n.span).unwrap_or_default();
+                let span = analysis
+                    .network
+                    .nodes
+                    .first()
+                    .map(|n| n.span)
+                    .unwrap_or_default();
                 let msg = match e {
-                    SolveError::NotPositiveDefinite => "the network equations could not be solved (matrix not positive definite)",
-                    SolveError::NonFinite => "the solve produced values that are not finite numbers",
+                    SolveError::NotPositiveDefinite => {
+                        "the network equations could not be solved (matrix not positive definite)"
+                    }
+                    SolveError::NonFinite => {
+                        "the solve produced values that are not finite numbers"
+                    }
                 };
                 analysis.diagnostics.push(
                     Diagnostic::error("E501", msg, span)
@@ -125,11 +143,18 @@ fn load_module(
         match loader.load(&from, &path) {
             Ok((name, text)) => {
                 if stack.contains(&name) {
-                    let chain = stack.iter().chain(std::iter::once(&name)).cloned().collect::<Vec<_>>().join(" -> ");
+                    let chain = stack
+                        .iter()
+                        .chain(std::iter::once(&name))
+                        .cloned()
+                        .collect::<Vec<_>>()
+                        .join(" -> ");
                     diags.push(
                         Diagnostic::error("E602", format!("import cycle: {chain}"), span)
                             .with_label("this import leads back to a file that is being imported")
-                            .with_help("move the shared declarations into a file that imports neither"),
+                            .with_help(
+                                "move the shared declarations into a file that imports neither",
+                            ),
                     );
                     continue;
                 }
@@ -144,7 +169,9 @@ fn load_module(
             Err(msg) => diags.push(
                 Diagnostic::error("E601", format!("cannot import `{path}`: {msg}"), span)
                     .with_label("this file cannot be read")
-                    .with_help("paths are relative to the importing file and must stay inside the project"),
+                    .with_help(
+                        "paths are relative to the importing file and must stay inside the project",
+                    ),
             ),
         }
     }

@@ -44,14 +44,26 @@ impl NameKinds for Kinds<'_> {
 const K_TYPICAL: (f64, f64) = (0.01, 1000.0);
 
 /// Elaborate parsed modules (the root first, then imports) into a network.
-pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, crate::units::Quantity)]) -> Elaborated {
+pub fn elaborate(
+    modules: &[&Module],
+    sources: &Sources,
+    overrides: &[(String, crate::units::Quantity)],
+) -> Elaborated {
     let mut diags = Vec::new();
     let mut symbols = SymbolTable::default();
     let mut title = None;
     let mut items: Vec<&Item> = Vec::new();
     for (i, m) in modules.iter().enumerate() {
         for item in &m.items {
-            if i > 0 && matches!(item.kind, ItemKind::Node { .. } | ItemKind::Link { .. } | ItemKind::Limit { .. } | ItemKind::Title { .. }) {
+            if i > 0
+                && matches!(
+                    item.kind,
+                    ItemKind::Node { .. }
+                        | ItemKind::Link { .. }
+                        | ItemKind::Limit { .. }
+                        | ItemKind::Title { .. }
+                )
+            {
                 diags.push(
                     Diagnostic::warning("W105", "an imported file's nodes, links, limits and title are not used", item.span)
                         .with_label("ignored in the importing model")
@@ -89,16 +101,32 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             ItemKind::Declaration { ref word, .. } => transient_decls::symbol_kind(&word.name),
             _ => SymbolKind::Limit,
         };
-        symbols.symbols.push(Symbol { name: name.name.clone(), kind, def: name.span, decl: item.span, refs: Vec::new(), parent: None });
+        symbols.symbols.push(Symbol {
+            name: name.name.clone(),
+            kind,
+            def: name.span,
+            decl: item.span,
+            refs: Vec::new(),
+            parent: None,
+        });
         if let ItemKind::Buildup { elements, .. } = &item.kind {
             let mut seen: HashMap<&str, Span> = HashMap::new();
             for e in elements {
                 if let Some(prev) = seen.insert(&e.name.name, e.name.span) {
                     diags.push(
-                        Diagnostic::error("E201", format!("build-up `{}` has two elements named `{}`", name.name, e.name.name), e.name.span)
-                            .with_label("second element with this name")
-                            .with_secondary(prev, "first one here")
-                            .with_help("give each element its own name; it names the interface node after it"),
+                        Diagnostic::error(
+                            "E201",
+                            format!(
+                                "build-up `{}` has two elements named `{}`",
+                                name.name, e.name.name
+                            ),
+                            e.name.span,
+                        )
+                        .with_label("second element with this name")
+                        .with_secondary(prev, "first one here")
+                        .with_help(
+                            "give each element its own name; it names the interface node after it",
+                        ),
                     );
                 }
                 symbols.symbols.push(Symbol {
@@ -121,7 +149,15 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     for (n, q) in overrides {
         ev.set_override(n, *q);
     }
-    let mut cx = Cx { ev, symbols, sources, diags, materials: Vec::new(), material_index: HashMap::new(), timed: Default::default() };
+    let mut cx = Cx {
+        ev,
+        symbols,
+        sources,
+        diags,
+        materials: Vec::new(),
+        material_index: HashMap::new(),
+        timed: Default::default(),
+    };
 
     // 2. Parameters (all of them, so errors in unused ones are reported too).
     let mut param_values = Vec::new();
@@ -146,7 +182,13 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     for item in &items {
         if let ItemKind::Node { name, args } = &item.kind {
             let (fixed, load) = cx.node_args(name, args);
-            net.nodes.push(Node { name: name.name.clone(), span: name.span, fixed, load, generated: false });
+            net.nodes.push(Node {
+                name: name.name.clone(),
+                span: name.span,
+                fixed,
+                load,
+                generated: false,
+            });
             cx.node_dynamics(net.nodes.len() - 1, name, args, fixed.is_some());
         }
     }
@@ -164,7 +206,13 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             if let Some(els) = buildups.get(element.kind.name.as_str()) {
                 for e in els.iter().take(els.len().saturating_sub(1)) {
                     let gen = format!("{}.{}", name.name, e.name.name);
-                    net.nodes.push(Node { name: gen.clone(), span: e.name.span, fixed: None, load: 0.0, generated: true });
+                    net.nodes.push(Node {
+                        name: gen.clone(),
+                        span: e.name.span,
+                        fixed: None,
+                        load: 0.0,
+                        generated: true,
+                    });
                     cx.symbols.symbols.push(Symbol {
                         name: gen,
                         kind: SymbolKind::GeneratedNode,
@@ -177,19 +225,38 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             }
         }
     }
-    let node_index: HashMap<String, NodeId> = net.nodes.iter().enumerate().map(|(i, n)| (n.name.clone(), i)).collect();
+    let node_index: HashMap<String, NodeId> = net
+        .nodes
+        .iter()
+        .enumerate()
+        .map(|(i, n)| (n.name.clone(), i))
+        .collect();
     let mut used = vec![false; net.nodes.len()];
     for item in &items {
-        let ItemKind::Link { name, from, to, element } = &item.kind else { continue };
+        let ItemKind::Link {
+            name,
+            from,
+            to,
+            element,
+        } = &item.kind
+        else {
+            continue;
+        };
         let a = cx.node_ref(from, &node_index, &buildups);
         let b = cx.node_ref(to, &node_index, &buildups);
         if let (Some(a), Some(b)) = (a, b) {
             if a == b {
                 cx.diags.push(
-                    Diagnostic::error("E208", format!("link `{}` joins node `{}` to itself", name.name, from.name), to.span)
-                        .with_label("same node at both ends")
-                        .with_secondary(from.span, "first end")
-                        .with_help("a link carries heat between two different nodes; check the node names"),
+                    Diagnostic::error(
+                        "E208",
+                        format!("link `{}` joins node `{}` to itself", name.name, from.name),
+                        to.span,
+                    )
+                    .with_label("same node at both ends")
+                    .with_secondary(from.span, "first end")
+                    .with_help(
+                        "a link carries heat between two different nodes; check the node names",
+                    ),
                 );
                 continue;
             }
@@ -198,20 +265,24 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             cx.symbols.add_ref(&element.kind.name, element.kind.span);
             cx.buildup_link(&mut net, &node_index, name, a, b, element, els);
         } else if let Some(kind) = elements::lookup(&element.kind.name) {
-            let built = cx.args(kind, &element.args, element.span, None).and_then(|args| match kind.build(&args) {
-                Ok(b) => Some(b),
-                Err(d) => {
-                    cx.diags.push(d);
-                    None
-                }
-            });
+            let built =
+                cx.args(kind, &element.args, element.span, None)
+                    .and_then(|args| match kind.build(&args) {
+                        Ok(b) => Some(b),
+                        Err(d) => {
+                            cx.diags.push(d);
+                            None
+                        }
+                    });
             if let (Some(a), Some(b), Some(built)) = (a, b, built) {
                 net.links.push(Link {
                     name: name.name.clone(),
                     span: item.span,
                     from: a,
                     to: b,
-                    law: LinkLaw::Linear { conductance: built.conductance },
+                    law: LinkLaw::Linear {
+                        conductance: built.conductance,
+                    },
                     area: built.area,
                     kind: kind.name().to_string(),
                     formula: built.formula,
@@ -233,10 +304,27 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     // 6. Limits.
     let mut limit_specs = Vec::new();
     for item in &items {
-        if let ItemKind::Limit { name, measure, subject, op, value } = &item.kind {
+        if let ItemKind::Limit {
+            name,
+            measure,
+            subject,
+            op,
+            value,
+        } = &item.kind
+        {
             let kinds = Kinds(&cx.symbols);
             let q = cx.ev.eval(value, &kinds);
-            match limits::check_limit(name, measure, subject, *op, value, q, &net, &mut cx.symbols, sources) {
+            match limits::check_limit(
+                name,
+                measure,
+                subject,
+                *op,
+                value,
+                q,
+                &net,
+                &mut cx.symbols,
+                sources,
+            ) {
                 Ok(spec) => limit_specs.push(spec),
                 Err(Some(d)) => cx.diags.push(d),
                 Err(None) => {}
@@ -247,14 +335,22 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
 
     // 7. Connectivity, only when the network is otherwise sound (an unknown node name would
     // otherwise show up twice).
-    let has_errors = cx.diags.iter().chain(cx.ev.diags.iter()).any(|d| d.is_error());
+    let has_errors = cx
+        .diags
+        .iter()
+        .chain(cx.ev.diags.iter())
+        .any(|d| d.is_error());
     if !has_errors {
         for (i, n) in net.nodes.iter().enumerate() {
             if !used[i] && n.fixed.is_some() {
                 cx.diags.push(
-                    Diagnostic::warning("W102", format!("boundary node `{}` is not connected to anything", n.name), n.span)
-                        .with_label("no link ends here")
-                        .with_help("link it to the network or remove it"),
+                    Diagnostic::warning(
+                        "W102",
+                        format!("boundary node `{}` is not connected to anything", n.name),
+                        n.span,
+                    )
+                    .with_label("no link ends here")
+                    .with_help("link it to the network or remove it"),
                 );
             }
         }
@@ -277,12 +373,25 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     let mut diags = cx.diags;
     diags.extend(cx.ev.diags);
     net.dynamics = cx.timed.dynamics;
-    Elaborated { network: net, materials: cx.materials, limits: limit_specs, symbols: cx.symbols, params: param_values, title, diags, studies: cx.timed.studies }
+    Elaborated {
+        network: net,
+        materials: cx.materials,
+        limits: limit_specs,
+        symbols: cx.symbols,
+        params: param_values,
+        title,
+        diags,
+        studies: cx.timed.studies,
+    }
 }
 
 fn floating_error(net: &Network, group: &[NodeId]) -> Diagnostic {
     let names: Vec<&str> = group.iter().map(|&i| net.nodes[i].name.as_str()).collect();
-    let shown = if names.len() > 6 { format!("{}, … ({} nodes)", names[..6].join(", "), names.len()) } else { names.join(", ") };
+    let shown = if names.len() > 6 {
+        format!("{}, … ({} nodes)", names[..6].join(", "), names.len())
+    } else {
+        names.join(", ")
+    };
     let first = &net.nodes[group[0]];
     let mut d = Diagnostic::error(
         "E301",
@@ -292,7 +401,10 @@ fn floating_error(net: &Network, group: &[NodeId]) -> Diagnostic {
     .with_label("floating: its temperature is undetermined")
     .with_help("link these nodes to a node with a fixed temperature; without one the network equations are singular");
     for &i in group.iter().skip(1).take(5) {
-        d = d.with_secondary(net.nodes[i].span, format!("`{}` is in the same floating group", net.nodes[i].name));
+        d = d.with_secondary(
+            net.nodes[i].span,
+            format!("`{}` is in the same floating group", net.nodes[i].name),
+        );
     }
     d
 }
@@ -328,11 +440,19 @@ impl<'a> Cx<'a> {
         if v > 0.0 && v.is_finite() {
             return true;
         }
-        let written = self.text(e.span).get(e.span.range()).unwrap_or("").to_string();
+        let written = self
+            .text(e.span)
+            .get(e.span.range())
+            .unwrap_or("")
+            .to_string();
         self.diags.push(
-            Diagnostic::error("E202", format!("{what} must be greater than zero; `{written}` is not"), e.span)
-                .with_label(if v == 0.0 { "zero" } else { "not positive" })
-                .with_help(format!("give {what} a positive value")),
+            Diagnostic::error(
+                "E202",
+                format!("{what} must be greater than zero; `{written}` is not"),
+                e.span,
+            )
+            .with_label(if v == 0.0 { "zero" } else { "not positive" })
+            .with_help(format!("give {what} a positive value")),
         );
         false
     }
@@ -355,9 +475,13 @@ impl<'a> Cx<'a> {
         for arg in args {
             let Some(an) = &arg.name else {
                 self.diags.push(
-                    Diagnostic::error("E204", "material properties are written `name = value`", arg.span)
-                        .with_label("property without a name")
-                        .with_help("write e.g. `k = 0.04 W/(m*K)`"),
+                    Diagnostic::error(
+                        "E204",
+                        "material properties are written `name = value`",
+                        arg.span,
+                    )
+                    .with_label("property without a name")
+                    .with_help("write e.g. `k = 0.04 W/(m*K)`"),
                 );
                 continue;
             };
@@ -374,7 +498,12 @@ impl<'a> Cx<'a> {
                         }
                     }
                 }
-                "density" => density = self.quantity(&arg.value, Dim::DENSITY, "density").filter(|q| self.positive(q.value, &arg.value, "density")).map(|q| q.value),
+                "density" => {
+                    density = self
+                        .quantity(&arg.value, Dim::DENSITY, "density")
+                        .filter(|q| self.positive(q.value, &arg.value, "density"))
+                        .map(|q| q.value)
+                }
                 "specific_heat" => {
                     specific_heat = self
                         .quantity(&arg.value, Dim::SPECIFIC_HEAT, "specific_heat")
@@ -387,15 +516,26 @@ impl<'a> Cx<'a> {
         let Some(k) = k else {
             if !seen.contains_key("k") {
                 self.diags.push(
-                    Diagnostic::error("E203", format!("material `{}` needs a conductivity `k`", name.name), name.span)
-                        .with_label("no `k`")
-                        .with_help("add it, e.g. `(k = 0.04 W/(m*K))`"),
+                    Diagnostic::error(
+                        "E203",
+                        format!("material `{}` needs a conductivity `k`", name.name),
+                        name.span,
+                    )
+                    .with_label("no `k`")
+                    .with_help("add it, e.g. `(k = 0.04 W/(m*K))`"),
                 );
             }
             return;
         };
-        self.material_index.insert(name.name.clone(), self.materials.len());
-        self.materials.push(Material { name: name.name.clone(), span: name.span, k, density, specific_heat });
+        self.material_index
+            .insert(name.name.clone(), self.materials.len());
+        self.materials.push(Material {
+            name: name.name.clone(),
+            span: name.span,
+            k,
+            density,
+            specific_heat,
+        });
     }
 
     fn node_args(&mut self, name: &Ident, args: &[Arg]) -> (Option<f64>, f64) {
@@ -417,7 +557,10 @@ impl<'a> Cx<'a> {
                 continue;
             }
             // A boundary temperature or load that follows a schedule: its value at time 0 here.
-            if let Some(v) = matches!(an.name.as_str(), "fixed" | "load").then(|| self.scheduled_arg(an, arg)).flatten() {
+            if let Some(v) = matches!(an.name.as_str(), "fixed" | "load")
+                .then(|| self.scheduled_arg(an, arg))
+                .flatten()
+            {
                 match (an.name.as_str(), v) {
                     ("fixed", Some(v)) => fixed = Some(v),
                     (_, Some(v)) => {
@@ -433,9 +576,13 @@ impl<'a> Cx<'a> {
                     if let Some(q) = self.quantity(&arg.value, Dim::TEMPERATURE, "fixed") {
                         match expect_point(q, "fixed", &arg.value) {
                             Ok(()) if q.value <= 0.0 => self.diags.push(
-                                Diagnostic::error("E202", "this temperature is at or below absolute zero", arg.value.span)
-                                    .with_label("below 0 K")
-                                    .with_help("check the value and its unit (°C, °F or K)"),
+                                Diagnostic::error(
+                                    "E202",
+                                    "this temperature is at or below absolute zero",
+                                    arg.value.span,
+                                )
+                                .with_label("below 0 K")
+                                .with_help("check the value and its unit (°C, °F or K)"),
                             ),
                             Ok(()) => fixed = Some(q.value),
                             Err(d) => self.diags.push(d),
@@ -449,14 +596,27 @@ impl<'a> Cx<'a> {
                     }
                 }
                 n if transient_decls::NODE_ARGS.contains(&n) => {}
-                _ => self.unknown_arg(an, "a node", &["fixed", "load", "capacity", "material", "volume", "mass", "initial"]),
+                _ => self.unknown_arg(
+                    an,
+                    "a node",
+                    &[
+                        "fixed", "load", "capacity", "material", "volume", "mass", "initial",
+                    ],
+                ),
             }
         }
         if let (Some(_), Some(ls)) = (fixed, load_span) {
             self.diags.push(
-                Diagnostic::error("E209", format!("node `{}` is fixed, so a load on it has no effect", name.name), ls)
-                    .with_label("load on a fixed node")
-                    .with_help("put the load on a free node linked to it, or remove `fixed`"),
+                Diagnostic::error(
+                    "E209",
+                    format!(
+                        "node `{}` is fixed, so a load on it has no effect",
+                        name.name
+                    ),
+                    ls,
+                )
+                .with_label("load on a fixed node")
+                .with_help("put the load on a free node linked to it, or remove `fixed`"),
             );
         }
         (fixed, load)
@@ -472,40 +632,82 @@ impl<'a> Cx<'a> {
     }
 
     fn unknown_arg(&mut self, an: &Ident, what: &str, known: &[&str]) {
-        let list = known.iter().map(|k| format!("`{k}`")).collect::<Vec<_>>().join(", ");
-        let mut d = Diagnostic::error("E204", format!("{what} has no argument `{}`", an.name), an.span).with_label("unknown argument");
+        let list = known
+            .iter()
+            .map(|k| format!("`{k}`"))
+            .collect::<Vec<_>>()
+            .join(", ");
+        let mut d = Diagnostic::error(
+            "E204",
+            format!("{what} has no argument `{}`", an.name),
+            an.span,
+        )
+        .with_label("unknown argument");
         d = match did_you_mean(&an.name, known.iter().copied()) {
-            Some(s) => d.with_help(format!("did you mean `{s}`? It takes {list}")).with_fix(format!("Replace with `{s}`"), an.span, s),
+            Some(s) => d
+                .with_help(format!("did you mean `{s}`? It takes {list}"))
+                .with_fix(format!("Replace with `{s}`"), an.span, s),
             None => d.with_help(format!("it takes {list}")),
         };
         self.diags.push(d);
     }
 
     fn unknown_kind(&mut self, kind: &Ident, buildups: &HashMap<&str, &Vec<BuildupElement>>) {
-        let names: Vec<&str> = elements::ALL.iter().map(|k| k.name()).chain(buildups.keys().copied()).collect();
-        let mut d = Diagnostic::error("E206", format!("unknown link kind `{}`", kind.name), kind.span).with_label("not an element kind or build-up");
-        let list = elements::ALL.iter().map(|k| format!("`{}`", k.name())).collect::<Vec<_>>().join(", ");
+        let names: Vec<&str> = elements::ALL
+            .iter()
+            .map(|k| k.name())
+            .chain(buildups.keys().copied())
+            .collect();
+        let mut d = Diagnostic::error(
+            "E206",
+            format!("unknown link kind `{}`", kind.name),
+            kind.span,
+        )
+        .with_label("not an element kind or build-up");
+        let list = elements::ALL
+            .iter()
+            .map(|k| format!("`{}`", k.name()))
+            .collect::<Vec<_>>()
+            .join(", ");
         d = match did_you_mean(&kind.name, names) {
-            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), kind.span, s),
+            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
+                format!("Replace with `{s}`"),
+                kind.span,
+                s,
+            ),
             None => d.with_help(format!("use one of {list}, or the name of a `buildup`")),
         };
         self.diags.push(d);
     }
 
-    fn node_ref(&mut self, id: &Ident, index: &HashMap<String, NodeId>, buildups: &HashMap<&str, &Vec<BuildupElement>>) -> Option<NodeId> {
+    fn node_ref(
+        &mut self,
+        id: &Ident,
+        index: &HashMap<String, NodeId>,
+        buildups: &HashMap<&str, &Vec<BuildupElement>>,
+    ) -> Option<NodeId> {
         if let Some(&i) = index.get(&id.name) {
             self.symbols.add_ref(&id.name, id.span);
             return Some(i);
         }
         let mut d;
         if let Some(s) = self.symbols.get(&id.name) {
-            d = Diagnostic::error("E105", format!("`{}` is {}, not a node", id.name, s.kind.article()), id.span)
-                .with_label("a link's ends must be nodes")
-                .with_secondary(s.def, "declared here");
+            d = Diagnostic::error(
+                "E105",
+                format!("`{}` is {}, not a node", id.name, s.kind.article()),
+                id.span,
+            )
+            .with_label("a link's ends must be nodes")
+            .with_secondary(s.def, "declared here");
         } else {
-            d = Diagnostic::error("E102", format!("unknown node `{}`", id.name), id.span).with_label("no node has this name");
+            d = Diagnostic::error("E102", format!("unknown node `{}`", id.name), id.span)
+                .with_label("no node has this name");
             if let Some(s) = did_you_mean(&id.name, index.keys().map(|s| s.as_str())) {
-                d = d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), id.span, s);
+                d = d.with_help(format!("did you mean `{s}`?")).with_fix(
+                    format!("Replace with `{s}`"),
+                    id.span,
+                    s,
+                );
             } else if let Some((link, elem)) = id.name.split_once('.') {
                 let _ = buildups;
                 d = d.with_help(format!(
@@ -521,7 +723,13 @@ impl<'a> Cx<'a> {
 
     /// Check an element's arguments against its schema. `area` is supplied by the link when the
     /// element sits in a build-up.
-    fn args(&mut self, kind: &'static dyn ElementKind, args: &[Arg], call_span: Span, area: Option<(f64, Span)>) -> Option<Args> {
+    fn args(
+        &mut self,
+        kind: &'static dyn ElementKind,
+        args: &[Arg],
+        call_span: Span,
+        area: Option<(f64, Span)>,
+    ) -> Option<Args> {
         let specs = kind.params();
         let mut values = HashMap::new();
         let mut ok = true;
@@ -539,9 +747,21 @@ impl<'a> Cx<'a> {
                 None if i == 0 => &specs[0],
                 None => {
                     self.diags.push(
-                        Diagnostic::error("E204", "only the first argument may be written without its name", arg.span)
-                            .with_label("argument without a name")
-                            .with_help(format!("write `name = value`; `{}` takes {}", kind.name(), specs.iter().map(|s| format!("`{}`", s.name)).collect::<Vec<_>>().join(", "))),
+                        Diagnostic::error(
+                            "E204",
+                            "only the first argument may be written without its name",
+                            arg.span,
+                        )
+                        .with_label("argument without a name")
+                        .with_help(format!(
+                            "write `name = value`; `{}` takes {}",
+                            kind.name(),
+                            specs
+                                .iter()
+                                .map(|s| format!("`{}`", s.name))
+                                .collect::<Vec<_>>()
+                                .join(", ")
+                        )),
                     );
                     ok = false;
                     continue;
@@ -550,7 +770,13 @@ impl<'a> Cx<'a> {
             let key_span = arg.name.as_ref().map(|n| n.span).unwrap_or(arg.span);
             if let Some((_, prev)) = values.get(spec.name) {
                 let prev: Span = *prev;
-                self.duplicate_arg(&Ident { name: spec.name.to_string(), span: key_span }, prev);
+                self.duplicate_arg(
+                    &Ident {
+                        name: spec.name.to_string(),
+                        span: key_span,
+                    },
+                    prev,
+                );
                 ok = false;
                 continue;
             }
@@ -564,41 +790,68 @@ impl<'a> Cx<'a> {
                 continue;
             }
             match spec.ty {
-                ArgType::Material => match &arg.value.kind {
-                    ExprKind::Name(id) if self.material_index.contains_key(&id.name) => {
-                        self.symbols.add_ref(&id.name, id.span);
-                        let m = self.materials[self.material_index[&id.name]].clone();
-                        values.insert(spec.name, (ArgValue::Material(m), arg.value.span));
-                    }
-                    ExprKind::Name(id) if self.symbols.get(&id.name).is_some_and(|s| s.kind == SymbolKind::Material) => {
-                        // The material itself failed to check; its error is already reported.
-                        self.symbols.add_ref(&id.name, id.span);
-                        ok = false;
-                    }
-                    ExprKind::Name(id) => {
-                        ok = false;
-                        let known: Vec<&str> = self.symbols.names_of(SymbolKind::Material).collect();
-                        let mut d = if let Some(s) = self.symbols.get(&id.name) {
-                            Diagnostic::error("E105", format!("`{}` is {}, not a material", id.name, s.kind.article()), id.span)
+                ArgType::Material => {
+                    match &arg.value.kind {
+                        ExprKind::Name(id) if self.material_index.contains_key(&id.name) => {
+                            self.symbols.add_ref(&id.name, id.span);
+                            let m = self.materials[self.material_index[&id.name]].clone();
+                            values.insert(spec.name, (ArgValue::Material(m), arg.value.span));
+                        }
+                        ExprKind::Name(id)
+                            if self
+                                .symbols
+                                .get(&id.name)
+                                .is_some_and(|s| s.kind == SymbolKind::Material) =>
+                        {
+                            // The material itself failed to check; its error is already reported.
+                            self.symbols.add_ref(&id.name, id.span);
+                            ok = false;
+                        }
+                        ExprKind::Name(id) => {
+                            ok = false;
+                            let known: Vec<&str> =
+                                self.symbols.names_of(SymbolKind::Material).collect();
+                            let mut d = if let Some(s) = self.symbols.get(&id.name) {
+                                Diagnostic::error(
+                                    "E105",
+                                    format!(
+                                        "`{}` is {}, not a material",
+                                        id.name,
+                                        s.kind.article()
+                                    ),
+                                    id.span,
+                                )
                                 .with_label("a material was expected")
-                        } else {
-                            Diagnostic::error("E102", format!("unknown material `{}`", id.name), id.span).with_label("no material has this name")
-                        };
-                        d = match did_you_mean(&id.name, known) {
-                            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), id.span, s),
-                            None => d.with_help(format!("declare it, e.g. `material {} (k = 0.04 W/(m*K))`", id.name)),
-                        };
-                        self.diags.push(d);
-                    }
-                    _ => {
-                        ok = false;
-                        self.diags.push(
+                            } else {
+                                Diagnostic::error(
+                                    "E102",
+                                    format!("unknown material `{}`", id.name),
+                                    id.span,
+                                )
+                                .with_label("no material has this name")
+                            };
+                            d =
+                                match did_you_mean(&id.name, known) {
+                                    Some(s) => d
+                                        .with_help(format!("did you mean `{s}`?"))
+                                        .with_fix(format!("Replace with `{s}`"), id.span, s),
+                                    None => d.with_help(format!(
+                                        "declare it, e.g. `material {} (k = 0.04 W/(m*K))`",
+                                        id.name
+                                    )),
+                                };
+                            self.diags.push(d);
+                        }
+                        _ => {
+                            ok = false;
+                            self.diags.push(
                             Diagnostic::error("E101", format!("`{}` expects the name of a material", spec.name), arg.value.span)
                                 .with_label("not a material name")
                                 .with_help("name a declared material, or give the conductivity as `k = ...`"),
                         );
+                        }
                     }
-                },
+                }
                 ArgType::Quantity(dim) => match self.quantity(&arg.value, dim, spec.name) {
                     Some(q) => {
                         if spec.positive && !self.positive(q.value, &arg.value, spec.name) {
@@ -619,7 +872,11 @@ impl<'a> Cx<'a> {
                 values.insert("area", (ArgValue::Quantity(a), span));
             }
         }
-        ok.then_some(Args { kind: kind.name(), values, call_span })
+        ok.then_some(Args {
+            kind: kind.name(),
+            values,
+            call_span,
+        })
     }
 
     #[allow(clippy::too_many_arguments)]
@@ -645,17 +902,26 @@ impl<'a> Cx<'a> {
                     }
                 }
                 _ => {
-                    let n = arg.name.clone().unwrap_or(Ident { name: "value".into(), span: arg.span });
+                    let n = arg.name.clone().unwrap_or(Ident {
+                        name: "value".into(),
+                        span: arg.span,
+                    });
                     self.unknown_arg(&n, &format!("build-up `{}`", call.kind.name), &["area"]);
                 }
             }
         }
-        let needs_area = els.iter().any(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| k.takes_area()));
+        let needs_area = els
+            .iter()
+            .any(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| k.takes_area()));
         if area.is_none() && needs_area && call.args.is_empty() {
             self.diags.push(
-                Diagnostic::error("E203", format!("build-up `{}` needs the `area` it covers", call.kind.name), call.span)
-                    .with_label("`area` missing")
-                    .with_help(format!("add it, e.g. `{}(area = 10 m^2)`", call.kind.name)),
+                Diagnostic::error(
+                    "E203",
+                    format!("build-up `{}` needs the `area` it covers", call.kind.name),
+                    call.span,
+                )
+                .with_label("`area` missing")
+                .with_help(format!("add it, e.g. `{}(area = 10 m^2)`", call.kind.name)),
             );
             return;
         }
@@ -664,19 +930,27 @@ impl<'a> Cx<'a> {
         let mut prev = from;
         let mut complete = true;
         for (i, e) in els.iter().enumerate() {
-            let next = if i + 1 == els.len() { to } else { index.get(&format!("{}.{}", name.name, e.name.name)).copied() };
+            let next = if i + 1 == els.len() {
+                to
+            } else {
+                index
+                    .get(&format!("{}.{}", name.name, e.name.name))
+                    .copied()
+            };
             let Some(kind) = elements::lookup(&e.element.kind.name) else {
                 // Reported once at the build-up (below) rather than at every use.
                 complete = false;
                 continue;
             };
-            let built = self.args(kind, &e.element.args, e.element.span, area).and_then(|a| match kind.build(&a) {
-                Ok(b) => Some(b),
-                Err(d) => {
-                    self.diags.push(d);
-                    None
-                }
-            });
+            let built = self
+                .args(kind, &e.element.args, e.element.span, area)
+                .and_then(|a| match kind.build(&a) {
+                    Ok(b) => Some(b),
+                    Err(d) => {
+                        self.diags.push(d);
+                        None
+                    }
+                });
             match (prev, next, built) {
                 (Some(a), Some(b), Some(built)) => {
                     links.push(net.links.len());
@@ -685,7 +959,9 @@ impl<'a> Cx<'a> {
                         span: e.span,
                         from: a,
                         to: b,
-                        law: LinkLaw::Linear { conductance: built.conductance },
+                        law: LinkLaw::Linear {
+                            conductance: built.conductance,
+                        },
                         area: built.area,
                         kind: kind.name().to_string(),
                         formula: built.formula,
@@ -698,7 +974,15 @@ impl<'a> Cx<'a> {
         }
         if complete {
             if let (Some(a), Some(b)) = (from, to) {
-                net.groups.push(Group { name: name.name.clone(), span: name.span, buildup: call.kind.name.clone(), from: a, to: b, area: area.map(|a| a.0), links });
+                net.groups.push(Group {
+                    name: name.name.clone(),
+                    span: name.span,
+                    buildup: call.kind.name.clone(),
+                    from: a,
+                    to: b,
+                    area: area.map(|a| a.0),
+                    links,
+                });
             }
         }
     }
@@ -708,7 +992,11 @@ impl<'a> Cx<'a> {
 pub fn check_buildup_kinds(module: &Module) -> Vec<Diagnostic> {
     let mut out = Vec::new();
     for item in &module.items {
-        if let ItemKind::Buildup { elements: els, name } = &item.kind {
+        if let ItemKind::Buildup {
+            elements: els,
+            name,
+        } = &item.kind
+        {
             if els.is_empty() {
                 out.push(
                     Diagnostic::error("E203", format!("build-up `{}` has no elements", name.name), name.span)
@@ -719,8 +1007,12 @@ pub fn check_buildup_kinds(module: &Module) -> Vec<Diagnostic> {
             for e in els {
                 if elements::lookup(&e.element.kind.name).is_none() {
                     let names = elements::ALL.iter().map(|k| k.name());
-                    let mut d = Diagnostic::error("E206", format!("unknown element kind `{}`", e.element.kind.name), e.element.kind.span)
-                        .with_label("not an element kind");
+                    let mut d = Diagnostic::error(
+                        "E206",
+                        format!("unknown element kind `{}`", e.element.kind.name),
+                        e.element.kind.span,
+                    )
+                    .with_label("not an element kind");
                     d = match did_you_mean(&e.element.kind.name, names) {
                         Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), e.element.kind.span, s),
                         None => d.with_help("a build-up element is `layer(...)`, `film(...)`, `contact(...)`, `resistance(...)` or `conductance(...)`"),

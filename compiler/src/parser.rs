@@ -21,7 +21,13 @@ pub fn parse(text: &str, file: FileId) -> (Module, Vec<Diagnostic>) {
             tokens.push(t);
         }
     }
-    let mut p = Parser { text, file, tokens, pos: 0, diags: Vec::new() };
+    let mut p = Parser {
+        text,
+        file,
+        tokens,
+        pos: 0,
+        diags: Vec::new(),
+    };
     let mut items = Vec::new();
     while !p.at_end() {
         let start = p.pos;
@@ -38,8 +44,17 @@ pub fn parse(text: &str, file: FileId) -> (Module, Vec<Diagnostic>) {
 
 /// Parse a lone expression (used for test expectations and the language server).
 pub fn parse_expr(text: &str, file: FileId) -> Result<Expr, Diagnostic> {
-    let tokens = lex(text, file).into_iter().filter(|t| t.kind != Tok::Comment).collect();
-    let mut p = Parser { text, file, tokens, pos: 0, diags: Vec::new() };
+    let tokens = lex(text, file)
+        .into_iter()
+        .filter(|t| t.kind != Tok::Comment)
+        .collect();
+    let mut p = Parser {
+        text,
+        file,
+        tokens,
+        pos: 0,
+        diags: Vec::new(),
+    };
     let e = p.expr()?;
     if let Some(t) = p.peek_token() {
         return Err(p.unexpected(t, "the end of the expression"));
@@ -76,7 +91,10 @@ impl<'a> Parser<'a> {
     }
     fn prev_end(&self) -> Span {
         match self.pos.checked_sub(1).and_then(|i| self.tokens.get(i)) {
-            Some(t) => Span { start: t.span.end, ..t.span },
+            Some(t) => Span {
+                start: t.span.end,
+                ..t.span
+            },
             None => Span::new(self.file, 0, 0),
         }
     }
@@ -106,7 +124,10 @@ impl<'a> Parser<'a> {
                 .with_help("add `\"` at the end of the string, on the same line"),
             _ => Diagnostic::error(
                 "E002",
-                format!("expected {expected}, found {}", describe(t.kind, self.slice(t.span))),
+                format!(
+                    "expected {expected}, found {}",
+                    describe(t.kind, self.slice(t.span))
+                ),
                 t.span,
             )
             .with_label(format!("expected {expected}")),
@@ -117,14 +138,21 @@ impl<'a> Parser<'a> {
         match self.peek_token() {
             Some(t) if t.kind == kind => Ok(self.bump()),
             Some(t) => Err(self.unexpected(t, expected)),
-            None => Err(Diagnostic::error("E002", format!("expected {expected}, found the end of the file"), self.eof_span())
-                .with_label(format!("expected {expected}"))),
+            None => Err(Diagnostic::error(
+                "E002",
+                format!("expected {expected}, found the end of the file"),
+                self.eof_span(),
+            )
+            .with_label(format!("expected {expected}"))),
         }
     }
 
     fn ident(&mut self, expected: &str) -> PResult<Ident> {
         let t = self.expect(Tok::Ident, expected)?;
-        Ok(Ident { name: self.slice(t.span).to_string(), span: t.span })
+        Ok(Ident {
+            name: self.slice(t.span).to_string(),
+            span: t.span,
+        })
     }
 
     /// Skip to the next declaration keyword after a broken declaration.
@@ -133,7 +161,8 @@ impl<'a> Parser<'a> {
             self.pos += 1;
         }
         while let Some(k) = self.peek() {
-            if k.starts_item() || (self.at_declaration_word(self.pos) && self.starts_line(self.pos)) {
+            if k.starts_item() || (self.at_declaration_word(self.pos) && self.starts_line(self.pos))
+            {
                 break;
             }
             self.pos += 1;
@@ -141,7 +170,9 @@ impl<'a> Parser<'a> {
     }
 
     fn item(&mut self) -> PResult<Item> {
-        let Some(t) = self.peek_token() else { unreachable_eof() };
+        let Some(t) = self.peek_token() else {
+            unreachable_eof()
+        };
         let kind = match t.kind {
             Tok::Title => {
                 self.bump();
@@ -219,19 +250,29 @@ impl<'a> Parser<'a> {
                 ))
             }
         };
-        Ok(Item { kind, span: t.span.to(self.prev_end()) })
+        Ok(Item {
+            kind,
+            span: t.span.to(self.prev_end()),
+        })
     }
 
     /// A contextual declaration word (`schedule`, `case`, `transient`) followed by a name.
     fn at_declaration_word(&self, i: usize) -> bool {
-        let is_word = |t: &Token| t.kind == Tok::Ident && DECLARATION_WORDS.contains(&self.slice(t.span));
-        self.tokens.get(i).is_some_and(is_word) && self.tokens.get(i + 1).is_some_and(|t| t.kind == Tok::Ident)
+        let is_word =
+            |t: &Token| t.kind == Tok::Ident && DECLARATION_WORDS.contains(&self.slice(t.span));
+        self.tokens.get(i).is_some_and(is_word)
+            && self.tokens.get(i + 1).is_some_and(|t| t.kind == Tok::Ident)
     }
 
     /// True when token `i` is the first on its line.
     fn starts_line(&self, i: usize) -> bool {
-        match (i.checked_sub(1).and_then(|p| self.tokens.get(p)), self.tokens.get(i)) {
-            (Some(prev), Some(t)) => self.text[prev.span.end as usize..t.span.start as usize].contains('\n'),
+        match (
+            i.checked_sub(1).and_then(|p| self.tokens.get(p)),
+            self.tokens.get(i),
+        ) {
+            (Some(prev), Some(t)) => {
+                self.text[prev.span.end as usize..t.span.start as usize].contains('\n')
+            }
             _ => true,
         }
     }
@@ -239,9 +280,22 @@ impl<'a> Parser<'a> {
     fn declaration(&mut self) -> PResult<ItemKind> {
         let word = self.ident("a declaration word")?;
         let name = self.ident(&format!("the {}'s name", word.name))?;
-        let args = if self.peek() == Some(Tok::LParen) { self.arg_list("`(`")? } else { Vec::new() };
-        let rows = if self.eat(Tok::LBrace).is_some() { Some(self.rows()?) } else { None };
-        Ok(ItemKind::Declaration { word, name, args, rows })
+        let args = if self.peek() == Some(Tok::LParen) {
+            self.arg_list("`(`")?
+        } else {
+            Vec::new()
+        };
+        let rows = if self.eat(Tok::LBrace).is_some() {
+            Some(self.rows()?)
+        } else {
+            None
+        };
+        Ok(ItemKind::Declaration {
+            word,
+            name,
+            args,
+            rows,
+        })
     }
 
     /// Rows `KEY: VALUE`, one per line, up to `}`.
@@ -253,15 +307,24 @@ impl<'a> Parser<'a> {
                     self.bump();
                     return Ok(out);
                 }
-                Some(t) if t.kind.starts_item() || (self.at_declaration_word(self.pos) && self.starts_line(self.pos)) => {
-                    return Err(Diagnostic::error("E002", "this table is not closed", t.span)
-                        .with_label("a new declaration starts before `}`")
-                        .with_help("add `}` after the table's last row"))
+                Some(t)
+                    if t.kind.starts_item()
+                        || (self.at_declaration_word(self.pos) && self.starts_line(self.pos)) =>
+                {
+                    return Err(
+                        Diagnostic::error("E002", "this table is not closed", t.span)
+                            .with_label("a new declaration starts before `}`")
+                            .with_help("add `}` after the table's last row"),
+                    )
                 }
                 None => {
-                    return Err(Diagnostic::error("E002", "this table is not closed", self.eof_span())
-                        .with_label("the file ends before `}`")
-                        .with_help("add `}` after the table's last row"))
+                    return Err(Diagnostic::error(
+                        "E002",
+                        "this table is not closed",
+                        self.eof_span(),
+                    )
+                    .with_label("the file ends before `}`")
+                    .with_help("add `}` after the table's last row"))
                 }
                 Some(_) => {
                     let start = self.pos;
@@ -270,13 +333,24 @@ impl<'a> Parser<'a> {
                         Err(d) => {
                             // Keep a placeholder row (never evaluated: the error is reported)
                             // so the table does not also look empty; resume at the next line.
-                            let missing = Expr { kind: ExprKind::Missing, span: d.primary.span };
-                            out.push(Row { key: missing.clone(), value: missing, span: d.primary.span });
+                            let missing = Expr {
+                                kind: ExprKind::Missing,
+                                span: d.primary.span,
+                            };
+                            out.push(Row {
+                                key: missing.clone(),
+                                value: missing,
+                                span: d.primary.span,
+                            });
                             self.diags.push(d);
                             if self.pos == start {
                                 self.pos += 1;
                             }
-                            while self.peek().is_some_and(|k| k != Tok::RBrace && !k.starts_item()) && !self.starts_line(self.pos) {
+                            while self
+                                .peek()
+                                .is_some_and(|k| k != Tok::RBrace && !k.starts_item())
+                                && !self.starts_line(self.pos)
+                            {
                                 self.pos += 1;
                             }
                         }
@@ -294,13 +368,18 @@ impl<'a> Parser<'a> {
             end += 1;
         }
         let line_end = self.tokens[end - 1].span;
-        let line_end = Span { start: line_end.end, ..line_end };
+        let line_end = Span {
+            start: line_end.end,
+            ..line_end
+        };
         let tail = self.tokens.split_off(end);
         let parsed = self.row_on_line(line_end);
         self.tokens.extend(tail);
         parsed.map_err(|mut d| {
             if d.message.ends_with("found the end of the file") {
-                d.message = d.message.replace("found the end of the file", "found the end of the line");
+                d.message = d
+                    .message
+                    .replace("found the end of the file", "found the end of the line");
                 d.primary.span = line_end;
             }
             d
@@ -311,10 +390,16 @@ impl<'a> Parser<'a> {
         let key = self.expr()?;
         if self.eat(Tok::Colon).is_none() {
             return Err(match self.peek_token() {
-                Some(t) => self.unexpected(t, "`:` between the time and the value, as in `6 h: -4 °C`"),
-                None => Diagnostic::error("E002", "expected `:` and a value, found the end of the line", line_end)
-                    .with_label("expected `:`")
-                    .with_help("write each row as `TIME: VALUE`, e.g. `6 h: -4 °C`"),
+                Some(t) => {
+                    self.unexpected(t, "`:` between the time and the value, as in `6 h: -4 °C`")
+                }
+                None => Diagnostic::error(
+                    "E002",
+                    "expected `:` and a value, found the end of the line",
+                    line_end,
+                )
+                .with_label("expected `:`")
+                .with_help("write each row as `TIME: VALUE`, e.g. `6 h: -4 °C`"),
             });
         }
         let value = self.expr()?;
@@ -341,14 +426,20 @@ impl<'a> Parser<'a> {
                     return Ok(out);
                 }
                 Some(t) if t.kind.starts_item() => {
-                    return Err(Diagnostic::error("E002", "this build-up is not closed", t.span)
-                        .with_label("a new declaration starts before `}`")
-                        .with_help("add `}` after the build-up's last element"))
+                    return Err(
+                        Diagnostic::error("E002", "this build-up is not closed", t.span)
+                            .with_label("a new declaration starts before `}`")
+                            .with_help("add `}` after the build-up's last element"),
+                    )
                 }
                 None => {
-                    return Err(Diagnostic::error("E002", "this build-up is not closed", self.eof_span())
-                        .with_label("the file ends before `}`")
-                        .with_help("add `}` after the build-up's last element"))
+                    return Err(Diagnostic::error(
+                        "E002",
+                        "this build-up is not closed",
+                        self.eof_span(),
+                    )
+                    .with_label("the file ends before `}`")
+                    .with_help("add `}` after the build-up's last element"))
                 }
                 Some(_) => {
                     let start = self.pos;
@@ -361,8 +452,12 @@ impl<'a> Parser<'a> {
                                 self.pos += 1;
                             }
                             while let Some(t) = self.peek_token() {
-                                let next_is_colon = self.tokens.get(self.pos + 1).map(|n| n.kind) == Some(Tok::Colon);
-                                if t.kind == Tok::RBrace || t.kind.starts_item() || (t.kind == Tok::Ident && next_is_colon) {
+                                let next_is_colon = self.tokens.get(self.pos + 1).map(|n| n.kind)
+                                    == Some(Tok::Colon);
+                                if t.kind == Tok::RBrace
+                                    || t.kind.starts_item()
+                                    || (t.kind == Tok::Ident && next_is_colon)
+                                {
                                     break;
                                 }
                                 self.pos += 1;
@@ -375,11 +470,16 @@ impl<'a> Parser<'a> {
     }
 
     fn buildup_element(&mut self) -> PResult<BuildupElement> {
-        let name = self.ident("an element name, as in `insulation: layer(wood_fibre, thickness = 140 mm)`")?;
+        let name = self
+            .ident("an element name, as in `insulation: layer(wood_fibre, thickness = 140 mm)`")?;
         self.expect(Tok::Colon, "`:` after the element's name")?;
         let element = self.element_call("the element's kind, e.g. `layer(...)` or `film(...)`")?;
         let span = name.span.to(element.span);
-        Ok(BuildupElement { name, element, span })
+        Ok(BuildupElement {
+            name,
+            element,
+            span,
+        })
     }
 
     fn element_call(&mut self, expected: &str) -> PResult<ElementCall> {
@@ -397,18 +497,27 @@ impl<'a> Parser<'a> {
         }
         loop {
             // A keyword before `=` is an argument name too: `layer(material = brick)`.
-            let named = self.peek().is_some_and(|k| k == Tok::Ident || k.starts_item() || k == Tok::To)
+            let named = self
+                .peek()
+                .is_some_and(|k| k == Tok::Ident || k.starts_item() || k == Tok::To)
                 && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::Eq);
             let name = if named {
                 let t = self.bump();
-                let n = Ident { name: self.slice(t.span).to_string(), span: t.span };
+                let n = Ident {
+                    name: self.slice(t.span).to_string(),
+                    span: t.span,
+                };
                 self.bump();
                 Some(n)
             } else {
                 None
             };
             let value = self.expr()?;
-            let span = name.as_ref().map(|n| n.span).unwrap_or(value.span).to(value.span);
+            let span = name
+                .as_ref()
+                .map(|n| n.span)
+                .unwrap_or(value.span)
+                .to(value.span);
             args.push(Arg { name, value, span });
             match self.peek_token() {
                 Some(t) if t.kind == Tok::Comma => {
@@ -422,7 +531,11 @@ impl<'a> Parser<'a> {
                     return Ok(args);
                 }
                 Some(t) => return Err(self.unexpected(t, "`,` or `)` after an argument")),
-                None => return Err(self.expect(Tok::RParen, "`)` to close the arguments").unwrap_err()),
+                None => {
+                    return Err(self
+                        .expect(Tok::RParen, "`)` to close the arguments")
+                        .unwrap_err())
+                }
             }
         }
     }
@@ -459,7 +572,10 @@ impl<'a> Parser<'a> {
         if let Some(t) = self.eat(Tok::Minus) {
             let inner = self.unary()?;
             let span = t.span.to(inner.span);
-            return Ok(Expr { kind: ExprKind::Neg(Box::new(inner)), span });
+            return Ok(Expr {
+                kind: ExprKind::Neg(Box::new(inner)),
+                span,
+            });
         }
         if self.eat(Tok::Plus).is_some() {
             return self.unary();
@@ -478,8 +594,12 @@ impl<'a> Parser<'a> {
 
     fn primary(&mut self) -> PResult<Expr> {
         let Some(t) = self.peek_token() else {
-            return Err(Diagnostic::error("E002", "expected a value, found the end of the file", self.eof_span())
-                .with_label("expected a value"));
+            return Err(Diagnostic::error(
+                "E002",
+                "expected a value, found the end of the file",
+                self.eof_span(),
+            )
+            .with_label("expected a value"));
         };
         match t.kind {
             Tok::Number(num_len) => {
@@ -496,9 +616,19 @@ impl<'a> Parser<'a> {
                     None
                 } else {
                     let start = t.span.end as usize - unit_text.len();
-                    Some((unit_text.to_string(), Span::new(self.file, start, t.span.end as usize)))
+                    Some((
+                        unit_text.to_string(),
+                        Span::new(self.file, start, t.span.end as usize),
+                    ))
                 };
-                Ok(Expr { kind: ExprKind::Number { value, text: num_text.to_string(), unit }, span: t.span })
+                Ok(Expr {
+                    kind: ExprKind::Number {
+                        value,
+                        text: num_text.to_string(),
+                        unit,
+                    },
+                    span: t.span,
+                })
             }
             Tok::Ident => {
                 let id = self.ident("a name")?;
@@ -516,15 +646,24 @@ impl<'a> Parser<'a> {
                         }
                     }
                     let span = id.span.to(self.prev_end());
-                    return Ok(Expr { kind: ExprKind::Call { func: id, args }, span });
+                    return Ok(Expr {
+                        kind: ExprKind::Call { func: id, args },
+                        span,
+                    });
                 }
-                Ok(Expr { span: id.span, kind: ExprKind::Name(id) })
+                Ok(Expr {
+                    span: id.span,
+                    kind: ExprKind::Name(id),
+                })
             }
             Tok::LParen => {
                 self.bump();
                 let inner = self.expr()?;
                 let close = self.expect(Tok::RParen, "`)` to close the bracket")?;
-                Ok(Expr { span: t.span.to(close.span), kind: ExprKind::Paren(Box::new(inner)) })
+                Ok(Expr {
+                    span: t.span.to(close.span),
+                    kind: ExprKind::Paren(Box::new(inner)),
+                })
             }
             _ => Err(self.unexpected(t, "a value (a number with its unit, a name or a bracket)")),
         }
@@ -533,7 +672,14 @@ impl<'a> Parser<'a> {
 
 fn binary(op: BinOp, lhs: Expr, rhs: Expr) -> Expr {
     let span = lhs.span.to(rhs.span);
-    Expr { kind: ExprKind::Binary { op, lhs: Box::new(lhs), rhs: Box::new(rhs) }, span }
+    Expr {
+        kind: ExprKind::Binary {
+            op,
+            lhs: Box::new(lhs),
+            rhs: Box::new(rhs),
+        },
+        span,
+    }
 }
 
 fn describe(kind: Tok, text: &str) -> String {
@@ -563,10 +709,18 @@ mod tests {
 
     #[test]
     fn keywords_may_name_arguments() {
-        let (m, d) = parse("link a: x to y layer(material = brick, thickness = 1 cm, area = 1 m^2)\n", FileId(0));
+        let (m, d) = parse(
+            "link a: x to y layer(material = brick, thickness = 1 cm, area = 1 m^2)\n",
+            FileId(0),
+        );
         assert!(d.is_empty(), "{d:?}");
-        let ItemKind::Link { element, .. } = &m.items[0].kind else { panic!("not a link") };
-        assert_eq!(element.args[0].name.as_ref().map(|n| n.name.as_str()), Some("material"));
+        let ItemKind::Link { element, .. } = &m.items[0].kind else {
+            panic!("not a link")
+        };
+        assert_eq!(
+            element.args[0].name.as_ref().map(|n| n.name.as_str()),
+            Some("material")
+        );
     }
 
     #[test]
@@ -575,7 +729,9 @@ mod tests {
         let (m, d) = parse(src, FileId(0));
         assert!(d.is_empty(), "{d:?}");
         assert_eq!(m.items.len(), 4);
-        let ItemKind::Declaration { word, rows, .. } = &m.items[1].kind else { panic!("not a declaration") };
+        let ItemKind::Declaration { word, rows, .. } = &m.items[1].kind else {
+            panic!("not a declaration")
+        };
         assert_eq!(word.name, "schedule");
         assert_eq!(rows.as_ref().map(Vec::len), Some(2));
     }
@@ -583,11 +739,18 @@ mod tests {
     #[test]
     fn a_row_ends_at_its_line_and_errors_recover_to_the_next_row() {
         // The second row's leading minus must not be read as a subtraction from the first value.
-        let src = "schedule s {\n  0 h: 3 °C\n  -1 h: 2 °C\n  oops\n  5 h: 1 °C\n}\nparam p = 1 m\n";
+        let src =
+            "schedule s {\n  0 h: 3 °C\n  -1 h: 2 °C\n  oops\n  5 h: 1 °C\n}\nparam p = 1 m\n";
         let (m, d) = parse(src, FileId(0));
         assert_eq!(d.len(), 1, "{d:?}");
-        assert!(d[0].message.contains("found the end of the line"), "{}", d[0].message);
-        let ItemKind::Declaration { rows, .. } = &m.items[0].kind else { panic!("not a declaration") };
+        assert!(
+            d[0].message.contains("found the end of the line"),
+            "{}",
+            d[0].message
+        );
+        let ItemKind::Declaration { rows, .. } = &m.items[0].kind else {
+            panic!("not a declaration")
+        };
         let rows = rows.as_ref().expect("rows");
         assert_eq!(rows.len(), 4);
         assert_eq!(rows[2].key.kind, ExprKind::Missing);

@@ -40,7 +40,11 @@ pub struct Solution {
 impl Solution {
     pub fn new(net: &Network, temps: Temperatures, limit_specs: &[LimitSpec]) -> Solution {
         let t = temps.0;
-        let flows: Vec<f64> = net.links.iter().map(|l| l.conductance() * (t[l.from] - t[l.to])).collect();
+        let flows: Vec<f64> = net
+            .links
+            .iter()
+            .map(|l| l.conductance() * (t[l.from] - t[l.to]))
+            .collect();
         let mut residuals: Vec<f64> = net.nodes.iter().map(|n| n.load).collect();
         for (l, q) in net.links.iter().zip(&flows) {
             residuals[l.from] -= q;
@@ -53,12 +57,22 @@ impl Solution {
             .filter(|(n, _)| n.fixed.is_none())
             .map(|(_, r)| r.abs())
             .fold(0.0, f64::max);
-        let boundary_heat = net.nodes.iter().enumerate().filter(|(_, n)| n.fixed.is_some()).map(|(i, _)| (i, -residuals[i])).collect();
+        let boundary_heat = net
+            .nodes
+            .iter()
+            .enumerate()
+            .filter(|(_, n)| n.fixed.is_some())
+            .map(|(i, _)| (i, -residuals[i]))
+            .collect();
         let groups = net
             .groups
             .iter()
             .map(|g| {
-                let resistance: f64 = g.links.iter().map(|&l| 1.0 / net.links[l].conductance()).sum();
+                let resistance: f64 = g
+                    .links
+                    .iter()
+                    .map(|&l| 1.0 / net.links[l].conductance())
+                    .sum();
                 GroupResult {
                     name: g.name.clone(),
                     resistance,
@@ -68,8 +82,19 @@ impl Solution {
                 }
             })
             .collect();
-        let mut sol = Solution { temperatures: t, heat_flows: flows, residuals, worst_residual, boundary_heat, groups, limits: Vec::new() };
-        sol.limits = limit_specs.iter().map(|s| limits::verdict(s, sol.measure(net, s.measure, s.subject))).collect();
+        let mut sol = Solution {
+            temperatures: t,
+            heat_flows: flows,
+            residuals,
+            worst_residual,
+            boundary_heat,
+            groups,
+            limits: Vec::new(),
+        };
+        sol.limits = limit_specs
+            .iter()
+            .map(|s| limits::verdict(s, sol.measure(net, s.measure, s.subject)))
+            .collect();
         sol
     }
 
@@ -79,11 +104,19 @@ impl Solution {
             (Measure::Temperature, Subject::Node(n)) => self.temperatures[n],
             (Measure::HeatFlow, Subject::Link(l)) => self.heat_flows[l],
             (Measure::HeatFlow, Subject::Group(g)) => self.groups[g].heat_flow,
-            (Measure::HeatFlux, Subject::Link(l)) => self.heat_flows[l] / net.links[l].area.unwrap_or(f64::NAN),
-            (Measure::HeatFlux, Subject::Group(g)) => self.groups[g].heat_flow / net.groups[g].area.unwrap_or(f64::NAN),
-            (Measure::UValue, Subject::Link(l)) => net.links[l].conductance() / net.links[l].area.unwrap_or(f64::NAN),
+            (Measure::HeatFlux, Subject::Link(l)) => {
+                self.heat_flows[l] / net.links[l].area.unwrap_or(f64::NAN)
+            }
+            (Measure::HeatFlux, Subject::Group(g)) => {
+                self.groups[g].heat_flow / net.groups[g].area.unwrap_or(f64::NAN)
+            }
+            (Measure::UValue, Subject::Link(l)) => {
+                net.links[l].conductance() / net.links[l].area.unwrap_or(f64::NAN)
+            }
             (Measure::UValue, Subject::Group(g)) => self.groups[g].u_value.unwrap_or(f64::NAN),
-            (Measure::RValue, Subject::Link(l)) => net.links[l].area.unwrap_or(f64::NAN) / net.links[l].conductance(),
+            (Measure::RValue, Subject::Link(l)) => {
+                net.links[l].area.unwrap_or(f64::NAN) / net.links[l].conductance()
+            }
             (Measure::RValue, Subject::Group(g)) => self.groups[g].r_value.unwrap_or(f64::NAN),
             _ => f64::NAN,
         }
@@ -92,6 +125,10 @@ impl Solution {
     /// Total heat delivered by all boundaries with a positive delivery (the heat that crosses
     /// the network from warm to cold boundaries, plus loads that leave through them).
     pub fn total_boundary_inflow(&self) -> f64 {
-        self.boundary_heat.iter().map(|b| b.1).filter(|q| *q > 0.0).sum()
+        self.boundary_heat
+            .iter()
+            .map(|b| b.1)
+            .filter(|q| *q > 0.0)
+            .sum()
     }
 }

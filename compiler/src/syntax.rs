@@ -22,11 +22,22 @@ pub enum BinOp {
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub enum ExprKind {
     /// A number and the unit written after it (`12.5 mm`); `unit` is `None` for a bare number.
-    Number { value: f64, text: String, unit: Option<(String, Span)> },
+    Number {
+        value: f64,
+        text: String,
+        unit: Option<(String, Span)>,
+    },
     Name(Ident),
     Neg(Box<Expr>),
-    Binary { op: BinOp, lhs: Box<Expr>, rhs: Box<Expr> },
-    Call { func: Ident, args: Vec<Expr> },
+    Binary {
+        op: BinOp,
+        lhs: Box<Expr>,
+        rhs: Box<Expr>,
+    },
+    Call {
+        func: Ident,
+        args: Vec<Expr>,
+    },
     Paren(Box<Expr>),
     /// Placeholder left by error recovery; never evaluated because the parse error is reported.
     Missing,
@@ -87,18 +98,51 @@ pub struct BuildupElement {
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub enum ItemKind {
-    Title { text: String },
-    Import { path: String, path_span: Span },
-    Param { name: Ident, value: Expr },
-    Material { name: Ident, args: Vec<Arg> },
-    Node { name: Ident, args: Vec<Arg> },
-    Link { name: Ident, from: Ident, to: Ident, element: ElementCall },
-    Buildup { name: Ident, elements: Vec<BuildupElement> },
-    Limit { name: Ident, measure: Ident, subject: Ident, op: CmpOp, value: Expr },
+    Title {
+        text: String,
+    },
+    Import {
+        path: String,
+        path_span: Span,
+    },
+    Param {
+        name: Ident,
+        value: Expr,
+    },
+    Material {
+        name: Ident,
+        args: Vec<Arg>,
+    },
+    Node {
+        name: Ident,
+        args: Vec<Arg>,
+    },
+    Link {
+        name: Ident,
+        from: Ident,
+        to: Ident,
+        element: ElementCall,
+    },
+    Buildup {
+        name: Ident,
+        elements: Vec<BuildupElement>,
+    },
+    Limit {
+        name: Ident,
+        measure: Ident,
+        subject: Ident,
+        op: CmpOp,
+        value: Expr,
+    },
     /// `WORD NAME (ARGS) { KEY: VALUE ... }`: a declaration introduced by a contextual word from
     /// [`DECLARATION_WORDS`] (`schedule`, `case`, `transient`); the argument list and the table
     /// of rows are both optional in the grammar and checked by elaboration.
-    Declaration { word: Ident, name: Ident, args: Vec<Arg>, rows: Option<Vec<Row>> },
+    Declaration {
+        word: Ident,
+        name: Ident,
+        args: Vec<Arg>,
+        rows: Option<Vec<Row>>,
+    },
 }
 
 /// Words that begin a declaration only at the start of a line and are otherwise ordinary names

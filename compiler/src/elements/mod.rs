@@ -41,7 +41,12 @@ pub struct ParamSpec {
 }
 
 pub const fn q(name: &'static str, dim: Dim, doc: &'static str) -> ParamSpec {
-    ParamSpec { name, ty: ArgType::Quantity(dim), positive: true, doc }
+    ParamSpec {
+        name,
+        ty: ArgType::Quantity(dim),
+        positive: true,
+        doc,
+    }
 }
 
 #[derive(Clone, Debug)]
@@ -92,17 +97,27 @@ impl Args {
             )
             .with_label(format!("`{b}` given as well as `{a}`"))
             .with_secondary(self.span(a), format!("`{a}` given here"))
-            .with_help(format!("remove one of them; `{a}` and `{b}` say the same thing two ways"))),
+            .with_help(format!(
+                "remove one of them; `{a}` and `{b}` say the same thing two ways"
+            ))),
         }
     }
     fn key(&self, n: &str) -> &'static str {
         self.values.keys().copied().find(|k| *k == n).unwrap_or("")
     }
     pub fn missing(&self, names: &[&str], example: &str) -> Diagnostic {
-        let list = names.iter().map(|n| format!("`{n}`")).collect::<Vec<_>>().join(" or ");
-        Diagnostic::error("E203", format!("`{}` needs {list}", self.kind), self.call_span)
-            .with_label(format!("{list} missing"))
-            .with_help(format!("add it, e.g. `{example}`"))
+        let list = names
+            .iter()
+            .map(|n| format!("`{n}`"))
+            .collect::<Vec<_>>()
+            .join(" or ");
+        Diagnostic::error(
+            "E203",
+            format!("`{}` needs {list}", self.kind),
+            self.call_span,
+        )
+        .with_label(format!("{list} missing"))
+        .with_help(format!("add it, e.g. `{example}`"))
     }
 }
 
@@ -132,7 +147,13 @@ pub trait ElementKind: Sync {
 }
 
 /// Every element kind the language knows.
-pub static ALL: &[&dyn ElementKind] = &[&plane::Layer, &plane::Film, &plane::Contact, &plane::Resistance, &plane::Conductance];
+pub static ALL: &[&dyn ElementKind] = &[
+    &plane::Layer,
+    &plane::Film,
+    &plane::Contact,
+    &plane::Resistance,
+    &plane::Conductance,
+];
 
 pub fn lookup(name: &str) -> Option<&'static dyn ElementKind> {
     ALL.iter().copied().find(|k| k.name() == name)
@@ -140,6 +161,10 @@ pub fn lookup(name: &str) -> Option<&'static dyn ElementKind> {
 
 /// A value with its SI unit, for formulas.
 pub fn show(value: f64, dim: Dim) -> String {
-    let kind = if dim == Dim::TEMPERATURE { TempKind::Difference } else { TempKind::NotTemperature };
+    let kind = if dim == Dim::TEMPERATURE {
+        TempKind::Difference
+    } else {
+        TempKind::NotTemperature
+    };
     format_quantity(Quantity { value, dim, kind }, UnitSystem::Si)
 }
