@@ -6,7 +6,13 @@ mod fmt_cmd;
 mod git_rev;
 mod loader;
 mod output;
+mod plot;
+mod progress;
 mod report;
+mod run_cmd;
+mod run_report;
+mod study_cmd;
+mod study_report;
 
 use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::units::UnitSystem;
@@ -26,6 +32,8 @@ pub mod exit {
     pub const USAGE: u8 = 2;
     /// The model solved but at least one design limit fails.
     pub const LIMIT_FAILED: u8 = 3;
+    /// A run or study was stopped with Ctrl-C; what was computed so far was written.
+    pub const INTERRUPTED: u8 = 130;
 }
 
 #[derive(Parser)]
@@ -97,6 +105,11 @@ enum Command {
     },
     /// Run the language server on standard input and output (for editors; see docs/lsp.md).
     Lsp,
+    /// Run a model through time (node capacities, schedules) and report temperatures, crossings,
+    /// limits over the run and the energy balance.
+    Run(Box<run_cmd::RunCli>),
+    /// Solve a model over a sweep of parameters and/or its named cases, checking every limit.
+    Study(Box<study_cmd::StudyCli>),
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -156,6 +169,8 @@ fn main() -> ExitCode {
                 exit::USAGE
             }
         },
+        Command::Run(c) => run_cmd::run(*c),
+        Command::Study(c) => study_cmd::study(*c),
     };
     ExitCode::from(code)
 }

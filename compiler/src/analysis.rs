@@ -38,6 +38,8 @@ pub struct Analysis {
     pub params: Vec<(String, Option<Quantity>)>,
     /// Present when the model has no errors and the solve succeeded.
     pub solution: Option<Solution>,
+    /// Transient runs and cases the model declares.
+    pub studies: crate::transient::model::Studies,
 }
 
 impl Analysis {
@@ -90,6 +92,7 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
         limits: el.limits,
         params: el.params,
         solution: None,
+        studies: el.studies,
     };
     if !analysis.has_errors() && !options.check_only {
         match solve_steady(&analysis.network) {

@@ -16,6 +16,9 @@ use crate::syntax::*;
 use crate::units::Dim;
 use std::collections::HashMap;
 
+mod transient_decls;
+pub use transient_decls::{biot_number, fits_parameter, Biot, BIOT_LUMPED};
+
 /// Everything elaboration produces. `network` is complete only when `diags` has no error.
 pub struct Elaborated {
     pub network: Network,
@@ -26,6 +29,8 @@ pub struct Elaborated {
     pub params: Vec<(String, Option<crate::units::Quantity>)>,
     pub title: Option<String>,
     pub diags: Vec<Diagnostic>,
+    /// Declared transient runs and cases.
+    pub studies: crate::transient::model::Studies,
 }
 
 struct Kinds<'a>(&'a SymbolTable);
@@ -93,6 +98,7 @@ pub fn elaborate(
             ItemKind::Node { .. } => SymbolKind::Node,
             ItemKind::Link { .. } => SymbolKind::Link,
             ItemKind::Buildup { .. } => SymbolKind::Buildup,
+            ItemKind::Declaration { ref word, .. } => transient_decls::symbol_kind(&word.name),
             _ => SymbolKind::Limit,
         };
         symbols.push(Symbol {
@@ -150,6 +156,7 @@ pub fn elaborate(
         diags,
         materials: Vec::new(),
         material_index: HashMap::new(),
+        timed: Default::default(),
     };
 
     // 2. Parameters (all of them, so errors in unused ones are reported too).
@@ -168,6 +175,7 @@ pub fn elaborate(
             cx.material(name, args);
         }
     }
+    cx.schedules(&items);
 
     // 4. Nodes.
     let mut net = Network::default();
@@ -181,6 +189,7 @@ pub fn elaborate(
                 load,
                 generated: false,
             });
+            cx.node_dynamics(net.nodes.len() - 1, name, args, fixed.is_some());
         }
     }
 
@@ -322,6 +331,7 @@ pub fn elaborate(
             }
         }
     }
+    cx.finish_dynamics(&items, &net);
 
     // 7. Connectivity, only when the network is otherwise sound (an unknown node name would
     // otherwise show up twice).
@@ -362,6 +372,7 @@ pub fn elaborate(
     }
     let mut diags = cx.diags;
     diags.extend(cx.ev.diags);
+    net.dynamics = cx.timed.dynamics;
     Elaborated {
         network: net,
         materials: cx.materials,
@@ -370,6 +381,7 @@ pub fn elaborate(
         params: param_values,
         title,
         diags,
+        studies: cx.timed.studies,
     }
 }
 
@@ -404,6 +416,7 @@ struct Cx<'a> {
     diags: Vec<Diagnostic>,
     materials: Vec<Material>,
     material_index: HashMap<String, usize>,
+    timed: transient_decls::Timed,
 }
 
 impl<'a> Cx<'a> {
@@ -543,6 +556,21 @@ impl<'a> Cx<'a> {
                 self.duplicate_arg(an, prev);
                 continue;
             }
+            // A boundary temperature or load that follows a schedule: its value at time 0 here.
+            if let Some(v) = matches!(an.name.as_str(), "fixed" | "load")
+                .then(|| self.scheduled_arg(an, arg))
+                .flatten()
+            {
+                match (an.name.as_str(), v) {
+                    ("fixed", Some(v)) => fixed = Some(v),
+                    (_, Some(v)) => {
+                        load = v;
+                        load_span = Some(an.span);
+                    }
+                    _ => {}
+                }
+                continue;
+            }
             match an.name.as_str() {
                 "fixed" => {
                     if let Some(q) = self.quantity(&arg.value, Dim::TEMPERATURE, "fixed") {
@@ -567,7 +595,14 @@ impl<'a> Cx<'a> {
                         load_span = Some(an.span);
                     }
                 }
-                _ => self.unknown_arg(an, "a node", &["fixed", "load"]),
+                n if transient_decls::NODE_ARGS.contains(&n) => {}
+                _ => self.unknown_arg(
+                    an,
+                    "a node",
+                    &[
+                        "fixed", "load", "capacity", "material", "volume", "mass", "initial",
+                    ],
+                ),
             }
         }
         if let (Some(_), Some(ls)) = (fixed, load_span) {

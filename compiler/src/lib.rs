@@ -22,8 +22,10 @@ pub mod results;
 pub mod solve;
 pub mod source;
 pub mod span;
+pub mod study;
 pub mod symbols;
 pub mod syntax;
+pub mod transient;
 pub mod units;
 
 pub use analysis::{analyze, Analysis, Options};

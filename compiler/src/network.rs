@@ -70,6 +70,8 @@ pub struct Network {
     pub nodes: Vec<Node>,
     pub links: Vec<Link>,
     pub groups: Vec<Group>,
+    /// Capacities, initial temperatures and schedules for transient runs (empty when steady).
+    pub dynamics: crate::transient::model::Dynamics,
 }
 
 impl Network {

@@ -183,7 +183,8 @@ impl<'a> Parser<'a> {
             self.pos += 1;
         }
         while let Some(k) = self.peek() {
-            if k.starts_item() {
+            if k.starts_item() || (self.at_declaration_word(self.pos) && self.starts_line(self.pos))
+            {
                 break;
             }
             self.pos += 1;
@@ -269,6 +270,7 @@ impl<'a> Parser<'a> {
                 let value = self.expr()?;
                 ItemKind::Limit { name, measure, subject, op, value }
             }
+            Tok::Ident if self.at_declaration_word(self.pos) => self.declaration()?,
             _ => {
                 return Err(self.unexpected(
                     t,
@@ -280,6 +282,160 @@ impl<'a> Parser<'a> {
             kind,
             span: t.span.to(self.prev_end()),
         })
+    }
+
+    /// A contextual declaration word (`schedule`, `case`, `transient`) followed by a name.
+    fn at_declaration_word(&self, i: usize) -> bool {
+        let is_word =
+            |t: &Token| t.kind == Tok::Ident && DECLARATION_WORDS.contains(&self.slice(t.span));
+        self.tokens.get(i).is_some_and(is_word)
+            && self.tokens.get(i + 1).is_some_and(|t| t.kind == Tok::Ident)
+    }
+
+    /// True when token `i` is the first on its line.
+    fn starts_line(&self, i: usize) -> bool {
+        match (
+            i.checked_sub(1).and_then(|p| self.tokens.get(p)),
+            self.tokens.get(i),
+        ) {
+            (Some(prev), Some(t)) => {
+                self.text[prev.span.end as usize..t.span.start as usize].contains('\n')
+            }
+            _ => true,
+        }
+    }
+
+    fn declaration(&mut self) -> PResult<ItemKind> {
+        let word = self.ident("a declaration word")?;
+        let name = self.ident(&format!("the {}'s name", word.name))?;
+        let args = if self.peek() == Some(Tok::LParen) {
+            self.arg_list("`(`")?
+        } else {
+            Vec::new()
+        };
+        let rows = if self.eat(Tok::LBrace).is_some() {
+            Some(self.rows()?)
+        } else {
+            None
+        };
+        Ok(ItemKind::Declaration {
+            word,
+            name,
+            args,
+            rows,
+        })
+    }
+
+    /// Rows `KEY: VALUE`, one per line, up to `}`.
+    fn rows(&mut self) -> PResult<Vec<Row>> {
+        let mut out = Vec::new();
+        loop {
+            match self.peek_token() {
+                Some(t) if t.kind == Tok::RBrace => {
+                    self.bump();
+                    return Ok(out);
+                }
+                Some(t)
+                    if t.kind.starts_item()
+                        || (self.at_declaration_word(self.pos) && self.starts_line(self.pos)) =>
+                {
+                    return Err(
+                        Diagnostic::error("E002", "this table is not closed", t.span)
+                            .with_label("a new declaration starts before `}`")
+                            .with_help("add `}` after the table's last row"),
+                    )
+                }
+                None => {
+                    return Err(Diagnostic::error(
+                        "E002",
+                        "this table is not closed",
+                        self.eof_span(),
+                    )
+                    .with_label("the file ends before `}`")
+                    .with_help("add `}` after the table's last row"))
+                }
+                Some(_) => {
+                    let start = self.pos;
+                    match self.row() {
+                        Ok(r) => out.push(r),
+                        Err(d) => {
+                            // Keep a placeholder row (never evaluated: the error is reported)
+                            // so the table does not also look empty; resume at the next line.
+                            let missing = Expr {
+                                kind: ExprKind::Missing,
+                                span: d.primary.span,
+                            };
+                            out.push(Row {
+                                key: missing.clone(),
+                                value: missing,
+                                span: d.primary.span,
+                            });
+                            self.diags.push(d);
+                            if self.pos == start {
+                                self.pos += 1;
+                            }
+                            while self
+                                .peek()
+                                .is_some_and(|k| k != Tok::RBrace && !k.starts_item())
+                                && !self.starts_line(self.pos)
+                            {
+                                self.pos += 1;
+                            }
+                        }
+                    }
+                }
+            }
+        }
+    }
+
+    /// One row, confined to its line so that a value never runs on into the next row's key
+    /// (`3 °C` followed by a row `-1 h: ...` is two rows, not a subtraction).
+    fn row(&mut self) -> PResult<Row> {
+        let mut end = self.pos + 1;
+        while end < self.tokens.len() && !self.starts_line(end) {
+            end += 1;
+        }
+        let line_end = self.tokens[end - 1].span;
+        let line_end = Span {
+            start: line_end.end,
+            ..line_end
+        };
+        let tail = self.tokens.split_off(end);
+        let parsed = self.row_on_line(line_end);
+        self.tokens.extend(tail);
+        parsed.map_err(|mut d| {
+            if d.message.ends_with("found the end of the file") {
+                d.message = d
+                    .message
+                    .replace("found the end of the file", "found the end of the line");
+                d.primary.span = line_end;
+            }
+            d
+        })
+    }
+
+    fn row_on_line(&mut self, line_end: Span) -> PResult<Row> {
+        let key = self.expr()?;
+        if self.eat(Tok::Colon).is_none() {
+            return Err(match self.peek_token() {
+                Some(t) => {
+                    self.unexpected(t, "`:` between the time and the value, as in `6 h: -4 °C`")
+                }
+                None => Diagnostic::error(
+                    "E002",
+                    "expected `:` and a value, found the end of the line",
+                    line_end,
+                )
+                .with_label("expected `:`")
+                .with_help("write each row as `TIME: VALUE`, e.g. `6 h: -4 °C`"),
+            });
+        }
+        let value = self.expr()?;
+        if let Some(t) = self.peek_token() {
+            return Err(self.unexpected(t, "the end of the row (one row per line)"));
+        }
+        let span = key.span.to(value.span);
+        Ok(Row { key, value, span })
     }
 
     fn string(&mut self, expected: &str) -> PResult<(String, Span)> {
@@ -368,10 +524,17 @@ impl<'a> Parser<'a> {
             return Ok(args);
         }
         loop {
-            let named = self.peek() == Some(Tok::Ident)
+            // A keyword before `=` is an argument name too: `layer(material = brick)`.
+            let named = self
+                .peek()
+                .is_some_and(|k| k == Tok::Ident || k.starts_item() || k == Tok::To)
                 && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::Eq);
             let name = if named {
-                let n = self.ident("an argument name")?;
+                let t = self.bump();
+                let n = Ident {
+                    name: self.slice(t.span).to_string(),
+                    span: t.span,
+                };
                 self.bump();
                 Some(n)
             } else {
@@ -561,6 +724,56 @@ mod tests {
         let (m, d) = parse(src, FileId(0));
         assert!(d.is_empty(), "{d:?}");
         assert_eq!(m.items.len(), 4);
+    }
+
+    #[test]
+    fn keywords_may_name_arguments() {
+        let (m, d) = parse(
+            "link a: x to y layer(material = brick, thickness = 1 cm, area = 1 m^2)\n",
+            FileId(0),
+        );
+        assert!(d.is_empty(), "{d:?}");
+        let ItemKind::Link { element, .. } = &m.items[0].kind else {
+            panic!("not a link")
+        };
+        assert_eq!(
+            element.args[0].name.as_ref().map(|n| n.name.as_str()),
+            Some("material")
+        );
+    }
+
+    #[test]
+    fn contextual_declarations_and_rows() {
+        let src = "node case (fixed = 20 °C)\nschedule night (repeat = 24 h) {\n  0 h: 3 °C\n  6 h: -2 °C\n}\ncase winter (t = -8 °C)\ntransient run1 (duration = 2 h)\n";
+        let (m, d) = parse(src, FileId(0));
+        assert!(d.is_empty(), "{d:?}");
+        assert_eq!(m.items.len(), 4);
+        let ItemKind::Declaration { word, rows, .. } = &m.items[1].kind else {
+            panic!("not a declaration")
+        };
+        assert_eq!(word.name, "schedule");
+        assert_eq!(rows.as_ref().map(Vec::len), Some(2));
+    }
+
+    #[test]
+    fn a_row_ends_at_its_line_and_errors_recover_to_the_next_row() {
+        // The second row's leading minus must not be read as a subtraction from the first value.
+        let src =
+            "schedule s {\n  0 h: 3 °C\n  -1 h: 2 °C\n  oops\n  5 h: 1 °C\n}\nparam p = 1 m\n";
+        let (m, d) = parse(src, FileId(0));
+        assert_eq!(d.len(), 1, "{d:?}");
+        assert!(
+            d[0].message.contains("found the end of the line"),
+            "{}",
+            d[0].message
+        );
+        let ItemKind::Declaration { rows, .. } = &m.items[0].kind else {
+            panic!("not a declaration")
+        };
+        let rows = rows.as_ref().expect("rows");
+        assert_eq!(rows.len(), 4);
+        assert_eq!(rows[2].key.kind, ExprKind::Missing);
+        assert_eq!(m.items.len(), 2);
     }
 
     #[test]

@@ -18,6 +18,12 @@ pub enum SymbolKind {
     Limit,
     /// An interface node made by a build-up (`north.inside`).
     GeneratedNode,
+    /// A time table of boundary temperatures or loads (`schedule`).
+    Schedule,
+    /// A named set of parameter values (`case`).
+    Case,
+    /// A transient run's settings (`transient`).
+    Transient,
 }
 
 impl SymbolKind {
@@ -31,6 +37,9 @@ impl SymbolKind {
             SymbolKind::Buildup => "a build-up",
             SymbolKind::BuildupElement => "a build-up element",
             SymbolKind::Limit => "a limit",
+            SymbolKind::Schedule => "a schedule",
+            SymbolKind::Case => "a case",
+            SymbolKind::Transient => "a transient run",
         }
     }
 }

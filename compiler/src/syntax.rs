@@ -134,6 +134,27 @@ pub enum ItemKind {
         op: CmpOp,
         value: Expr,
     },
+    /// `WORD NAME (ARGS) { KEY: VALUE ... }`: a declaration introduced by a contextual word from
+    /// [`DECLARATION_WORDS`] (`schedule`, `case`, `transient`); the argument list and the table
+    /// of rows are both optional in the grammar and checked by elaboration.
+    Declaration {
+        word: Ident,
+        name: Ident,
+        args: Vec<Arg>,
+        rows: Option<Vec<Row>>,
+    },
+}
+
+/// Words that begin a declaration only at the start of a line and are otherwise ordinary names
+/// (a node may still be called `case`), so adding them breaks no existing model.
+pub const DECLARATION_WORDS: &[&str] = &["schedule", "case", "transient"];
+
+/// One row of a declaration's table, `6 h: -4 °C` (a time and a value in a schedule).
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Row {
+    pub key: Expr,
+    pub value: Expr,
+    pub span: Span,
 }
 
 /// A top-level declaration.
@@ -153,7 +174,8 @@ impl Item {
             | ItemKind::Node { name, .. }
             | ItemKind::Link { name, .. }
             | ItemKind::Buildup { name, .. }
-            | ItemKind::Limit { name, .. } => Some(name),
+            | ItemKind::Limit { name, .. }
+            | ItemKind::Declaration { name, .. } => Some(name),
         }
     }
 }

@@ -175,6 +175,8 @@ fn item_kind(k: SymbolKind) -> CompletionItemKind {
         SymbolKind::Buildup => CompletionItemKind::CLASS,
         SymbolKind::BuildupElement => CompletionItemKind::FIELD,
         SymbolKind::Limit => CompletionItemKind::VALUE,
+        SymbolKind::Schedule => CompletionItemKind::EVENT,
+        SymbolKind::Case | SymbolKind::Transient => CompletionItemKind::MODULE,
     }
 }
 

@@ -55,6 +55,9 @@ fn symbol_text(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
         SymbolKind::Buildup => buildup(snap, s, sys),
         SymbolKind::BuildupElement => buildup_element(snap, s),
         SymbolKind::Limit => limit(snap, s, sys),
+        SymbolKind::Schedule => declared(snap, s, "schedule"),
+        SymbolKind::Case => declared(snap, s, "case"),
+        SymbolKind::Transient => declared(snap, s, "transient run"),
     };
     if s.def.file != FileId(0) {
         let _ = write!(
@@ -64,6 +67,13 @@ fn symbol_text(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
         );
     }
     out
+}
+
+/// A declaration shown as written (schedules, cases, transient runs).
+fn declared(snap: &Snapshot, s: &Symbol, what: &str) -> String {
+    let text = snap.analysis.sources.text(s.decl.file);
+    let decl = text.get(s.decl.range()).unwrap_or_default();
+    format!("**{what}** `{}`\n\n```heat\n{decl}\n```", s.name)
 }
 
 /// Why there are no solved values, when there are none.

@@ -57,6 +57,7 @@ fn encode_class(c: Class) -> (u32, u32) {
         Class::Symbol(SymbolKind::Link | SymbolKind::BuildupElement) => (8, 0),
         Class::Symbol(SymbolKind::Buildup) => (9, 0),
         Class::Symbol(SymbolKind::Limit) => (11, 0),
+        Class::Symbol(SymbolKind::Schedule | SymbolKind::Case | SymbolKind::Transient) => (9, 0),
         Class::ElementKind | Class::Measure | Class::Function => (10, DEFAULT_LIBRARY),
         Class::ArgName => (8, 0),
     }

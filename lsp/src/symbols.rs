@@ -20,6 +20,8 @@ fn kind(k: Kind) -> SymbolKind {
         Kind::Buildup => SymbolKind::CLASS,
         Kind::BuildupElement => SymbolKind::FIELD,
         Kind::Limit => SymbolKind::BOOLEAN,
+        Kind::Schedule => SymbolKind::EVENT,
+        Kind::Case | Kind::Transient => SymbolKind::MODULE,
     }
 }
 

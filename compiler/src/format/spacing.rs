@@ -8,6 +8,7 @@
 use super::pieces::Piece;
 use crate::lexer::{lex, Tok};
 use crate::span::FileId;
+use crate::syntax::DECLARATION_WORDS;
 
 /// The context of a join: the token before `prev`, and whether `prev` is a sign.
 pub struct Join<'a> {
@@ -33,7 +34,11 @@ pub fn wants_space(j: &Join) -> bool {
         if p.kind == Tok::Ident {
             // `material steel (k = …)`: a declaration's own argument list stands apart from
             // its name; everywhere else a name and its `(` make one call: `layer(…)`.
-            return j.before_prev.is_some_and(Piece::starts_item);
+            // The contextual words (`schedule`, `case`, `transient`) open declarations too.
+            return j.before_prev.is_some_and(|b| {
+                b.starts_item()
+                    || (b.kind == Tok::Ident && DECLARATION_WORDS.contains(&b.text.as_str()))
+            });
         }
         if p.is_closer() {
             return n.spaced;

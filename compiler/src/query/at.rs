@@ -91,6 +91,11 @@ fn in_item(item: &Item, offset: u32) -> Option<Target<'_>> {
             }
             in_expr(value, offset)
         }
+        ItemKind::Declaration { args, rows, .. } => args
+            .iter()
+            .map(|a| &a.value)
+            .chain(rows.iter().flatten().flat_map(|r| [&r.key, &r.value]))
+            .find_map(|e| in_expr(e, offset)),
         ItemKind::Title { .. } | ItemKind::Import { .. } => None,
     }
 }

@@ -101,6 +101,11 @@ pub fn preferred_system(a: &Analysis) -> crate::units::UnitSystem {
                 .iter()
                 .flat_map(|e| e.element.args.iter().map(|a| &a.value))
                 .collect(),
+            ItemKind::Declaration { args, rows, .. } => args
+                .iter()
+                .map(|a| &a.value)
+                .chain(rows.iter().flatten().flat_map(|r| [&r.key, &r.value]))
+                .collect(),
             ItemKind::Title { .. } | ItemKind::Import { .. } => Vec::new(),
         };
         for e in exprs {

@@ -1,0 +1,887 @@
+//! Elaboration of what transient runs and studies need: `schedule` tables, node capacities and
+//! initial temperatures, schedules that drive boundary temperatures and loads, the Biot-number
+//! check, and the `case` and `transient` declarations. A child of `elaborate` so that it checks
+//! arguments with the same context (evaluator, symbols, materials, diagnostics).
+
+use super::{Cx, Kinds};
+use crate::diagnostic::{did_you_mean, Diagnostic};
+use crate::elements::{self, Material};
+use crate::eval::expect_point;
+use crate::network::{Network, NodeId};
+use crate::span::Span;
+use crate::symbols::SymbolKind;
+use crate::syntax::{Arg, ExprKind, Ident, Item, ItemKind, Row};
+use crate::transient::model::{
+    Binding, CaseSpec, Driven, Dynamics, Lump, NodeCapacity, RunSpec, Studies,
+};
+use crate::transient::schedule::Schedule;
+use crate::units::{Dim, Quantity, TempKind};
+use std::collections::HashMap;
+
+/// Node arguments handled here rather than by the steady node check.
+pub(super) const NODE_ARGS: &[&str] = &["capacity", "material", "volume", "mass", "initial"];
+
+const RUN_ARGS: &[&str] = &["duration", "step", "output", "tolerance", "start"];
+
+/// Biot number above which a body is not well described by one temperature (common practice).
+pub const BIOT_LUMPED: f64 = 0.1;
+
+/// What this pass collects while elaboration runs.
+#[derive(Default)]
+pub(super) struct Timed {
+    pub dynamics: Dynamics,
+    pub studies: Studies,
+    schedule_index: HashMap<String, usize>,
+}
+
+/// The symbol kind of a contextual declaration word.
+pub(super) fn symbol_kind(word: &str) -> SymbolKind {
+    match word {
+        "schedule" => SymbolKind::Schedule,
+        "case" => SymbolKind::Case,
+        _ => SymbolKind::Transient,
+    }
+}
+
+fn declarations<'i>(
+    items: &'i [&'i Item],
+    which: &'static str,
+) -> impl Iterator<Item = (&'i Ident, &'i [Arg], Option<&'i [Row]>, Span)> + 'i {
+    items.iter().filter_map(move |i| match &i.kind {
+        ItemKind::Declaration {
+            word,
+            name,
+            args,
+            rows,
+        } if word.name == which => Some((name, args.as_slice(), rows.as_deref(), i.span)),
+        _ => None,
+    })
+}
+
+impl Cx<'_> {
+    /// Check every `schedule` (before nodes, which may use them).
+    pub(super) fn schedules(&mut self, items: &[&Item]) {
+        for (name, args, rows, _) in declarations(items, "schedule") {
+            self.schedule(name, args, rows);
+        }
+    }
+
+    fn named_args<'x>(
+        &mut self,
+        args: &'x [Arg],
+        what: &str,
+        example: &str,
+    ) -> Vec<(&'x Ident, &'x Arg)> {
+        let mut seen: HashMap<&str, Span> = HashMap::new();
+        let mut out = Vec::new();
+        for arg in args {
+            let Some(an) = &arg.name else {
+                self.diags.push(
+                    Diagnostic::error(
+                        "E204",
+                        format!("the arguments of {what} are written `name = value`"),
+                        arg.span,
+                    )
+                    .with_label("argument without a name")
+                    .with_help(format!("write e.g. `{example}`")),
+                );
+                continue;
+            };
+            if let Some(prev) = seen.insert(&an.name, an.span) {
+                self.duplicate_arg(an, prev);
+                continue;
+            }
+            out.push((an, arg));
+        }
+        out
+    }
+
+    fn schedule(&mut self, name: &Ident, args: &[Arg], rows: Option<&[Row]>) {
+        let mut repeat = None;
+        for (an, arg) in self.named_args(args, "a schedule", "repeat = 24 h") {
+            match an.name.as_str() {
+                "repeat" => {
+                    repeat = self
+                        .quantity(&arg.value, Dim::TIME, "repeat")
+                        .filter(|q| self.positive(q.value, &arg.value, "repeat"))
+                        .map(|q| q.value)
+                }
+                _ => self.unknown_arg(an, "a schedule", &["repeat"]),
+            }
+        }
+        let Some(rows) = rows.filter(|r| !r.is_empty()) else {
+            self.diags.push(
+                Diagnostic::error("E203", format!("schedule `{}` has no rows", name.name), name.span)
+                    .with_label("no `TIME: VALUE` rows")
+                    .with_help("list the points in braces, one `TIME: VALUE` row per line, such as `0 h: 4 °C` and then `6 h: -3 °C`")
+            );
+            return;
+        };
+        let mut ok = true;
+        let mut points: Vec<(f64, f64)> = Vec::new();
+        let mut first: Option<(Quantity, Span)> = None;
+        let mut kind = TempKind::NotTemperature;
+        let mut last_time: Option<(f64, Span)> = None;
+        for row in rows {
+            let t = self.quantity(&row.key, Dim::TIME, "a schedule time");
+            let v = self.ev.eval(&row.value, &Kinds(&self.symbols));
+            let (Some(t), Some(v)) = (t, v) else {
+                ok = false;
+                continue;
+            };
+            match first {
+                None => first = Some((v, row.value.span)),
+                Some((q0, s0)) if q0.dim != v.dim => {
+                    ok = false;
+                    self.diags.push(
+                        Diagnostic::error(
+                            "E101",
+                            format!(
+                                "the values of a schedule must all be {}; this is {}",
+                                q0.dim.describe(),
+                                v.dim.describe()
+                            ),
+                            row.value.span,
+                        )
+                        .with_label(format!("{} here", v.dim.describe()))
+                        .with_secondary(s0, "the first value sets the schedule's kind")
+                        .with_help(
+                            "a schedule gives either temperatures or heat loads; check the unit",
+                        ),
+                    );
+                    continue;
+                }
+                Some(_) => {}
+            }
+            let clash = matches!(
+                (kind, v.kind),
+                (TempKind::Point, TempKind::Difference) | (TempKind::Difference, TempKind::Point)
+            );
+            if clash {
+                ok = false;
+                self.diags.push(
+                    Diagnostic::error("E103", "a schedule mixes temperatures on a scale with temperature differences", row.value.span)
+                        .with_label("different from the rows before it")
+                        .with_help("write every value as a temperature (`°C`, `°F`, `K`) or every value as a difference (`Δ°C`)"),
+                );
+                continue;
+            }
+            // A point or a difference decides the schedule's kind; `K` alone fits either.
+            if matches!(v.kind, TempKind::Point | TempKind::Difference)
+                || kind == TempKind::NotTemperature
+            {
+                kind = v.kind;
+            }
+            if let Some((prev, prev_span)) = last_time {
+                if t.value <= prev {
+                    ok = false;
+                    self.diags.push(
+                        Diagnostic::error("E701", "the times of a schedule must increase from row to row", row.key.span)
+                            .with_label("not later than the row before")
+                            .with_secondary(prev_span, "previous time")
+                            .with_help("order the rows by time; to make a step, put two rows a moment apart (e.g. `6 h` and `6.01 h`)"),
+                    );
+                    continue;
+                }
+            }
+            if let Some(period) = repeat {
+                if t.value < 0.0 || t.value > period {
+                    ok = false;
+                    self.diags.push(
+                        Diagnostic::error("E701", "a repeating schedule's times must lie within one period, from 0 to `repeat`", row.key.span)
+                            .with_label("outside the period")
+                            .with_help("give times from 0 up to the period, e.g. `0 h` to `24 h` for `repeat = 24 h`"),
+                    );
+                    continue;
+                }
+            }
+            last_time = Some((t.value, row.key.span));
+            points.push((t.value, v.value));
+        }
+        if !ok {
+            return;
+        }
+        let Some((q0, _)) = first else { return };
+        self.timed
+            .schedule_index
+            .insert(name.name.clone(), self.timed.dynamics.schedules.len());
+        self.timed.dynamics.schedules.push(Schedule {
+            name: name.name.clone(),
+            span: name.span,
+            points,
+            repeat,
+            dim: q0.dim,
+            kind,
+        });
+    }
+
+    /// The schedule an argument names, when it names one that suits `fixed` or `load`.
+    fn fitting_schedule(&self, what: &str, value: &crate::syntax::Expr) -> Option<usize> {
+        let ExprKind::Name(id) = &value.kind else {
+            return None;
+        };
+        let &i = self.timed.schedule_index.get(&id.name)?;
+        let s = &self.timed.dynamics.schedules[i];
+        let fits = match what {
+            "fixed" => {
+                s.dim == Dim::TEMPERATURE
+                    && s.kind != TempKind::Difference
+                    && s.points.iter().all(|p| p.1 > 0.0)
+            }
+            _ => s.dim == Dim::POWER,
+        };
+        fits.then_some(i)
+    }
+
+    /// `fixed = NAME` or `load = NAME` naming a schedule: the schedule's value at time 0 (what a
+    /// steady solve uses), or `Some(None)` when it does not fit (reported here). `None` when the
+    /// value is not the name of a schedule, so the ordinary check applies.
+    pub(super) fn scheduled_arg(&mut self, an: &Ident, arg: &Arg) -> Option<Option<f64>> {
+        let ExprKind::Name(id) = &arg.value.kind else {
+            return None;
+        };
+        if self.symbols.get(&id.name)?.kind != SymbolKind::Schedule {
+            return None;
+        }
+        self.symbols.add_ref(&id.name, id.span);
+        let &i = self.timed.schedule_index.get(&id.name)?;
+        if self.fitting_schedule(&an.name, &arg.value).is_some() {
+            return Some(Some(self.timed.dynamics.schedules[i].value(0.0)));
+        }
+        let s = &self.timed.dynamics.schedules[i];
+        let (dim, expects) = if an.name == "fixed" {
+            (Dim::TEMPERATURE, "temperatures")
+        } else {
+            (Dim::POWER, "heat loads (a power)")
+        };
+        let d = if s.dim != dim {
+            Diagnostic::error(
+                "E101",
+                format!(
+                    "`{}` expects a schedule of {expects}; `{}` gives {}",
+                    an.name,
+                    id.name,
+                    s.dim.describe()
+                ),
+                id.span,
+            )
+            .with_label(format!("this schedule gives {}", s.dim.describe()))
+            .with_secondary(s.span, "schedule declared here")
+            .with_help("use a schedule whose values have the right unit")
+        } else if s.kind == TempKind::Difference {
+            Diagnostic::error(
+                "E103",
+                format!(
+                    "`fixed` expects temperatures on a scale; schedule `{}` gives differences",
+                    id.name
+                ),
+                id.span,
+            )
+            .with_label("a schedule of temperature differences")
+            .with_secondary(s.span, "schedule declared here")
+            .with_help("write the schedule's values in °C, °F or K")
+        } else {
+            Diagnostic::error(
+                "E202",
+                format!("schedule `{}` goes to or below absolute zero", id.name),
+                id.span,
+            )
+            .with_label("below 0 K")
+            .with_secondary(s.span, "schedule declared here")
+            .with_help("check the schedule's values and their unit")
+        };
+        self.diags.push(d);
+        Some(None)
+    }
+
+    /// Capacity, initial temperature and schedules of a node just added to the network.
+    pub(super) fn node_dynamics(&mut self, node: NodeId, name: &Ident, args: &[Arg], fixed: bool) {
+        let mut seen: HashMap<&str, ()> = HashMap::new();
+        let mut capacity: Option<(f64, Span)> = None;
+        let mut material: Option<(Material, Span)> = None;
+        let mut material_failed = false;
+        let mut volume: Option<(f64, Span)> = None;
+        let mut mass: Option<(f64, Span)> = None;
+        let mut initial: Option<(f64, Span)> = None;
+        let mut given: Vec<&Ident> = Vec::new();
+        let mut failed = false;
+        for arg in args {
+            let Some(an) = &arg.name else { continue };
+            if seen.insert(&an.name, ()).is_some() {
+                continue; // reported by the node check
+            }
+            let v = &arg.value;
+            match an.name.as_str() {
+                "fixed" | "load" => {
+                    if let Some(schedule) = self.fitting_schedule(&an.name, v) {
+                        let what = if an.name == "fixed" {
+                            Driven::Fixed
+                        } else {
+                            Driven::Load
+                        };
+                        self.timed.dynamics.bindings.push(Binding {
+                            node,
+                            what,
+                            schedule,
+                            span: v.span,
+                        });
+                    }
+                    continue;
+                }
+                "capacity" => match self
+                    .quantity(v, Dim::CAPACITY, "capacity")
+                    .filter(|q| self.positive(q.value, v, "capacity"))
+                {
+                    Some(q) => capacity = Some((q.value, an.span)),
+                    None => failed = true,
+                },
+                "material" => match self.material_ref(v) {
+                    Some(m) => material = Some((m, an.span)),
+                    None => material_failed = true,
+                },
+                "volume" => match self
+                    .quantity(v, Dim::VOLUME, "volume")
+                    .filter(|q| self.positive(q.value, v, "volume"))
+                {
+                    Some(q) => volume = Some((q.value, an.span)),
+                    None => failed = true,
+                },
+                "mass" => match self
+                    .quantity(v, Dim::MASS, "mass")
+                    .filter(|q| self.positive(q.value, v, "mass"))
+                {
+                    Some(q) => mass = Some((q.value, an.span)),
+                    None => failed = true,
+                },
+                "initial" => match self.quantity(v, Dim::TEMPERATURE, "initial") {
+                    Some(q) => match expect_point(q, "initial", v) {
+                        Err(d) => {
+                            self.diags.push(d);
+                            failed = true;
+                        }
+                        Ok(()) if q.value <= 0.0 => {
+                            self.diags.push(
+                                Diagnostic::error(
+                                    "E202",
+                                    "this temperature is at or below absolute zero",
+                                    v.span,
+                                )
+                                .with_label("below 0 K")
+                                .with_help("check the value and its unit (°C, °F or K)"),
+                            );
+                            failed = true;
+                        }
+                        Ok(()) => initial = Some((q.value, an.span)),
+                    },
+                    None => failed = true,
+                },
+                _ => continue,
+            }
+            given.push(an);
+        }
+        if fixed {
+            if let Some(an) = given.first() {
+                self.diags.push(
+                    Diagnostic::error("E702", format!("node `{}` is fixed, so `{}` has no effect", name.name, an.name), an.span)
+                        .with_label("on a boundary temperature")
+                        .with_help("a fixed node's temperature is given for all time; put the capacity on a free node linked to it, or remove `fixed`"),
+                );
+            }
+            return;
+        }
+        let mut c = None;
+        match (capacity, &material) {
+            (Some(_), Some((_, ms))) => {
+                let capacity_span = capacity.map(|c| c.1).unwrap_or(*ms);
+                self.alternatives("capacity", "material", capacity_span, *ms);
+                failed = true;
+            }
+            (Some((value, span)), None) => {
+                c = Some(NodeCapacity {
+                    node,
+                    capacity: value,
+                    span,
+                    lump: None,
+                })
+            }
+            (None, Some((m, span))) => {
+                c = self.material_capacity(node, name, m, *span, volume, mass)
+            }
+            (None, None) => {
+                if let Some((_, s)) = volume.or(mass) {
+                    let which = if volume.is_some() { "volume" } else { "mass" };
+                    if !material_failed {
+                        self.diags.push(
+                            Diagnostic::error("E203", format!("`{which}` gives a capacity only together with a `material`"), s)
+                                .with_label("no `material` on this node")
+                                .with_help(format!("add the material, e.g. `material = water, {which} = ...`, or state `capacity = ...` directly")),
+                        );
+                    }
+                    failed = true;
+                }
+            }
+        }
+        if material.is_some() && c.is_none() {
+            failed = true;
+        }
+        if let Some(c) = c {
+            self.timed.dynamics.capacities.push(c);
+        } else if let Some((_, s)) = initial {
+            if !failed && !material_failed {
+                self.diags.push(
+                    Diagnostic::error("E704", format!("node `{}` stores no heat, so `initial` has no effect", name.name), s)
+                        .with_label("no capacity on this node")
+                        .with_help("give the node a `capacity = ...` (or `material = ..., volume = ...`); a node without capacity always follows its neighbours"),
+                );
+            }
+            return;
+        }
+        if let Some((t, s)) = initial {
+            self.timed.dynamics.initial.push((node, t, s));
+        }
+    }
+
+    fn alternatives(&mut self, a: &str, b: &str, span_a: Span, span_b: Span) {
+        self.diags.push(
+            Diagnostic::error(
+                "E207",
+                format!("a node takes `{a}` or `{b}`, not both"),
+                span_b,
+            )
+            .with_label(format!("`{b}` given as well as `{a}`"))
+            .with_secondary(span_a, format!("`{a}` given here"))
+            .with_help(format!(
+                "keep one of them; `{a}` and `{b}` state the capacity two ways"
+            )),
+        );
+    }
+
+    fn material_capacity(
+        &mut self,
+        node: NodeId,
+        name: &Ident,
+        m: &Material,
+        span: Span,
+        volume: Option<(f64, Span)>,
+        mass: Option<(f64, Span)>,
+    ) -> Option<NodeCapacity> {
+        let missing = |what: &str, example: &str| {
+            Diagnostic::error(
+                "E703",
+                format!(
+                    "material `{}` has no `{what}`, needed for the capacity of node `{}`",
+                    m.name, name.name
+                ),
+                span,
+            )
+            .with_label(format!("`{what}` missing"))
+            .with_secondary(m.span, "material declared here")
+            .with_help(format!("add it to the material, e.g. `{what} = {example}`"))
+        };
+        let (v, ms) = match (volume, mass) {
+            (Some(v), Some(ms)) => {
+                self.alternatives("volume", "mass", v.1, ms.1);
+                return None;
+            }
+            (None, None) => {
+                self.diags.push(
+                    Diagnostic::error(
+                        "E203",
+                        format!(
+                            "node `{}` needs the `volume` or `mass` of its material",
+                            name.name
+                        ),
+                        span,
+                    )
+                    .with_label("`volume` or `mass` missing")
+                    .with_help("add it, e.g. `material = water, volume = 2.5 L`"),
+                );
+                return None;
+            }
+            (v, ms) => (v.map(|v| v.0), ms.map(|m| m.0)),
+        };
+        let Some(cp) = m.specific_heat else {
+            self.diags.push(missing("specific_heat", "4180 J/(kg*K)"));
+            return None;
+        };
+        let (capacity, volume) = match (v, ms) {
+            (Some(v), _) => {
+                let Some(rho) = m.density else {
+                    self.diags.push(missing("density", "1000 kg/m^3"));
+                    return None;
+                };
+                (rho * v * cp, Some(v))
+            }
+            (None, Some(mass)) => (mass * cp, m.density.map(|rho| mass / rho)),
+            (None, None) => return None,
+        };
+        Some(NodeCapacity {
+            node,
+            capacity,
+            span,
+            lump: Some(Lump {
+                material: m.name.clone(),
+                k: m.k,
+                volume,
+            }),
+        })
+    }
+
+    fn material_ref(&mut self, v: &crate::syntax::Expr) -> Option<Material> {
+        let ExprKind::Name(id) = &v.kind else {
+            self.diags.push(
+                Diagnostic::error("E101", "`material` expects the name of a material", v.span)
+                    .with_label("not a material name")
+                    .with_help(
+                        "name a declared material, or give the capacity as `capacity = ...`",
+                    ),
+            );
+            return None;
+        };
+        if let Some(&i) = self.material_index.get(&id.name) {
+            self.symbols.add_ref(&id.name, id.span);
+            return Some(self.materials[i].clone());
+        }
+        if self
+            .symbols
+            .get(&id.name)
+            .is_some_and(|s| s.kind == SymbolKind::Material)
+        {
+            // The material failed its own check, which is reported there.
+            self.symbols.add_ref(&id.name, id.span);
+            return None;
+        }
+        let known: Vec<&str> = self.symbols.names_of(SymbolKind::Material).collect();
+        let mut d = match self.symbols.get(&id.name) {
+            Some(s) => Diagnostic::error(
+                "E105",
+                format!("`{}` is {}, not a material", id.name, s.kind.article()),
+                id.span,
+            )
+            .with_label("a material was expected"),
+            None => Diagnostic::error("E102", format!("unknown material `{}`", id.name), id.span)
+                .with_label("no material has this name"),
+        };
+        d = match did_you_mean(&id.name, known) {
+            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), id.span, s),
+            None => d.with_help(format!(
+                "declare it, e.g. `material {} (k = 0.6 W/(m*K), density = 1000 kg/m^3, specific_heat = 4180 J/(kg*K))`",
+                id.name
+            )),
+        };
+        self.diags.push(d);
+        None
+    }
+
+    /// After links and limits: the Biot-number check, cases and transient runs.
+    pub(super) fn finish_dynamics(&mut self, items: &[&Item], net: &Network) {
+        self.biot_warnings(net);
+        for (name, args, rows, _) in declarations(items, "case") {
+            self.no_rows(name, rows, "a case");
+            self.case(name, args);
+        }
+        for (name, args, rows, _) in declarations(items, "transient") {
+            self.no_rows(name, rows, "a transient run");
+            self.run(name, args);
+        }
+        if let Some(first) = self.timed.studies.runs.first() {
+            if self.timed.dynamics.capacities.is_empty() && !net.nodes.is_empty() {
+                self.diags.push(
+                    Diagnostic::warning("W702", "no node has a capacity, so a transient run is a series of steady states", first.span)
+                        .with_label("nothing stores heat")
+                        .with_help("give the bodies that store heat a `capacity = ...` or `material = ..., volume = ...`"),
+                );
+            }
+        }
+    }
+
+    fn no_rows(&mut self, name: &Ident, rows: Option<&[Row]>, what: &str) {
+        if let Some(r) = rows.and_then(|r| r.first()) {
+            self.diags.push(
+                Diagnostic::error("E204", format!("{what} takes no table of rows"), r.span)
+                    .with_label("row not expected here")
+                    .with_help(format!(
+                        "remove the braces after `{}`; tables belong to `schedule`",
+                        name.name
+                    )),
+            );
+        }
+    }
+
+    fn case(&mut self, name: &Ident, args: &[Arg]) {
+        let mut overrides = Vec::new();
+        let mut ok = true;
+        for (an, arg) in self.named_args(args, "a case", "t_out = -10 °C") {
+            let is_param = self.symbols.get(&an.name).map(|s| s.kind);
+            if is_param != Some(SymbolKind::Param) {
+                ok = false;
+                let d = match is_param {
+                    Some(k) => Diagnostic::error(
+                        "E105",
+                        format!("`{}` is {}, not a parameter", an.name, k.article()),
+                        an.span,
+                    )
+                    .with_label("a case sets parameters")
+                    .with_help(
+                        "declare the value as a `param` and use it in the model, then set it here",
+                    ),
+                    None => {
+                        let d = Diagnostic::error(
+                            "E102",
+                            format!("unknown parameter `{}`", an.name),
+                            an.span,
+                        )
+                        .with_label("no parameter has this name");
+                        match did_you_mean(&an.name, self.symbols.names_of(SymbolKind::Param)) {
+                            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
+                                format!("Replace with `{s}`"),
+                                an.span,
+                                s,
+                            ),
+                            None => d.with_help(format!(
+                                "a case sets parameters; declare `param {} = ...` first",
+                                an.name
+                            )),
+                        }
+                    }
+                };
+                self.diags.push(d);
+                continue;
+            }
+            self.symbols.add_ref(&an.name, an.span);
+            let kinds = Kinds(&self.symbols);
+            let base = self.ev.param(&an.name, &kinds);
+            let Some(q) = self.ev.eval(&arg.value, &kinds) else {
+                ok = false;
+                continue;
+            };
+            if let Some(base) = base {
+                if let Err(d) = fits_parameter(
+                    &an.name,
+                    base,
+                    q,
+                    &arg.value,
+                    self.sources.text(arg.value.span.file),
+                ) {
+                    ok = false;
+                    self.diags.push(d);
+                    continue;
+                }
+            }
+            overrides.push((an.name.clone(), q));
+        }
+        if ok {
+            self.timed.studies.cases.push(CaseSpec {
+                name: name.name.clone(),
+                span: name.span,
+                overrides,
+            });
+        }
+    }
+
+    fn run(&mut self, name: &Ident, args: &[Arg]) {
+        let mut spec = RunSpec {
+            name: name.name.clone(),
+            span: name.span,
+            duration: 0.0,
+            step: None,
+            output: None,
+            tolerance: None,
+            start: 0.0,
+        };
+        let mut ok = true;
+        let mut has_duration = false;
+        for (an, arg) in self.named_args(args, "a transient run", "duration = 12 h") {
+            let v = &arg.value;
+            let what = an.name.as_str();
+            match what {
+                "duration" | "step" | "output" => match self
+                    .quantity(v, Dim::TIME, what)
+                    .filter(|q| self.positive(q.value, v, what))
+                {
+                    Some(q) if what == "duration" => {
+                        spec.duration = q.value;
+                        has_duration = true;
+                    }
+                    Some(q) if what == "step" => spec.step = Some(q.value),
+                    Some(q) => spec.output = Some(q.value),
+                    None => ok = false,
+                },
+                "start" => match self.quantity(v, Dim::TIME, what) {
+                    Some(q) => spec.start = q.value,
+                    None => ok = false,
+                },
+                "tolerance" => match self.quantity(v, Dim::TEMPERATURE, what) {
+                    Some(q) if q.kind == TempKind::Point => {
+                        ok = false;
+                        self.diags.push(
+                            Diagnostic::error("E103", "`tolerance` is a temperature difference, not a temperature on a scale", v.span)
+                                .with_label("a temperature on a scale")
+                                .with_help("write it in K or Δ°C, e.g. `tolerance = 0.01 K`"),
+                        );
+                    }
+                    Some(q) if self.positive(q.value, v, what) => spec.tolerance = Some(q.value),
+                    _ => ok = false,
+                },
+                _ => {
+                    ok = false;
+                    self.unknown_arg(an, "a transient run", RUN_ARGS);
+                }
+            }
+        }
+        let duration_written = args
+            .iter()
+            .any(|a| a.name.as_ref().is_some_and(|n| n.name == "duration"));
+        if !has_duration {
+            if !duration_written {
+                self.diags.push(
+                    Diagnostic::error(
+                        "E203",
+                        format!("transient run `{}` needs a `duration`", name.name),
+                        name.span,
+                    )
+                    .with_label("`duration` missing")
+                    .with_help(format!(
+                        "add it, e.g. `transient {} (duration = 12 h)`",
+                        name.name
+                    )),
+                );
+            }
+            return;
+        }
+        if let Some(step) = spec.step {
+            if spec.duration / step > crate::transient::MAX_STEPS as f64 {
+                self.diags.push(
+                    Diagnostic::error(
+                        "E705",
+                        format!(
+                            "a step this short needs more than {} steps",
+                            crate::transient::MAX_STEPS
+                        ),
+                        name.span,
+                    )
+                    .with_label("too many steps")
+                    .with_help("lengthen `step`, or leave it out for the automatic step"),
+                );
+                return;
+            }
+        }
+        if ok {
+            self.timed.studies.runs.push(spec);
+        }
+    }
+
+    fn biot_warnings(&mut self, net: &Network) {
+        for c in &self.timed.dynamics.capacities {
+            let Some(lump) = &c.lump else { continue };
+            let Some(volume) = lump.volume else { continue };
+            let Some(biot) = biot_number(net, c.node, volume, lump.k) else {
+                continue;
+            };
+            if biot.number > BIOT_LUMPED {
+                self.diags.push(
+                    Diagnostic::warning(
+                        "W701",
+                        format!("node `{}` may not be one temperature: Biot number h·Lc/k = {:.3} is above {BIOT_LUMPED}", net.nodes[c.node].name, biot.number),
+                        c.span,
+                    )
+                    .with_label(format!(
+                        "h = {}, Lc = V/A = {}, k = {}",
+                        elements::show(biot.h, Dim::HEAT_TRANSFER_COEFF),
+                        elements::show(biot.length, Dim::LENGTH),
+                        elements::show(lump.k, Dim::CONDUCTIVITY)
+                    ))
+                    .with_help(
+                        "inside the body the temperature varies by more than the lumped model allows (Bi > 0.1 is common practice); split the body into \
+                         several nodes joined by `layer` links, or read the result as a rough estimate (a stirred or convecting liquid mixes better than conduction alone suggests)",
+                    ),
+                );
+            }
+        }
+    }
+}
+
+/// A Biot number with its parts.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Biot {
+    pub number: f64,
+    /// Area-weighted mean film coefficient over the node's film links, W/(m²·K).
+    pub h: f64,
+    /// Characteristic length V / A_surface, m.
+    pub length: f64,
+    /// Total area of the node's film links, m².
+    pub surface: f64,
+}
+
+/// Bi = h·Lc/k with Lc = V/A, where A is the total area of the `film` links that touch the node
+/// and h their area-weighted mean coefficient (ΣG/ΣA). `None` when the node has no film link.
+pub fn biot_number(net: &Network, node: NodeId, volume: f64, k: f64) -> Option<Biot> {
+    let (mut g, mut a) = (0.0, 0.0);
+    for l in &net.links {
+        if l.kind == "film" && (l.from == node || l.to == node) {
+            if let Some(area) = l.area {
+                g += l.conductance();
+                a += area;
+            }
+        }
+    }
+    if a <= 0.0 || k <= 0.0 {
+        return None;
+    }
+    let h = g / a;
+    let length = volume / a;
+    Some(Biot {
+        number: h * length / k,
+        h,
+        length,
+        surface: a,
+    })
+}
+
+/// A value that replaces a parameter must have the parameter's dimension and, for
+/// temperatures, the same kind (a point for a point, a difference for a difference).
+#[allow(clippy::result_large_err)] // the one Diagnostic type, as `eval::expect_dim` returns it
+pub fn fits_parameter(
+    name: &str,
+    base: Quantity,
+    q: Quantity,
+    expr: &crate::syntax::Expr,
+    source: &str,
+) -> Result<(), Diagnostic> {
+    if base.dim != q.dim {
+        let written = source.get(expr.span.range()).unwrap_or("this value");
+        return Err(Diagnostic::error(
+            "E101",
+            format!(
+                "parameter `{name}` is {}; `{written}` is {}",
+                base.dim.describe(),
+                q.dim.describe()
+            ),
+            expr.span,
+        )
+        .with_label(format!("{} here", q.dim.describe()))
+        .with_help(format!(
+            "give `{name}` a value in a unit of {}",
+            base.dim.describe()
+        )));
+    }
+    let clash = matches!(
+        (base.kind, q.kind),
+        (TempKind::Point, TempKind::Difference) | (TempKind::Difference, TempKind::Point)
+    );
+    if clash {
+        let (is, was) = if q.kind == TempKind::Point {
+            ("a temperature on a scale", "a difference")
+        } else {
+            ("a difference", "a temperature on a scale")
+        };
+        return Err(Diagnostic::error(
+            "E103",
+            format!("parameter `{name}` is {was}; this value is {is}"),
+            expr.span,
+        )
+        .with_label(is)
+        .with_help("use the same kind of temperature as the parameter's own value"));
+    }
+    Ok(())
+}

@@ -1,0 +1,68 @@
+//! Transient runs: node capacities C·dT/dt = Σ G·(Tj − T) + Q, integrated with the implicit,
+//! L-stable TR-BDF2 method.
+//!
+//! The pieces: [`model`] (what the model states), [`schedule`] (piecewise-linear inputs),
+//! [`system`] (the one interface between network and integrator: assemble G and the right-hand
+//! side for the current temperatures), [`factor`] (sparse Cholesky factorisations of
+//! C/(d·h) + G, one per step size, reused while the step stays the same), [`integrate`] (the
+//! stepping and its error control), [`run`] (outputs, events, limits over time, energy balance)
+//! and [`summary`] (final and peak values for the language server). The method and its error
+//! control are described in docs/transient.md.
+
+pub mod factor;
+pub mod integrate;
+pub mod model;
+pub mod probe;
+pub mod run;
+pub mod schedule;
+pub mod summary;
+pub mod system;
+
+pub use run::{run_transient, Hooks, Record, RunOptions, RunResult};
+pub use summary::{summarize, NodeSummary, RunSummary};
+
+/// Upper bound on the number of steps of one run, so that no input can make a run endless.
+pub const MAX_STEPS: usize = 10_000_000;
+
+/// Why a transient run could not be completed.
+#[derive(Clone, Debug, PartialEq)]
+pub enum RunError {
+    /// The step matrix could not be factored (not positive definite).
+    Singular,
+    /// A temperature became NaN or infinite.
+    NonFinite { time: f64 },
+    /// The automatic step fell below the smallest allowed step.
+    StepTooSmall { time: f64, step: f64 },
+    /// More than [`MAX_STEPS`] steps (or the caller's limit) would be needed.
+    TooManySteps { time: f64 },
+    /// The Newton iteration of a nonlinear network did not converge even with small steps.
+    NoConvergence { time: f64 },
+}
+
+impl std::fmt::Display for RunError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            RunError::Singular => write!(
+                f,
+                "the step matrix C/(d·h) + G could not be factored (not positive definite)"
+            ),
+            RunError::NonFinite { time } => write!(
+                f,
+                "temperatures stopped being finite numbers at t = {time:.6e} s"
+            ),
+            RunError::StepTooSmall { time, step } => {
+                write!(f, "the automatic step fell to {step:.3e} s at t = {time:.6e} s without meeting the tolerance")
+            }
+            RunError::TooManySteps { time } => write!(
+                f,
+                "the run needs more steps than allowed (stopped at t = {time:.6e} s)"
+            ),
+            RunError::NoConvergence { time } => write!(
+                f,
+                "the nonlinear iteration did not converge at t = {time:.6e} s"
+            ),
+        }
+    }
+}
+
+impl std::error::Error for RunError {}

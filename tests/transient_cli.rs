@@ -1,0 +1,288 @@
+//! `caloris run` and `caloris study` from the outside: reports, formats, exit codes, charts and
+//! Ctrl-C.
+
+use assert_cmd::Command;
+use std::path::{Path, PathBuf};
+
+fn caloris() -> Command {
+    let mut c = Command::cargo_bin("caloris").expect("binary");
+    c.current_dir(env!("CARGO_MANIFEST_DIR"))
+        .env("NO_COLOR", "1");
+    c
+}
+
+fn out(args: &[&str]) -> (i32, String, String) {
+    let o = caloris().args(args).output().expect("runs");
+    (
+        o.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&o.stdout).into_owned(),
+        String::from_utf8_lossy(&o.stderr).into_owned(),
+    )
+}
+
+fn scratch(name: &str) -> PathBuf {
+    let dir = std::env::temp_dir().join(format!("caloris-cli-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).expect("temp dir");
+    dir.join(name)
+}
+
+const STANDPIPE: &str = "examples/allotment_standpipe_frost.heat";
+const TANK: &str = "examples/hot_water_tank_jacket.heat";
+
+#[test]
+fn run_reports_the_frost_night() {
+    let (code, stdout, stderr) = out(&["run", STANDPIPE, "--cross", "pipe=0°C"]);
+    assert_eq!(
+        code, 3,
+        "the water falls below 0 °C, so the limit fails: {stderr}"
+    );
+    assert!(stderr.contains("W701"), "{stderr}");
+    insta::assert_snapshot!(stdout);
+}
+
+#[test]
+fn run_json_and_csv_carry_the_whole_series() {
+    let (code, stdout, _) = out(&["run", STANDPIPE, "--format", "json"]);
+    assert_eq!(code, 3);
+    let v: serde_json::Value = serde_json::from_str(&stdout).expect("json");
+    let times = v["times_s"].as_array().expect("times");
+    assert_eq!(times.len(), 61, "15 h every 15 min, both ends included");
+    let first = v["limits"][0]["first_failure_s"].as_f64().expect("fails");
+    assert!((first / 3600.0 - 5.0).abs() < 0.05, "{first}");
+    let e = &v["energy"];
+    assert!(
+        e["residual_J"].as_f64().expect("residual").abs()
+            < 1e-6 * e["stored_J"].as_f64().expect("stored").abs()
+    );
+    let water = v["nodes"]
+        .as_array()
+        .expect("nodes")
+        .iter()
+        .find(|n| n["name"] == "water")
+        .expect("water");
+    assert_eq!(
+        water["temperatures_K"].as_array().expect("series").len(),
+        61
+    );
+    assert!((water["initial_K"].as_f64().expect("initial") - 282.15).abs() < 1e-9);
+
+    let (code, stdout, _) = out(&["run", STANDPIPE, "--format", "csv", "--units", "us"]);
+    assert_eq!(code, 3);
+    let mut lines = stdout.lines();
+    assert_eq!(lines.next(), Some("time [h],outdoor [°F],water [°F],pipe [°F],lagging_surface [°F],heat from outdoor [Btu/h]"));
+    let first_row: Vec<f64> = lines
+        .next()
+        .expect("row")
+        .split(',')
+        .map(|x| x.parse().expect("number"))
+        .collect();
+    assert_eq!(first_row[0], 0.0);
+    assert!(
+        (first_row[2] - 48.2).abs() < 1e-9,
+        "9 °C = 48.2 °F: {first_row:?}"
+    );
+    assert_eq!(stdout.lines().count(), 62);
+}
+
+#[test]
+fn run_settings_from_the_command_line() {
+    let (code, stdout, _) = out(&[
+        "run",
+        STANDPIPE,
+        "--duration",
+        "3h",
+        "--step",
+        "1min",
+        "--at",
+        "1h,2h",
+        "--case",
+        "windy_night",
+    ]);
+    assert_eq!(
+        code, 0,
+        "in 3 h the water stays above 0 °C even on a windy night"
+    );
+    assert!(
+        stdout.contains("fixed step 60 s: 180 steps (0 rejected), 1 factorisation;"),
+        "{stdout}"
+    );
+    let rows: Vec<&str> = stdout
+        .lines()
+        .skip_while(|l| !l.starts_with("Temperatures"))
+        .skip(3)
+        .take_while(|l| !l.trim().is_empty())
+        .collect();
+    let times: Vec<&str> = rows
+        .iter()
+        .filter_map(|r| r.split_whitespace().next())
+        .collect();
+    assert_eq!(times, ["0", "1", "2", "3"], "{stdout}");
+}
+
+#[test]
+fn run_usage_errors_say_what_to_write() {
+    let (code, _, stderr) = out(&["run", TANK]);
+    assert_eq!(code, 2);
+    insta::assert_snapshot!("run_without_a_transient", stderr);
+    let (code, _, stderr) = out(&["run", STANDPIPE, "--set", "lagg=20mm"]);
+    assert_eq!(code, 2);
+    assert!(
+        stderr.contains("no parameter `lagg`; did you mean `lagging`?"),
+        "{stderr}"
+    );
+    let (code, _, stderr) = out(&["run", STANDPIPE, "--cross", "water=3W"]);
+    assert_eq!(code, 2);
+    assert!(
+        stderr.contains("the level must be a temperature"),
+        "{stderr}"
+    );
+    let (code, _, stderr) = out(&["run", STANDPIPE, "--case", "stormy"]);
+    assert_eq!(code, 2);
+    assert!(
+        stderr.contains("the model's cases are calm_night, windy_night"),
+        "{stderr}"
+    );
+}
+
+#[test]
+fn study_of_the_jacket_thickness() {
+    let (code, stdout, stderr) = out(&[
+        "study",
+        TANK,
+        "--sweep",
+        "jacket=10mm..120mm:12",
+        "--case",
+        "all",
+        "--measure",
+        "temperature(wall.foam)",
+    ]);
+    assert_eq!(code, 3, "{stderr}");
+    insta::assert_snapshot!(stdout);
+}
+
+#[test]
+fn study_json_agrees_with_series_resistances() {
+    let (code, stdout, _) = out(&[
+        "study",
+        TANK,
+        "--sweep",
+        "jacket=50mm",
+        "--case",
+        "cold_cupboard",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(code, 0);
+    let v: serde_json::Value = serde_json::from_str(&stdout).expect("json");
+    let q = v["points"][0]["outcome"]["limits"][0]["value"]
+        .as_f64()
+        .expect("heat flow");
+    // Series resistances per area (Fourier's law for the layers, Newton's law of cooling for the
+    // films): R'' = 1/500 + 0.002/50 + 0.050/0.028 + 1/8 m²·K/W over the cylinder's area
+    // π·0.45·1.0 + 2·π·0.225² m², with 60 − 12 = 48 K across.
+    let r = 1.0 / 500.0 + 0.002 / 50.0 + 0.050 / 0.028 + 1.0 / 8.0;
+    let area = std::f64::consts::PI * 0.45 + 2.0 * std::f64::consts::PI * 0.225 * 0.225;
+    let expected = 48.0 * area / r;
+    assert!((q - expected).abs() < 1e-9 * expected, "{q} vs {expected}");
+    assert_eq!(v["points"][0]["all_limits_pass"], true);
+}
+
+#[test]
+fn a_transient_study_and_its_chart() {
+    let svg = scratch("lagging.svg");
+    let (code, stdout, stderr) = out(&[
+        "study",
+        STANDPIPE,
+        "--transient",
+        "--sweep",
+        "lagging=0mm..40mm:5",
+        "--format",
+        "csv",
+        "--plot",
+        svg.to_str().expect("path"),
+    ]);
+    assert_eq!(code, 3, "{stderr}");
+    let rows: Vec<Vec<String>> = stdout
+        .lines()
+        .skip(1)
+        .map(|l| l.split(',').map(String::from).collect())
+        .collect();
+    assert_eq!(rows.len(), 5);
+    // More lagging, later freezing.
+    let times: Vec<f64> = rows
+        .iter()
+        .map(|r| r[5].parse().expect("first failure time"))
+        .collect();
+    assert!(times.windows(2).all(|w| w[1] > w[0]), "{times:?}");
+    let chart = std::fs::read_to_string(&svg).expect("chart written");
+    assert!(
+        chart.starts_with("<svg") && chart.contains("first fails"),
+        "{chart}"
+    );
+    assert_eq!(chart.matches("<polyline").count(), 2);
+}
+
+#[test]
+fn study_usage_errors() {
+    let (code, stdout, stderr) = out(&["study", TANK]);
+    assert_eq!(code, 3, "without --sweep every case is studied: {stderr}");
+    assert!(
+        stdout.contains("cases cold_cupboard, warm_cupboard"),
+        "{stdout}"
+    );
+    let (code, _, stderr) = out(&["study", TANK, "--sweep", "jacket=10W..20W:3"]);
+    assert_eq!(code, 2);
+    assert!(
+        stderr.contains("parameter `jacket` is a length (m); the value given is a power (W)"),
+        "{stderr}"
+    );
+    let (code, _, stderr) = out(&["study", TANK, "--sweep", "jacket=1mm..2mm:1"]);
+    assert_eq!(code, 2);
+    assert!(stderr.contains("from 2 to 10000 points"), "{stderr}");
+    let (code, _, stderr) = out(&["study", TANK, "--case", "all", "--plot", "x.svg"]);
+    assert_eq!(code, 2);
+    assert!(stderr.contains("--plot draws a sweep"), "{stderr}");
+    assert!(!Path::new("x.svg").exists());
+}
+
+/// A chain of 3000 storing nodes stepped at 1 s for 10⁶ s: far longer than the test waits.
+fn long_model() -> PathBuf {
+    let mut s = String::from("node ambient (fixed = 10 °C)\n");
+    for i in 0..3000 {
+        s += &format!("node n{i} (capacity = 500 J/K, initial = 60 °C)\n");
+    }
+    s += "link l0: n0 to ambient conductance(2 W/K)\n";
+    for i in 1..3000 {
+        s += &format!("link l{i}: n{i} to n{} conductance(2 W/K)\n", i - 1);
+    }
+    s += "transient long (duration = 1000000 s, step = 1 s, output = 1 h)\n";
+    let p = scratch("long.heat");
+    std::fs::write(&p, s).expect("model written");
+    p
+}
+
+#[cfg(unix)]
+#[test]
+fn ctrl_c_stops_a_run_and_keeps_what_was_computed() {
+    let model = long_model();
+    let bin = assert_cmd::cargo::cargo_bin("caloris");
+    let child = std::process::Command::new(bin)
+        .args(["run", model.to_str().expect("path"), "--nodes", "n0,n2999"])
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .expect("spawn");
+    std::thread::sleep(std::time::Duration::from_millis(2500));
+    let status = std::process::Command::new("kill")
+        .args(["-INT", &child.id().to_string()])
+        .status()
+        .expect("kill");
+    assert!(status.success());
+    let o = child.wait_with_output().expect("exit");
+    let stdout = String::from_utf8_lossy(&o.stdout);
+    let stderr = String::from_utf8_lossy(&o.stderr);
+    assert_eq!(o.status.code(), Some(130), "{stderr}");
+    assert!(stdout.contains("INTERRUPTED at"), "{stdout}");
+    assert!(stdout.contains("Energy over the run"), "{stdout}");
+    assert!(stderr.contains("interrupted: results up to"), "{stderr}");
+}
