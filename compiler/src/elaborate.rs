@@ -5,9 +5,10 @@
 //! build-up uses are expanded into chains of element links with named interface nodes.
 
 use crate::diagnostic::{did_you_mean, Diagnostic};
-use crate::elements::{self, ArgType, ArgValue, Args, ElementKind, Material};
+use crate::elements::{self, shell, ArgType, ArgValue, Args, ElementKind, Material};
 use crate::eval::{expect_dim, expect_point, Evaluator, NameKinds};
 use crate::limits::{self, LimitSpec};
+use crate::radial::{self, UseArgs};
 use crate::network::{Group, Link, LinkLaw, Network, Node, NodeId};
 use crate::source::Sources;
 use crate::span::Span;
@@ -190,7 +191,7 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             cx.symbols.add_ref(&element.kind.name, element.kind.span);
             cx.buildup_link(&mut net, &node_index, name, a, b, element, els);
         } else if let Some(kind) = elements::lookup(&element.kind.name) {
-            let built = cx.args(kind, &element.args, element.span, None).and_then(|args| match kind.build(&args) {
+            let built = cx.args(kind, &element.args, element.span, &[]).and_then(|args| match kind.build(&args) {
                 Ok(b) => Some(b),
                 Err(d) => {
                     cx.diags.push(d);
@@ -497,7 +498,7 @@ impl<'a> Cx<'a> {
 
     /// Check an element's arguments against its schema. `area` is supplied by the link when the
     /// element sits in a build-up.
-    fn args(&mut self, kind: &'static dyn ElementKind, args: &[Arg], call_span: Span, area: Option<(f64, Span)>) -> Option<Args> {
+    fn args(&mut self, kind: &'static dyn ElementKind, args: &[Arg], call_span: Span, supplied: &[(&'static str, f64, Span)]) -> Option<Args> {
         let specs = kind.params();
         let mut values = HashMap::new();
         let mut ok = true;
@@ -530,12 +531,8 @@ impl<'a> Cx<'a> {
                 ok = false;
                 continue;
             }
-            if spec.name == "area" && area.is_some() {
-                self.diags.push(
-                    Diagnostic::error("E210", "an element of a build-up takes its area from the link that uses the build-up", arg.span)
-                        .with_label("area given inside a build-up")
-                        .with_help("remove `area` here and give it where the build-up is used: `link name: a to b my_buildup(area = 10 m^2)`"),
-                );
+            if supplied.iter().any(|s| s.0 == spec.name) {
+                self.diags.push(radial::supplied_inside(spec.name, arg.span));
                 ok = false;
                 continue;
             }
@@ -590,9 +587,9 @@ impl<'a> Cx<'a> {
                 },
             }
         }
-        if let Some((a, span)) = area {
-            if kind.takes_area() {
-                values.insert("area", (ArgValue::Quantity(a), span));
+        for &(name, v, span) in supplied {
+            if kind.params().iter().any(|p| p.name == name) {
+                values.insert(name, (ArgValue::Quantity(v), span));
             }
         }
         ok.then_some(Args { kind: kind.name(), values, call_span })
@@ -609,36 +606,14 @@ impl<'a> Cx<'a> {
         call: &ElementCall,
         els: &[BuildupElement],
     ) {
-        // The link's own arguments: the area for all its elements.
-        let mut area = None;
-        for arg in &call.args {
-            match arg.name.as_ref().map(|n| n.name.as_str()) {
-                Some("area") | None if area.is_none() => {
-                    if let Some(q) = self.quantity(&arg.value, Dim::AREA, "area") {
-                        if self.positive(q.value, &arg.value, "area") {
-                            area = Some((q.value, arg.value.span));
-                        }
-                    }
-                }
-                _ => {
-                    let n = arg.name.clone().unwrap_or(Ident { name: "value".into(), span: arg.span });
-                    self.unknown_arg(&n, &format!("build-up `{}`", call.kind.name), &["area"]);
-                }
-            }
-        }
-        let needs_area = els.iter().any(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| k.takes_area()));
-        if area.is_none() && needs_area && call.args.is_empty() {
-            self.diags.push(
-                Diagnostic::error("E203", format!("build-up `{}` needs the `area` it covers", call.kind.name), call.span)
-                    .with_label("`area` missing")
-                    .with_help(format!("add it, e.g. `{}(area = 10 m^2)`", call.kind.name)),
-            );
-            return;
-        }
+        let geom = shell::geometry(els.iter().map(|e| e.element.kind.name.as_str()));
+        let Some(use_args) = self.buildup_use_args(call, els, geom) else { return };
         let group_id = net.groups.len();
         let mut links = Vec::new();
         let mut prev = from;
         let mut complete = true;
+        // Each shell starts at the radius where the one before it ended.
+        let mut chain = radial::Chain::new(geom, use_args.inner_radius);
         for (i, e) in els.iter().enumerate() {
             let next = if i + 1 == els.len() { to } else { index.get(&format!("{}.{}", name.name, e.name.name)).copied() };
             let Some(kind) = elements::lookup(&e.element.kind.name) else {
@@ -646,13 +621,15 @@ impl<'a> Cx<'a> {
                 complete = false;
                 continue;
             };
-            let built = self.args(kind, &e.element.args, e.element.span, area).and_then(|a| match kind.build(&a) {
+            let args = self.args(kind, &e.element.args, e.element.span, &use_args.supplied(geom, chain.radius));
+            let built = args.as_ref().and_then(|a| match kind.build(a) {
                 Ok(b) => Some(b),
                 Err(d) => {
                     self.diags.push(d);
                     None
                 }
             });
+            chain.advance(i, kind, e.element.span, args.as_ref(), built.as_ref());
             match (prev, next, built) {
                 (Some(a), Some(b), Some(built)) => {
                     links.push(net.links.len());
@@ -673,10 +650,42 @@ impl<'a> Cx<'a> {
             prev = next;
         }
         if complete {
+            self.diags.extend(chain.critical_radius_warning(name, els));
             if let (Some(a), Some(b)) = (from, to) {
-                net.groups.push(Group { name: name.name.clone(), span: name.span, buildup: call.kind.name.clone(), from: a, to: b, area: area.map(|a| a.0), links });
+                let area = if geom == shell::Geometry::Plane { use_args.area.map(|a| a.0) } else { None };
+                net.groups.push(Group { name: name.name.clone(), span: name.span, buildup: call.kind.name.clone(), from: a, to: b, area, links });
             }
         }
+    }
+
+    /// The arguments of a link that uses a build-up: the area of a plane build-up, the bore
+    /// radius (and the length of a cylindrical one) of a radial build-up.
+    fn buildup_use_args(&mut self, call: &ElementCall, els: &[BuildupElement], geom: shell::Geometry) -> Option<UseArgs> {
+        let allowed = radial::use_arg_names(geom);
+        let mut found: HashMap<&'static str, (f64, Span)> = HashMap::new();
+        for arg in &call.args {
+            let key = arg.name.as_ref().map(|n| n.name.as_str()).unwrap_or(allowed[0]);
+            match allowed.iter().find(|a| **a == key) {
+                Some(&k) if !found.contains_key(k) => {
+                    let dim = if k == "area" { Dim::AREA } else { Dim::LENGTH };
+                    if let Some(q) = self.quantity(&arg.value, dim, k) {
+                        if self.positive(q.value, &arg.value, k) {
+                            found.insert(k, (q.value, arg.value.span));
+                        }
+                    }
+                }
+                _ => {
+                    let n = arg.name.clone().unwrap_or(Ident { name: "value".into(), span: arg.span });
+                    self.unknown_arg(&n, &format!("build-up `{}`", call.kind.name), allowed);
+                }
+            }
+        }
+        let needs_area = els.iter().any(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| k.takes_area()));
+        if let Some(d) = radial::missing_use_args(call, geom, allowed, &found, needs_area) {
+            self.diags.push(d);
+            return None;
+        }
+        Some(UseArgs { area: found.get("area").copied(), inner_radius: found.get("inner_radius").copied(), length: found.get("length").copied() })
     }
 }
 
@@ -692,6 +701,7 @@ pub fn check_buildup_kinds(module: &Module) -> Vec<Diagnostic> {
                         .with_help("list its layers and films from one side to the other, e.g. `inside: film(h = 8 W/(m^2*K))`"),
                 );
             }
+            out.extend(shell::check_mixed(els));
             for e in els {
                 if elements::lookup(&e.element.kind.name).is_none() {
                     let names = elements::ALL.iter().map(|k| k.name());
@@ -699,7 +709,7 @@ pub fn check_buildup_kinds(module: &Module) -> Vec<Diagnostic> {
                         .with_label("not an element kind");
                     d = match did_you_mean(&e.element.kind.name, names) {
                         Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), e.element.kind.span, s),
-                        None => d.with_help("a build-up element is `layer(...)`, `film(...)`, `contact(...)`, `resistance(...)` or `conductance(...)`"),
+                        None => d.with_help(format!("a build-up element is one of {}", elements::ALL.iter().map(|k| format!("`{}(...)`", k.name())).collect::<Vec<_>>().join(", "))),
                     };
                     out.push(d);
                 }

@@ -14,6 +14,7 @@ pub mod lexer;
 pub mod limits;
 pub mod network;
 pub mod parser;
+pub mod radial;
 pub mod render;
 pub mod results;
 pub mod solve;

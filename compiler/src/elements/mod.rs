@@ -4,6 +4,7 @@
 //! [`ALL`]; the parser, checker, language server and docs pick it up from here.
 
 mod plane;
+pub mod shell;
 
 use crate::diagnostic::Diagnostic;
 use crate::span::Span;
@@ -132,7 +133,7 @@ pub trait ElementKind: Sync {
 }
 
 /// Every element kind the language knows.
-pub static ALL: &[&dyn ElementKind] = &[&plane::Layer, &plane::Film, &plane::Contact, &plane::Resistance, &plane::Conductance];
+pub static ALL: &[&dyn ElementKind] = &[&plane::Layer, &plane::Film, &plane::Contact, &plane::Resistance, &plane::Conductance, &shell::Cylinder, &shell::Sphere];
 
 pub fn lookup(name: &str) -> Option<&'static dyn ElementKind> {
     ALL.iter().copied().find(|k| k.name() == name)
