@@ -60,7 +60,7 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
             Cell::new(&l.name),
             Cell::new(format!("{} → {}", net.nodes[l.from].name, net.nodes[l.to].name)),
             Cell::new(&l.kind),
-            Cell::new(show(1.0 / l.conductance(), Dim::RESISTANCE, TempKind::NotTemperature, system)),
+            Cell::new(show(1.0 / l.conductance_at(&sol.temperatures), Dim::RESISTANCE, TempKind::NotTemperature, system)),
             Cell::new(power(q)),
             Cell::new(flux),
         ]);
@@ -111,6 +111,9 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
         right(&mut t, &[2, 4]);
         out.push_str(&format!("Design limits\n{t}\n\n"));
     }
+    if let Some(c) = &sol.convergence {
+        out.push_str(&format!("Nonlinear solve: {}, {} iterations, final residual {:.3e} W.\n", c.method, c.iterations, c.final_residual));
+    }
     out.push_str(&format!(
         "Energy balance: worst residual at a free node {:.3e} W.\n\n{CAUTION}\n",
         sol.worst_residual
@@ -158,7 +161,7 @@ pub fn json(a: &Analysis) -> String {
                 "to": net.nodes[l.to].name,
                 "kind": l.kind,
                 "heat_flow_W": q,
-                "resistance_K_per_W": 1.0 / l.conductance(),
+                "resistance_K_per_W": sol.map(|s| 1.0 / l.conductance_at(&s.temperatures)).unwrap_or(1.0 / l.conductance()),
                 "area_m2": l.area,
                 "heat_flux_W_per_m2": l.area.and_then(|a| q.map(|q| q / a)),
                 "buildup_use": l.group.map(|g| net.groups[g].name.clone()),
@@ -214,6 +217,7 @@ pub fn json(a: &Analysis) -> String {
         "buildups": groups,
         "limits": limits,
         "balance": sol.map(|s| json!({"worst_residual_W": s.worst_residual})),
+        "nonlinear_solve": sol.and_then(|s| s.convergence.as_ref()).map(|c| json!({"method": c.method, "iterations": c.iterations, "final_residual_W": c.final_residual})),
         "diagnostics": diagnostics,
         "caution": CAUTION,
     });
@@ -247,7 +251,7 @@ pub fn csv(a: &Analysis, system: UnitSystem) -> String {
     }
     for (i, l) in net.links.iter().enumerate() {
         let (q, _) = num(sol.heat_flows[i], Dim::POWER, TempKind::NotTemperature, system);
-        let (r, _) = num(1.0 / l.conductance(), Dim::RESISTANCE, TempKind::NotTemperature, system);
+        let (r, _) = num(1.0 / l.conductance_at(&sol.temperatures), Dim::RESISTANCE, TempKind::NotTemperature, system);
         out.push_str(&format!(
             "link,{},{},{},,,{q},{r}\n",
             csv_field(&l.name),

@@ -8,6 +8,7 @@ use crate::limits::LimitSpec;
 use crate::network::Network;
 use crate::parser::parse;
 use crate::results::Solution;
+use crate::nonlinear::{newton_failure, solve_nonlinear, NewtonSettings};
 use crate::solve::{solve_steady, SolveError};
 use crate::source::{SourceLoader, Sources};
 use crate::span::{FileId, Span};
@@ -22,6 +23,8 @@ pub struct Options {
     pub check_only: bool,
     /// Parameter values that replace the model's own (studies and cases).
     pub overrides: Vec<(String, Quantity)>,
+    /// Most Newton steps a nonlinear solve may take (default 60).
+    pub newton_max_iterations: Option<usize>,
 }
 
 /// Everything known about a model after analysis.
@@ -76,7 +79,17 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
         params: el.params,
         solution: None,
     };
-    if !analysis.has_errors() && !options.check_only {
+    if !analysis.has_errors() && !options.check_only && !analysis.network.links.iter().all(|l| l.law.is_linear()) {
+        let settings = NewtonSettings { max_iterations: options.newton_max_iterations.unwrap_or(NewtonSettings::default().max_iterations), ..NewtonSettings::default() };
+        match solve_nonlinear(&analysis.network, settings) {
+            Ok((t, conv)) => {
+                let mut sol = Solution::new(&analysis.network, t, &analysis.limits);
+                sol.convergence = Some(conv);
+                analysis.solution = Some(sol);
+            }
+            Err(e) => analysis.diagnostics.push(newton_failure(&analysis.network, e)),
+        }
+    } else if !analysis.has_errors() && !options.check_only {
         match solve_steady(&analysis.network) {
             Ok(t) => analysis.solution = Some(Solution::new(&analysis.network, t, &analysis.limits)),
             Err(e) => {

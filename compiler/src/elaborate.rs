@@ -9,7 +9,7 @@ use crate::elements::{self, shell, ArgType, ArgValue, Args, ElementKind, Materia
 use crate::eval::{expect_dim, expect_point, Evaluator, NameKinds};
 use crate::limits::{self, LimitSpec};
 use crate::radial::{self, UseArgs};
-use crate::network::{Group, Link, LinkLaw, Network, Node, NodeId};
+use crate::network::{Group, Link, Network, Node, NodeId};
 use crate::source::Sources;
 use crate::span::Span;
 use crate::symbols::{Symbol, SymbolKind, SymbolTable};
@@ -191,20 +191,20 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             cx.symbols.add_ref(&element.kind.name, element.kind.span);
             cx.buildup_link(&mut net, &node_index, name, a, b, element, els);
         } else if let Some(kind) = elements::lookup(&element.kind.name) {
-            let built = cx.args(kind, &element.args, element.span, &[]).and_then(|args| match kind.build(&args) {
+            let built = cx.args(kind, &element.args, element.span, &[]).and_then(|args| match kind.law(&args) {
                 Ok(b) => Some(b),
                 Err(d) => {
                     cx.diags.push(d);
                     None
                 }
             });
-            if let (Some(a), Some(b), Some(built)) = (a, b, built) {
+            if let (Some(a), Some(b), Some((law, built))) = (a, b, built) {
                 net.links.push(Link {
                     name: name.name.clone(),
                     span: item.span,
                     from: a,
                     to: b,
-                    law: LinkLaw::Linear { conductance: built.conductance },
+                    law,
                     area: built.area,
                     kind: kind.name().to_string(),
                     formula: built.formula,
@@ -622,23 +622,23 @@ impl<'a> Cx<'a> {
                 continue;
             };
             let args = self.args(kind, &e.element.args, e.element.span, &use_args.supplied(geom, chain.radius));
-            let built = args.as_ref().and_then(|a| match kind.build(a) {
+            let built = args.as_ref().and_then(|a| match kind.law(a) {
                 Ok(b) => Some(b),
                 Err(d) => {
                     self.diags.push(d);
                     None
                 }
             });
-            chain.advance(i, kind, e.element.span, args.as_ref(), built.as_ref());
+            chain.advance(i, kind, e.element.span, args.as_ref(), built.as_ref().map(|b| &b.1));
             match (prev, next, built) {
-                (Some(a), Some(b), Some(built)) => {
+                (Some(a), Some(b), Some((law, built))) => {
                     links.push(net.links.len());
                     net.links.push(Link {
                         name: format!("{}.{}", name.name, e.name.name),
                         span: e.span,
                         from: a,
                         to: b,
-                        law: LinkLaw::Linear { conductance: built.conductance },
+                        law,
                         area: built.area,
                         kind: kind.name().to_string(),
                         formula: built.formula,

@@ -6,13 +6,16 @@
 //! [`limits`]) → [`network`] → [`solve`] → [`results`]; [`analysis::analyze`] runs it all.
 
 pub mod analysis;
+pub mod conductivity;
 pub mod diagnostic;
 pub mod elaborate;
 pub mod elements;
 pub mod eval;
+pub mod laws;
 pub mod lexer;
 pub mod limits;
 pub mod network;
+pub mod nonlinear;
 pub mod parser;
 pub mod radial;
 pub mod render;

@@ -25,6 +25,12 @@ pub struct Node {
 pub enum LinkLaw {
     /// Q = G·(T_from − T_to) with a constant conductance G in W/K.
     Linear { conductance: f64 },
+    /// Q = σ·A_x·(T_from⁴ − T_to⁴) with temperatures in kelvin and the radiative exchange area
+    /// A_x in m² (grey surfaces; see `crate::laws`).
+    Radiation { exchange_area: f64 },
+    /// Q = S·∫ k(T) dT from T_to to T_from: conduction with a temperature-dependent
+    /// conductivity through a body whose geometry gives the conduction shape S in m.
+    Conduction { shape: f64, conductivity: crate::conductivity::Conductivity },
 }
 
 #[derive(Clone, Debug, Serialize)]
@@ -45,10 +51,12 @@ pub struct Link {
 }
 
 impl Link {
-    /// Conductance in W/K.
+    /// Conductance in W/K of a linear link; NaN for a nonlinear one, whose conductance depends
+    /// on its end temperatures (use `conductance_at` with solved temperatures).
     pub fn conductance(&self) -> f64 {
         match self.law {
             LinkLaw::Linear { conductance } => conductance,
+            _ => f64::NAN,
         }
     }
 }

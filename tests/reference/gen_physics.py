@@ -210,10 +210,120 @@ def shell_critical_radius_cable():
     return c
 
 
+# --------------------------------------------------------------------------- (2) radiation
+
+SIGMA = 5.670374419e-8  # exact SI value (CODATA 2018)
+SIGMA_HT = 5.670367e-8  # the older value ht/fluids use
+
+
+def q_rad_exact(eps, t, t2):
+    """ht.radiation.q_rad, rescaled from ht's Stefan–Boltzmann constant to the exact one."""
+    return ht.radiation.q_rad(eps, t, t2) * SIGMA / SIGMA_HT
+
+
+def grey_pair(e1, a1, e2, a2, f12):
+    """Exchange area of two grey diffuse surfaces (Incropera eq. 13.23, two-surface enclosure)."""
+    return 1.0 / ((1 - e1) / (e1 * a1) + 1 / (a1 * f12) + (1 - e2) / (e2 * a2))
+
+
+def radiation_bakery_oven_door():
+    c = case(
+        "radiation_bakery_oven_door",
+        "Bakery oven door window: convection and radiation on both faces",
+        "A glazed oven door: oven air and walls at 230 °C, kitchen at 24 °C; each glass face exchanges heat by a film and by grey radiation (to large surroundings inside, to a large room wall outside). Two free nodes, four nonlinear links, solved by Newton's method.",
+        [
+            f"ht {ht.__version__} ht.radiation.q_rad(ε, T, T2) = εσ(T⁴ − T2⁴), rescaled from ht's σ = 5.670367e-8 to the exact SI σ = 5.670374419e-8 W/(m²·K⁴)",
+            "grey two-surface exchange σ(T1⁴ − T2⁴)/[(1−ε1)/(ε1A1) + 1/(A1F12) + (1−ε2)/(ε2A2)] (Incropera et al., Fundamentals of Heat and Mass Transfer, Sec. 13.3)",
+            f"scipy {scipy.__version__} scipy.optimize.root (hybr) solves the two node balances; the generator checks the balances close to 1e-10 W",
+        ],
+    )
+    from scipy import optimize
+
+    t_oven, t_room = lit("230") + C0, lit("24") + C0
+    area = lit("0.35") * lit("0.25")
+    h_in, h_out, eps_glass, k_glass, thick = lit("15"), lit("7.5"), lit("0.92"), lit("1.0"), lit("8") * 1e-3
+    e_wall, a_wall, f_wall = lit("0.9"), lit("20"), lit("1")
+    ax_out = grey_pair(eps_glass, area, e_wall, a_wall, f_wall)
+
+    def balances(t):
+        ti, to = t
+        q_in = h_in * area * (t_oven - ti) + area * q_rad_exact(eps_glass, t_oven, ti)
+        q_glass = k_glass * area / thick * (ti - to)
+        q_out = h_out * area * (to - t_room) + SIGMA * ax_out * (to**4 - t_room**4)
+        return [q_in - q_glass, q_glass - q_out]
+
+    sol = optimize.root(balances, [400.0, 380.0], method="hybr", options={"xtol": 1e-14})
+    ti, to = sol.x
+    assert max(abs(b) for b in balances(sol.x)) < 1e-10, balances(sol.x)
+    q_glass = k_glass * area / thick * (ti - to)
+    c.temperature("glass_inner", ti - C0, "1e-7 K")
+    c.temperature("glass_outer", to - C0, "1e-7 K")
+    c.heat_flow("glass", q_glass, 1e-8)
+    c.heat_flow("radiant_in", area * q_rad_exact(eps_glass, t_oven, ti), 1e-8)
+    c.heat_flow("radiant_out", SIGMA * ax_out * (to**4 - t_room**4), 1e-8)
+    c.line("param pane = 0.35 m * 0.25 m")
+    c.line()
+    c.line("node oven        (fixed = 230 °C)")
+    c.line("node kitchen     (fixed = 24 °C)")
+    c.line("node glass_inner")
+    c.line("node glass_outer")
+    c.line()
+    c.line("link oven_film:   oven to glass_inner film(h = 15 W/(m^2*K), area = pane)")
+    c.line("link radiant_in:  oven to glass_inner radiation(emissivity = 0.92, area = pane)")
+    c.line("link glass:       glass_inner to glass_outer layer(k = 1.0 W/(m*K), thickness = 8 mm, area = pane)")
+    c.line("link room_film:   glass_outer to kitchen film(h = 7.5 W/(m^2*K), area = pane)")
+    c.line("link radiant_out: glass_outer to kitchen radiation(emissivity = 0.92, area = pane, emissivity_to = 0.9, area_to = 20 m^2, view_factor = 1)")
+    return c
+
+
+def radiation_enclosures():
+    c = case(
+        "radiation_enclosures",
+        "Radiation between fixed grey surfaces",
+        "Closed forms between fixed temperatures: a surface in large surroundings, two large parallel plates, a sphere inside a concentric sphere, and two plates that see each other only in part.",
+        [
+            f"ht {ht.__version__} ht.radiation.q_rad(ε, T, T2) (rescaled to the exact SI σ) for the surface in large surroundings",
+            "large parallel planes q = σ(T1⁴ − T2⁴)/(1/ε1 + 1/ε2 − 1); concentric spheres Q = σA1(T1⁴ − T2⁴)/[1/ε1 + (1−ε2)/ε2·(r1/r2)²] (Incropera et al., Table 13.3)",
+            "two-surface enclosure with view factor (Incropera eq. 13.23); reciprocity A1F12 = A2F21",
+        ],
+    )
+    t1, t2 = lit("450") + C0, lit("30") + C0
+    # (a) surface in large surroundings
+    q_a = lit("0.8") * q_rad_exact(lit("0.85"), t1, t2)
+    agree(q_a, SIGMA * lit("0.85") * lit("0.8") * (t1**4 - t2**4), 1e-12, "q_rad")
+    # (b) parallel planes, 2 m² each, F = 1
+    e1, e2, a = lit("0.7"), lit("0.4"), lit("2")
+    q_b = a * SIGMA * (t1**4 - t2**4) / (1 / e1 + 1 / e2 - 1)
+    agree(q_b, SIGMA * grey_pair(e1, a, e2, a, 1.0) * (t1**4 - t2**4), 1e-12, "parallel planes")
+    # (c) concentric spheres r1 = 0.1 m, r2 = 0.3 m
+    r1, r2, es1, es2 = lit("0.1"), lit("0.3"), lit("0.6"), lit("0.3")
+    a1, a2 = 4 * math.pi * r1**2, 4 * math.pi * r2**2
+    q_c = SIGMA * a1 * (t1**4 - t2**4) / (1 / es1 + (1 - es2) / es2 * (r1 / r2) ** 2)
+    agree(q_c, SIGMA * grey_pair(es1, a1, es2, a2, 1.0) * (t1**4 - t2**4), 1e-12, "concentric spheres")
+    # (d) two plates seeing each other in part
+    q_d = SIGMA * grey_pair(lit("0.9"), lit("1.5"), lit("0.8"), lit("3"), lit("0.35")) * (t1**4 - t2**4)
+    c.heat_flow("to_surroundings", q_a)
+    c.heat_flow("parallel_plates", q_b)
+    c.heat_flow("spheres", q_c)
+    c.heat_flow("partial_view", q_d)
+    c.heat_flow("reversed", -q_a)
+    c.line("node hot  (fixed = 450 °C)")
+    c.line("node cold (fixed = 30 °C)")
+    c.line()
+    c.line("link to_surroundings: hot to cold radiation(emissivity = 0.85, area = 0.8 m^2)")
+    c.line("link parallel_plates: hot to cold radiation(emissivity = 0.7, area = 2 m^2, emissivity_to = 0.4, area_to = 2 m^2, view_factor = 1)")
+    c.line("link spheres:         hot to cold radiation(emissivity = 0.6, area = 4 * pi * (0.1 m)^2, emissivity_to = 0.3, area_to = 4 * pi * (0.3 m)^2, view_factor = 1)")
+    c.line("link partial_view:    hot to cold radiation(emissivity = 0.9, area = 1.5 m^2, emissivity_to = 0.8, area_to = 3 m^2, view_factor = 0.35)")
+    c.line("link reversed:        cold to hot radiation(emissivity = 0.85, area = 0.8 m^2)")
+    return c
+
+
 CASES = [
     shell_brewery_steam_line,
     shell_hot_water_tank,
     shell_critical_radius_cable,
+    radiation_bakery_oven_door,
+    radiation_enclosures,
 ]
 
 

@@ -4,6 +4,7 @@
 //! [`ALL`]; the parser, checker, language server and docs pick it up from here.
 
 mod plane;
+pub mod radiation;
 pub mod shell;
 
 use crate::diagnostic::Diagnostic;
@@ -130,10 +131,16 @@ pub trait ElementKind: Sync {
         self.params().iter().any(|p| p.name == "area")
     }
     fn build(&self, args: &Args) -> Result<Built, Diagnostic>;
+    /// How the link's heat flow depends on its end temperatures. Most elements are linear with
+    /// the conductance `build` gives; radiation and k(T) conduction override this.
+    fn law(&self, args: &Args) -> Result<(crate::network::LinkLaw, Built), Diagnostic> {
+        let b = self.build(args)?;
+        Ok((crate::network::LinkLaw::Linear { conductance: b.conductance }, b))
+    }
 }
 
 /// Every element kind the language knows.
-pub static ALL: &[&dyn ElementKind] = &[&plane::Layer, &plane::Film, &plane::Contact, &plane::Resistance, &plane::Conductance, &shell::Cylinder, &shell::Sphere];
+pub static ALL: &[&dyn ElementKind] = &[&plane::Layer, &plane::Film, &plane::Contact, &plane::Resistance, &plane::Conductance, &shell::Cylinder, &shell::Sphere, &radiation::Radiation];
 
 pub fn lookup(name: &str) -> Option<&'static dyn ElementKind> {
     ALL.iter().copied().find(|k| k.name() == name)
