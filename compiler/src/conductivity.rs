@@ -107,3 +107,84 @@ mod tests {
         assert!((c.integral(273.15, 383.15) - want).abs() < 1e-12);
     }
 }
+
+/// Reading k(T) from a material declaration: `k = table(T₁, k₁, T₂, k₂, …)`, or `k` with
+/// `k_slope` and the temperature `k_at` where `k` holds.
+pub mod material_args {
+    use super::Conductivity;
+    use crate::diagnostic::Diagnostic;
+    use crate::span::Span;
+    use crate::syntax::{Expr, ExprKind, Ident};
+    use crate::units::Dim;
+
+    /// dk/dT: W/(m·K²).
+    pub const SLOPE_DIM: Dim = Dim::new(1, 1, -3, -2);
+
+    pub fn is_table(e: &Expr) -> bool {
+        matches!(&e.kind, ExprKind::Call { func, .. } if func.name == "table")
+    }
+
+    /// The k(T) pieces found among a material's arguments.
+    #[derive(Default)]
+    pub struct Parts {
+        pub slope: Option<(f64, Span)>,
+        pub at: Option<(f64, Span)>,
+        pub table: Option<Vec<(f64, f64)>>,
+    }
+
+    impl Parts {
+        /// The conductivity model, or `None` for a constant k.
+        pub fn model(&self, k: f64, material: &Ident) -> Result<Option<Conductivity>, Diagnostic> {
+            match (&self.table, self.slope, self.at) {
+                (None, None, None) => Ok(None),
+                (Some(points), None, None) => Ok(Some(Conductivity::Table { points: points.clone() })),
+                (Some(_), Some((_, s)), _) | (Some(_), None, Some((_, s))) => Err(Diagnostic::error(
+                    "E207",
+                    format!("material `{}` gives k as a table and as a slope", material.name),
+                    s,
+                )
+                .with_label("not with a table")
+                .with_help("a table already says how k changes with temperature; remove `k_slope` and `k_at`")),
+                (None, Some(_), None) => Err(Diagnostic::error("E203", format!("material `{}` gives `k_slope` without `k_at`", material.name), material.span)
+                    .with_label("`k_at` missing")
+                    .with_help("say at which temperature `k` holds, e.g. `k = 0.035 W/(m*K), k_slope = 1.6e-4 W/(m*K^2), k_at = 10 °C`")),
+                (None, None, Some((_, s))) => Err(Diagnostic::error("E203", format!("material `{}` gives `k_at` without `k_slope`", material.name), s)
+                    .with_label("`k_slope` missing")
+                    .with_help("add `k_slope = ... W/(m*K^2)` for a linear k(T), or remove `k_at` for a constant k")),
+                (None, Some((slope, _)), Some((at, _))) => Ok(Some(Conductivity::Linear { k_ref: k, slope, t_ref: at })),
+            }
+        }
+    }
+
+    /// E214 for a table that is not pairs of rising temperatures.
+    pub fn check_table(e: &Expr, n_args: usize, points: &[(f64, f64, Span)]) -> Option<Diagnostic> {
+        let help = "write `k = table(10 °C, 0.034 W/(m*K), 50 °C, 0.039 W/(m*K), 100 °C, 0.045 W/(m*K))`: pairs of a temperature and k, temperatures rising";
+        if n_args % 2 == 1 || n_args < 4 {
+            let msg = if n_args % 2 == 1 {
+                "a k(T) table needs pairs of a temperature and a conductivity"
+            } else {
+                "a k(T) table needs at least two points"
+            };
+            return Some(
+                Diagnostic::error("E214", msg, e.span)
+                    .with_label(format!("{n_args} values"))
+                    .with_help(help),
+            );
+        }
+        for w in points.windows(2) {
+            if w[1].0 <= w[0].0 {
+                return Some(
+                    Diagnostic::error(
+                        "E214",
+                        "the temperatures of a k(T) table must rise from point to point",
+                        w[1].2,
+                    )
+                    .with_label("not above the temperature before it")
+                    .with_secondary(w[0].2, "previous point")
+                    .with_help(help),
+                );
+            }
+        }
+        None
+    }
+}

@@ -9,6 +9,7 @@ use crate::elements::{self, shell, ArgType, ArgValue, Args, ElementKind, Materia
 use crate::eval::{expect_dim, expect_point, Evaluator, NameKinds};
 use crate::limits::{self, LimitSpec};
 use crate::radial::{self, UseArgs};
+use crate::conductivity::material_args as kt;
 use crate::network::{Group, Link, Network, Node, NodeId};
 use crate::source::Sources;
 use crate::span::Span;
@@ -341,6 +342,7 @@ impl<'a> Cx<'a> {
         let mut k = None;
         let mut density = None;
         let mut specific_heat = None;
+        let mut k_of_t = kt::Parts::default();
         let mut seen: HashMap<&str, Span> = HashMap::new();
         for arg in args {
             let Some(an) = &arg.name else {
@@ -356,6 +358,18 @@ impl<'a> Cx<'a> {
                 continue;
             }
             match an.name.as_str() {
+                "k" if kt::is_table(&arg.value) => {
+                    k = self.k_table(&arg.value, &mut k_of_t);
+                }
+                "k_slope" => k_of_t.slope = self.quantity(&arg.value, kt::SLOPE_DIM, "k_slope").map(|q| (q.value, arg.value.span)),
+                "k_at" => {
+                    if let Some(q) = self.quantity(&arg.value, Dim::TEMPERATURE, "k_at") {
+                        match expect_point(q, "k_at", &arg.value) {
+                            Ok(()) => k_of_t.at = Some((q.value, arg.value.span)),
+                            Err(d) => self.diags.push(d),
+                        }
+                    }
+                }
                 "k" => {
                     if let Some(q) = self.quantity(&arg.value, Dim::CONDUCTIVITY, "k") {
                         if self.positive(q.value, &arg.value, "k") {
@@ -371,7 +385,7 @@ impl<'a> Cx<'a> {
                         .filter(|q| self.positive(q.value, &arg.value, "specific_heat"))
                         .map(|q| q.value)
                 }
-                _ => self.unknown_arg(an, "a material", &["k", "density", "specific_heat"]),
+                _ => self.unknown_arg(an, "a material", &["k", "k_slope", "k_at", "density", "specific_heat"]),
             }
         }
         let Some(k) = k else {
@@ -385,7 +399,48 @@ impl<'a> Cx<'a> {
             return;
         };
         self.material_index.insert(name.name.clone(), self.materials.len());
-        self.materials.push(Material { name: name.name.clone(), span: name.span, k, density, specific_heat });
+        let conductivity = match k_of_t.model(k, name) {
+            Ok(c) => c,
+            Err(d) => {
+                self.diags.push(d);
+                return;
+            }
+        };
+        self.materials.push(Material { name: name.name.clone(), span: name.span, k, density, specific_heat, conductivity });
+    }
+
+    /// `k = table(T₁, k₁, T₂, k₂, …)`: evaluate and check the points; k at the first point is
+    /// the material's nominal k.
+    fn k_table(&mut self, e: &Expr, parts: &mut kt::Parts) -> Option<f64> {
+        let ExprKind::Call { args, .. } = &e.kind else { return None };
+        let mut points = Vec::new();
+        let mut ok = true;
+        for pair in args.chunks(2) {
+            let t = self.quantity(&pair[0], Dim::TEMPERATURE, "a table temperature");
+            let t = t.filter(|q| match expect_point(*q, "a table temperature", &pair[0]) {
+                Ok(()) => true,
+                Err(d) => {
+                    self.diags.push(d);
+                    false
+                }
+            });
+            let k = pair.get(1).and_then(|v| self.quantity(v, Dim::CONDUCTIVITY, "a table conductivity").filter(|q| self.positive(q.value, v, "k")));
+            match (t, k) {
+                (Some(t), Some(k)) => points.push((t.value, k.value, pair[0].span)),
+                _ => ok = false,
+            }
+        }
+        match kt::check_table(e, args.len(), &points) {
+            Some(d) => {
+                self.diags.push(d);
+                None
+            }
+            None if ok => {
+                parts.table = Some(points.iter().map(|p| (p.0, p.1)).collect());
+                Some(points[0].1)
+            }
+            None => None,
+        }
     }
 
     fn node_args(&mut self, name: &Ident, args: &[Arg]) -> (Option<f64>, f64) {

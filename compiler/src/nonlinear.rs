@@ -125,6 +125,13 @@ pub enum NewtonError {
     },
     /// A linear solve inside the iteration failed.
     Linear(SolveError),
+    /// A temperature-dependent conductivity falls to zero or below between the solved end
+    /// temperatures of this link.
+    NonPhysicalConductivity {
+        link: usize,
+        t_low: f64,
+        t_high: f64,
+    },
 }
 
 fn worst(residual: &[f64]) -> f64 {
@@ -149,6 +156,7 @@ pub fn solve_nonlinear(
     loop {
         let res = worst(&asm.residual);
         if res <= tolerance(&asm) || n == 0 {
+            check_conductivities(net, &t)?;
             return Ok((
                 Temperatures(t),
                 Convergence {
@@ -197,6 +205,7 @@ pub fn solve_nonlinear(
                 // Round-off floor: no step can reduce an imbalance that is already at the
                 // precision of the sums; accept it when it is tiny, otherwise fail loudly.
                 if res <= 1e-9 * asm.flow_scale {
+                    check_conductivities(net, &t)?;
                     return Ok((
                         Temperatures(t),
                         Convergence {
@@ -214,6 +223,23 @@ pub fn solve_nonlinear(
             }
         }
     }
+}
+
+/// A k(T) that reaches zero between a link's end temperatures makes the answer meaningless.
+fn check_conductivities(net: &Network, t: &[f64]) -> Result<(), NewtonError> {
+    for (i, l) in net.links.iter().enumerate() {
+        if let LinkLaw::Conduction { conductivity, .. } = &l.law {
+            let (lo, hi) = (t[l.from].min(t[l.to]), t[l.from].max(t[l.to]));
+            if conductivity.min_over(lo, hi) <= 0.0 {
+                return Err(NewtonError::NonPhysicalConductivity {
+                    link: i,
+                    t_low: lo,
+                    t_high: hi,
+                });
+            }
+        }
+    }
+    Ok(())
 }
 
 /// Start from the network linearised at the mean boundary temperature (its links' slopes there).
@@ -269,6 +295,21 @@ pub fn newton_failure(net: &Network, e: NewtonError) -> crate::Diagnostic {
             ),
             "no temperatures are reported; check the nonlinear links (emissivities, areas, k(T) tables) for values far from the rest of the network, or give fixed temperatures closer to the expected range",
         ),
+        NewtonError::NonPhysicalConductivity { link, t_low, t_high } => {
+            let l = &net.links[link];
+            return crate::Diagnostic::error(
+                "E503",
+                format!(
+                    "the conductivity of `{}` falls to zero or below between {:.2} °C and {:.2} °C, where the solve puts its two faces",
+                    l.name,
+                    t_low - 273.15,
+                    t_high - 273.15
+                ),
+                l.span,
+            )
+            .with_label("k(T) not positive over this link's temperatures")
+            .with_help("the linear k(T) is extrapolated beyond where it holds; use a `table(...)` of measured points (it holds its end values) or a smaller `k_slope`");
+        }
         NewtonError::Linear(_) => (
             "a linear solve inside the nonlinear iteration failed".to_string(),
             "check for conductances that are extremely small or large compared with the rest of the network",

@@ -85,3 +85,44 @@ proptest! {
         prop_assert!(sol.worst_residual <= 1e-9 * q0.abs());
     }
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(64))]
+    /// Fourier's law with the Kirchhoff transform: a slab whose k is linear in T carries exactly
+    /// the heat flow of k at the mean face temperature.
+    #[test]
+    fn linear_k_slab_equals_k_at_mean_temperature(
+        k0 in 0.02f64..5.0, slope_frac in -0.0015f64..0.003, t_at in -20.0f64..300.0,
+        t1 in -50.0f64..600.0, t2 in -50.0f64..600.0, thick in 0.005f64..0.5, area in 0.01f64..20.0,
+    ) {
+        let slope = slope_frac * k0;
+        // Keep k positive over the faces' range.
+        let k = |t: f64| k0 + slope * (t - t_at);
+        prop_assume!(k(t1) > 0.0 && k(t2) > 0.0);
+        let src = format!(
+            "material m (k = {k0} W/(m*K), k_slope = {slope} W/(m*K^2), k_at = {t_at} °C)\n\
+             node a (fixed = {t1} °C)\nnode b (fixed = {t2} °C)\nlink s: a to b layer(m, thickness = {thick} m, area = {area} m^2)\n"
+        );
+        let a = analyze("slab.heat", &src, &NoImports, &Options::default());
+        let sol = a.solution.as_ref().expect("solves");
+        let want = k(0.5 * (t1 + t2)) * area * (t1 - t2) / thick;
+        prop_assert!((sol.heat_flows[0] - want).abs() <= 1e-12 * want.abs().max(1e-9), "{} vs {want}", sol.heat_flows[0]);
+    }
+}
+
+#[test]
+fn conductivity_falling_to_zero_is_an_error() {
+    let src = "material odd (k = 0.05 W/(m*K), k_slope = -4e-4 W/(m*K^2), k_at = 0 °C)\n\
+               node hot (fixed = 300 °C)\nnode cold (fixed = 0 °C)\nnode mid\n\
+               link a: hot to mid layer(odd, thickness = 50 mm, area = 1 m^2)\n\
+               link b: mid to cold film(h = 5 W/(m^2*K), area = 1 m^2)\n";
+    let a = analyze("odd.heat", src, &NoImports, &Options::default());
+    assert!(a.solution.is_none());
+    assert!(
+        a.diagnostics
+            .iter()
+            .any(|d| d.code == "E503" || d.code == "E502"),
+        "{:?}",
+        a.diagnostics
+    );
+}

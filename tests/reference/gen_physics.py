@@ -318,12 +318,110 @@ def radiation_enclosures():
     return c
 
 
+# --------------------------------------------------------------------------- (3) k(T)
+
+def kt_linear_slab():
+    c = case(
+        "kt_linear_slab",
+        "Kiln wall with k rising linearly with temperature",
+        "Slabs with k(T) = k_at + k_slope·(T − T_at): between fixed faces the heat flow is exactly the one at k(mean temperature); in series with a film the face temperature comes from a nonlinear balance.",
+        [
+            "for linear k(T) a slab's heat flow is k at the mean face temperature × A·ΔT/L (Fourier's law with the Kirchhoff transform; Incropera et al., Sec. 3.1, variable conductivity)",
+            f"scipy {scipy.__version__} scipy.integrate.quad of k(T) over the face temperatures, checked against the closed form to 1e-12",
+            f"scipy {scipy.__version__} scipy.optimize.brentq for the face temperature of the slab in series with a film",
+        ],
+    )
+    from scipy import optimize
+
+    k_at, slope, t_at = lit("0.12"), lit("2.5e-4"), lit("20") + C0
+    kfun = lambda t: k_at + slope * (t - t_at)  # noqa: E731
+    area, thick = lit("1.8"), lit("115") * 1e-3
+    t_hot, t_cold = lit("900") + C0, lit("80") + C0
+    q_mean = kfun(0.5 * (t_hot + t_cold)) * area * (t_hot - t_cold) / thick
+    q_quad = area / thick * integrate.quad(kfun, t_cold, t_hot, epsabs=0, epsrel=1e-13)[0]
+    agree(q_mean, q_quad, 1e-12, "k at mean temperature")
+    c.heat_flow("brick_between_fixed", q_mean)
+    # In series with an outer film: unknown face temperature.
+    h, t_air = lit("12"), lit("25") + C0
+
+    def f(ts):
+        return area / thick * integrate.quad(kfun, ts, t_hot, epsabs=0, epsrel=1e-13)[0] - h * area * (ts - t_air)
+
+    ts = optimize.brentq(f, t_air, t_hot, xtol=1e-13, rtol=1e-15)
+    c.temperature("outer_face", ts - C0, "1e-8 K")
+    c.heat_flow("outer_film", h * area * (ts - t_air), 1e-9)
+    c.line("material insulating_brick (k = 0.12 W/(m*K), k_slope = 2.5e-4 W/(m*K^2), k_at = 20 °C)")
+    c.line()
+    c.line("node kiln       (fixed = 900 °C)")
+    c.line("node shell_side (fixed = 80 °C)")
+    c.line("node yard       (fixed = 25 °C)")
+    c.line("node outer_face")
+    c.line()
+    c.line("link brick_between_fixed: kiln to shell_side layer(insulating_brick, thickness = 115 mm, area = 1.8 m^2)")
+    c.line("link brick_to_air:        kiln to outer_face layer(insulating_brick, thickness = 115 mm, area = 1.8 m^2)")
+    c.line("link outer_film:          outer_face to yard film(h = 12 W/(m^2*K), area = 1.8 m^2)")
+    return c
+
+
+def kt_table_pipe_lagging():
+    c = case(
+        "kt_table_pipe_lagging",
+        "Hot-oil line with lagging whose k comes from a table",
+        "A cylindrical lagging layer whose k is given as (T, k) points, between a fixed pipe surface and an outer film: heat flow and the outer surface temperature.",
+        [
+            f"scipy {scipy.__version__} scipy.integrate.solve_ivp (DOP853, rtol 1e-12) shooting on the radial conduction equation (1/r)·d/dr(r·k(T)·dT/dr) = 0 with T(r1) fixed and −k·dT/dr = h·(T − T_air) at r2; agrees with the Kirchhoff value to 1e-8",
+            "Kirchhoff transform for a cylinder: Q = 2πL/ln(r2/r1) · ∫k dT (Incropera et al., Sec. 3.3 with variable k), evaluated by scipy.optimize.brentq and checked against the ODE solution",
+        ],
+    )
+    from scipy import optimize
+
+    pts = [(lit("0") + C0, lit("0.033")), (lit("100") + C0, lit("0.043")), (lit("200") + C0, lit("0.056")), (lit("300") + C0, lit("0.074"))]
+    ts_, ks_ = [p[0] for p in pts], [p[1] for p in pts]
+    kfun = lambda t: float(np.interp(t, ts_, ks_))  # noqa: E731 — holds the end values beyond the table
+    r1, r2, L = lit("57") * 1e-3, (lit("57") + lit("80")) * 1e-3, lit("10")
+    t_pipe, h, t_air = lit("280") + C0, lit("8"), lit("20") + C0
+    shape = 2 * math.pi * L / math.log(r2 / r1)
+
+    def kint(a, b):
+        brk = [a] + [t for t in ts_ if a < t < b] + [b]
+        return sum(integrate.quad(kfun, brk[i], brk[i + 1], epsabs=0, epsrel=1e-13)[0] for i in range(len(brk) - 1))
+
+    ts = optimize.brentq(lambda x: shape * kint(x, t_pipe) - h * 2 * math.pi * r2 * L * (x - t_air), t_air, t_pipe, xtol=1e-13, rtol=1e-15)
+    q = h * 2 * math.pi * r2 * L * (ts - t_air)
+
+    # Independent check: the ODE in r, dT/dr = C/(r·k(T)) with C = r·k·dT/dr constant,
+    # integrated outwards and shot on C until the outer film condition holds.
+    def outer_mismatch(cc):
+        sol = integrate.solve_ivp(lambda r, y: [cc / (r * kfun(y[0]))], (r1, r2), [t_pipe], method="DOP853", rtol=1e-12, atol=1e-12)
+        return -cc / r2 - h * (sol.y[0][-1] - t_air), sol.y[0][-1]
+
+    c_guess = -q / (2 * math.pi * L)
+    cc = optimize.brentq(lambda x: outer_mismatch(x)[0], 2 * c_guess, 0.5 * c_guess, xtol=1e-15, rtol=1e-14)
+    agree(outer_mismatch(cc)[1], ts, 1e-9, "outer surface temperature (ODE vs Kirchhoff)")
+    agree(-cc * 2 * math.pi * L, q, 1e-8, "heat flow (ODE vs Kirchhoff)")
+    c.heat_flow("line", q, 1e-9)
+    c.temperature("line.lagging", ts - C0, "1e-8 K")
+    c.line("material hot_oil_wool (k = table(0 °C, 0.033 W/(m*K), 100 °C, 0.043 W/(m*K), 200 °C, 0.056 W/(m*K), 300 °C, 0.074 W/(m*K)))")
+    c.line()
+    c.line("node pipe_surface (fixed = 280 °C)")
+    c.line("node plant_air    (fixed = 20 °C)")
+    c.line()
+    c.line("buildup oil_lagging {")
+    c.line("  lagging: cylinder(hot_oil_wool, thickness = 80 mm)")
+    c.line("  outside: film(h = 8 W/(m^2*K))")
+    c.line("}")
+    c.line("link line: pipe_surface to plant_air oil_lagging(inner_radius = 57 mm, length = 10 m)")
+    return c
+
+
 CASES = [
     shell_brewery_steam_line,
     shell_hot_water_tank,
     shell_critical_radius_cable,
     radiation_bakery_oven_door,
     radiation_enclosures,
+    kt_linear_slab,
+    kt_table_pipe_lagging,
 ]
 
 

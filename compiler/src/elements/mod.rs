@@ -23,6 +23,9 @@ pub struct Material {
     pub density: Option<f64>,
     /// J/(kg·K)
     pub specific_heat: Option<f64>,
+    /// k(T) when the conductivity depends on temperature; `k` is then its value at the
+    /// reference temperature (`k_at`) or at the table's first point.
+    pub conductivity: Option<crate::conductivity::Conductivity>,
 }
 
 #[derive(Clone, Copy, Debug, PartialEq)]

@@ -145,6 +145,11 @@ impl ElementKind for Cylinder {
             ),
         })
     }
+    fn law(&self, a: &Args) -> Result<(crate::network::LinkLaw, Built), Diagnostic> {
+        let b = self.build(a)?;
+        let shape = b.conductance / conductivity(a, "")?;
+        Ok(conduction_law(a, shape, b))
+    }
 }
 
 impl ElementKind for Sphere {
@@ -172,6 +177,11 @@ impl ElementKind for Sphere {
                 show(1.0 / g, Dim::RESISTANCE)
             ),
         })
+    }
+    fn law(&self, a: &Args) -> Result<(crate::network::LinkLaw, Built), Diagnostic> {
+        let b = self.build(a)?;
+        let shape = b.conductance / conductivity(a, "")?;
+        Ok(conduction_law(a, shape, b))
     }
 }
 
@@ -231,4 +241,33 @@ pub fn check_mixed(elements: &[crate::syntax::BuildupElement]) -> Option<Diagnos
         .with_secondary(a.element.kind.span, format!("`{}` here", a.element.kind.name))
         .with_help("a build-up is plane (`layer`), cylindrical (`cylinder`, around a pipe) or spherical (`sphere`, around a tank); split it into two build-ups"),
     )
+}
+
+/// The law of a conduction element with conduction shape S (m; A/L for a plane layer): linear
+/// with G = k·S for a constant k, or S·∫k dT when the material's k depends on temperature.
+pub fn conduction_law(a: &Args, shape: f64, built: Built) -> (crate::network::LinkLaw, Built) {
+    use crate::network::LinkLaw;
+    match a.material("material").and_then(|m| m.conductivity.clone()) {
+        Some(conductivity) => {
+            let formula = format!(
+                "Q = S·∫k(T)dT over the layer's two face temperatures (Kirchhoff transform), S = {}; k(T) of `{}`; at constant k: {}",
+                show(shape, Dim::LENGTH),
+                a.material("material").map(|m| m.name.as_str()).unwrap_or(""),
+                built.formula
+            );
+            (
+                LinkLaw::Conduction {
+                    shape,
+                    conductivity,
+                },
+                Built { formula, ..built },
+            )
+        }
+        None => (
+            LinkLaw::Linear {
+                conductance: built.conductance,
+            },
+            built,
+        ),
+    }
 }
