@@ -414,6 +414,88 @@ def kt_table_pipe_lagging():
     return c
 
 
+# --------------------------------------------------------------------------- (4) shape factors
+
+def image_line_sources_pipe_to_plane(d, z, n=720):
+    """Shape factor per length from a line source at depth a = sqrt(z² − R²) and its image sink
+    above the surface: the potential is zero on the surface and constant on the pipe (checked on
+    n points of its circle); S = 2π / (potential difference per unit source strength)."""
+    r = d / 2
+    a = math.sqrt(z * z - r * r)
+    th = np.linspace(0, 2 * np.pi, n, endpoint=False)
+    x, y = r * np.cos(th), -z + r * np.sin(th)
+    phi = np.log(np.hypot(x, y - a) / np.hypot(x, y + a))  # sink above at +a, source below at −a
+    assert np.ptp(phi) < 1e-12 * abs(phi.mean()), "circle is not an equipotential"
+    return 2 * math.pi / abs(phi.mean())
+
+
+def image_line_sources_two_cylinders(d1, d2, w, n=720):
+    """Two line sources ±1 placed so both circles are equipotentials (Apollonius circles), found
+    with scipy.optimize.fsolve; S per length = 2π/ΔΦ."""
+    from scipy import optimize
+
+    r1, r2 = d1 / 2, d2 / 2
+
+    def phi(x, y, s1, s2):
+        return np.log(np.hypot(x - s2, y) / np.hypot(x - s1, y))
+
+    def spread(p):
+        s1, s2 = p
+        out = []
+        for cx, r in ((0.0, r1), (w, r2)):
+            th = np.linspace(0, 2 * np.pi, 8, endpoint=False)
+            v = phi(cx + r * np.cos(th), r * np.sin(th), s1, s2)
+            out.append(v[0] - v[4])
+        return out
+
+    s1, s2 = optimize.fsolve(spread, [r1 * 0.2, w - r2 * 0.2], xtol=1e-13)
+    th = np.linspace(0, 2 * np.pi, n, endpoint=False)
+    p1 = phi(r1 * np.cos(th), r1 * np.sin(th), s1, s2)
+    p2 = phi(w + r2 * np.cos(th), r2 * np.sin(th), s1, s2)
+    assert np.ptp(p1) < 1e-9 and np.ptp(p2) < 1e-9, "circles are not equipotentials"
+    return 2 * math.pi / abs(p1.mean() - p2.mean())
+
+
+def shape_factor_buried_services():
+    c = case(
+        "shape_factor_buried_services",
+        "Buried services of a garden-centre greenhouse",
+        "Conduction shape factors between fixed temperatures: a heating pipe under the lawn, a buried water tank, and flow and return pipes side by side in a concrete duct.",
+        [
+            f"ht {ht.__version__} ht.conduction.S_isothermal_pipe_to_plane, S_isothermal_sphere_to_plane, S_isothermal_pipe_to_isothermal_pipe (Incropera et al., Table 4.1)",
+            "method of images with numpy: line source and sink placed so the pipe circle (and the second pipe) are equipotentials, S = 2π/ΔΦ per metre; agrees with the arccosh forms to 1e-9 (checked by the generator)",
+            "sphere in an infinite medium S = 2πD (Incropera Table 4.1) as the deep limit of the buried sphere, checked by the generator",
+        ],
+    )
+    k_soil, k_conc = lit("1.3"), lit("1.4")
+    d, z, L = lit("0.16"), lit("0.9"), lit("35")
+    s_pipe = ht.conduction.S_isothermal_pipe_to_plane(d, z, L)
+    agree(s_pipe, L * image_line_sources_pipe_to_plane(d, z), 1e-9, "buried pipe (images)")
+    ds, zs = lit("1.6"), lit("2.2")
+    s_sph = ht.conduction.S_isothermal_sphere_to_plane(ds, zs)
+    assert abs(ht.conduction.S_isothermal_sphere_to_plane(ds, 1e9) / (2 * math.pi * ds) - 1) < 1e-8
+    d1, d2, w, L2 = lit("0.09"), lit("0.075"), lit("0.25"), lit("18")
+    s_pair = ht.conduction.S_isothermal_pipe_to_isothermal_pipe(d1, d2, w, L2)
+    agree(s_pair, L2 * image_line_sources_two_cylinders(d1, d2, w), 1e-9, "two cylinders (images)")
+    t_pipe, t_lawn, t_tank, t_flow, t_ret = lit("55"), lit("4"), lit("12"), lit("70"), lit("40")
+    c.heat_flow("heating_pipe", k_soil * s_pipe * (t_pipe - t_lawn))
+    c.heat_flow("water_tank", k_soil * s_sph * (t_tank - t_lawn))
+    c.heat_flow("flow_to_return", k_conc * s_pair * (t_flow - t_ret))
+    c.line("material garden_soil (k = 1.3 W/(m*K))   # moist loam, typical value, from memory")
+    c.line("material duct_concrete (k = 1.4 W/(m*K)) # typical value, from memory")
+    c.line()
+    c.line("node pipe_wall (fixed = 55 °C)")
+    c.line("node lawn      (fixed = 4 °C)")
+    c.line("node tank_wall (fixed = 12 °C)")
+    c.line("node flow      (fixed = 70 °C)")
+    c.line("node return    (fixed = 40 °C)")
+    c.line()
+    c.line("link heating_pipe:   pipe_wall to lawn buried_pipe(garden_soil, diameter = 160 mm, depth = 0.9 m, length = 35 m)")
+    c.line("link water_tank:     tank_wall to lawn buried_sphere(garden_soil, diameter = 1.6 m, depth = 2.2 m)")
+    c.line("link flow_to_return: flow to return parallel_cylinders(duct_concrete, diameter = 90 mm, diameter_to = 75 mm, spacing = 250 mm, length = 18 m)")
+    return c
+
+
 CASES = [
     shell_brewery_steam_line,
     shell_hot_water_tank,
@@ -422,6 +504,7 @@ CASES = [
     radiation_enclosures,
     kt_linear_slab,
     kt_table_pipe_lagging,
+    shape_factor_buried_services,
 ]
 
 

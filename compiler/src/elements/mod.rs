@@ -5,6 +5,7 @@
 
 mod plane;
 pub mod radiation;
+pub mod shape_factor;
 pub mod shell;
 
 use crate::diagnostic::Diagnostic;
@@ -143,7 +144,11 @@ pub trait ElementKind: Sync {
 }
 
 /// Every element kind the language knows.
-pub static ALL: &[&dyn ElementKind] = &[&plane::Layer, &plane::Film, &plane::Contact, &plane::Resistance, &plane::Conductance, &shell::Cylinder, &shell::Sphere, &radiation::Radiation];
+pub static ALL: &[&dyn ElementKind] = &[&plane::Layer, &plane::Film, &plane::Contact, &plane::Resistance, &plane::Conductance, &shell::Cylinder, &shell::Sphere, &radiation::Radiation,
+    &shape_factor::BuriedPipe,
+    &shape_factor::BuriedSphere,
+    &shape_factor::ParallelCylinders,
+];
 
 pub fn lookup(name: &str) -> Option<&'static dyn ElementKind> {
     ALL.iter().copied().find(|k| k.name() == name)
