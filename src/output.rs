@@ -83,6 +83,15 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
         out.push_str(&format!("Build-ups (films included)\n{t}\n\n"));
     }
 
+    if !net.figures.is_empty() {
+        let mut t = new_table(&["link", "figure", "value"]);
+        for f in &net.figures {
+            t.add_row(vec![Cell::new(&net.links[f.link].name), Cell::new(f.name), Cell::new(format!("{:.4}", f.value))]);
+        }
+        right(&mut t, &[2]);
+        out.push_str(&format!("Element figures (dimensionless)\n{t}\n\n"));
+    }
+
     let mut t = new_table(&["boundary", "heat delivered"]);
     for &(i, q) in &sol.boundary_heat {
         t.add_row(vec![Cell::new(&net.nodes[i].name), Cell::new(power(q))]);
@@ -166,6 +175,7 @@ pub fn json(a: &Analysis) -> String {
                 "heat_flux_W_per_m2": l.area.and_then(|a| q.map(|q| q / a)),
                 "buildup_use": l.group.map(|g| net.groups[g].name.clone()),
                 "formula": l.formula,
+                "figures": net.figures.iter().filter(|f| f.link == i).map(|f| (f.name.to_string(), json!(f.value))).collect::<serde_json::Map<String, Value>>(),
             })
         })
         .collect();

@@ -10,7 +10,7 @@ use crate::eval::{expect_dim, expect_point, Evaluator, NameKinds};
 use crate::limits::{self, LimitSpec};
 use crate::radial::{self, UseArgs};
 use crate::conductivity::material_args as kt;
-use crate::network::{Group, Link, Network, Node, NodeId};
+use crate::network::{Group, Link, LinkFigure, Network, Node, NodeId};
 use crate::source::Sources;
 use crate::span::Span;
 use crate::symbols::{Symbol, SymbolKind, SymbolTable};
@@ -192,7 +192,8 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             cx.symbols.add_ref(&element.kind.name, element.kind.span);
             cx.buildup_link(&mut net, &node_index, name, a, b, element, els);
         } else if let Some(kind) = elements::lookup(&element.kind.name) {
-            let built = cx.args(kind, &element.args, element.span, &[]).and_then(|args| match kind.law(&args) {
+            let args = cx.args(kind, &element.args, element.span, &[]);
+            let built = args.as_ref().and_then(|args| match kind.law(args) {
                 Ok(b) => Some(b),
                 Err(d) => {
                     cx.diags.push(d);
@@ -200,6 +201,10 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
                 }
             });
             if let (Some(a), Some(b), Some((law, built))) = (a, b, built) {
+                if let Some(args) = &args {
+                    cx.diags.extend(kind.warnings(args));
+                    net.figures.extend(kind.figures(args).into_iter().map(|(n, v)| LinkFigure { link: net.links.len(), name: n, value: v }));
+                }
                 net.links.push(Link {
                     name: name.name.clone(),
                     span: item.span,
@@ -687,6 +692,10 @@ impl<'a> Cx<'a> {
             chain.advance(i, kind, e.element.span, args.as_ref(), built.as_ref().map(|b| &b.1));
             match (prev, next, built) {
                 (Some(a), Some(b), Some((law, built))) => {
+                    if let Some(args) = &args {
+                        self.diags.extend(kind.warnings(args));
+                        net.figures.extend(kind.figures(args).into_iter().map(|(n, v)| LinkFigure { link: net.links.len(), name: n, value: v }));
+                    }
                     links.push(net.links.len());
                     net.links.push(Link {
                         name: format!("{}.{}", name.name, e.name.name),

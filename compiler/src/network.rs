@@ -78,6 +78,16 @@ pub struct Network {
     pub nodes: Vec<Node>,
     pub links: Vec<Link>,
     pub groups: Vec<Group>,
+    /// Named dimensionless figures of links (a fin's efficiency), for reports.
+    pub figures: Vec<LinkFigure>,
+}
+
+/// A named figure of one link, such as `fin_efficiency`.
+#[derive(Clone, Debug, Serialize)]
+pub struct LinkFigure {
+    pub link: LinkId,
+    pub name: &'static str,
+    pub value: f64,
 }
 
 impl Network {

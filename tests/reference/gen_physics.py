@@ -496,6 +496,83 @@ def shape_factor_buried_services():
     return c
 
 
+# --------------------------------------------------------------------------- (5) fins
+
+def fin_closed_form(k, h, ac, p, L, tip_h=None):
+    """Incropera et al., Table 3.4: fin heat rate per kelvin of base excess temperature."""
+    m = math.sqrt(h * p / (k * ac))
+    M = math.sqrt(h * p * k * ac)
+    if tip_h is None:
+        return M * math.tanh(m * L)
+    r = tip_h / (m * k)
+    return M * (math.sinh(m * L) + r * math.cosh(m * L)) / (math.cosh(m * L) + r * math.sinh(m * L))
+
+
+def fin_ode(k, h, ac, p, L, tip_h=None):
+    """scipy.integrate.solve_bvp of k·A_c·θ'' = h·P·θ, θ(0) = 1, and at the tip θ' = 0 or
+    −k·θ' = h_tip·θ; heat rate −k·A_c·θ'(0)."""
+    m2 = h * p / (k * ac)
+    x = np.linspace(0, L, 50)
+
+    def bc(ya, yb):
+        tip = yb[1] if tip_h is None else k * yb[1] + tip_h * yb[0]
+        return np.array([ya[0] - 1.0, tip])
+
+    sol = integrate.solve_bvp(lambda x, y: np.vstack([y[1], m2 * y[0]]), bc, x, np.vstack([np.ones_like(x), np.zeros_like(x)]), tol=1e-10, max_nodes=100000)
+    assert sol.success, sol.message
+    return -k * ac * sol.sol(0.0)[1]
+
+
+def fin_charger_heatsink():
+    c = case(
+        "fin_charger_heatsink",
+        "Battery-box charger heat sink: straight and pin fins",
+        "Fins from a fixed base to fixed air: straight rectangular and pin, adiabatic and convective tips, one link of 14 fins in parallel, and a fin on a loaded free node.",
+        [
+            "fin heat rate, Incropera et al., Fundamentals of Heat and Mass Transfer, Table 3.4 (cases A: convective tip, B: adiabatic tip), m = √(hP/(kA_c))",
+            f"scipy {scipy.__version__} scipy.integrate.solve_bvp of the fin equation k·A_c·θ'' = h·P·θ with each tip condition; agrees with Table 3.4 to 1e-7 (checked by the generator)",
+            "energy balance: the charger's load leaves through the fins and the base plate's film",
+        ],
+    )
+    k_al, h = lit("205"), lit("22")
+    t_base, t_air = lit("65"), lit("30")
+    fins = {}
+    # straight: t = 1.2 mm, w = 45 mm, L = 28 mm
+    t, w, L = lit("1.2") * 1e-3, lit("45") * 1e-3, lit("28") * 1e-3
+    fins["straight_adiabatic"] = (k_al, h, t * w, 2 * (w + t), L, None)
+    fins["straight_tip"] = (k_al, h, t * w, 2 * (w + t), L, lit("30"))
+    d, Lp = lit("3") * 1e-3, lit("25") * 1e-3
+    fins["pin_adiabatic"] = (lit("16"), lit("40"), math.pi * d * d / 4, math.pi * d, Lp, None)
+    fins["pin_tip"] = (lit("16"), lit("40"), math.pi * d * d / 4, math.pi * d, Lp, lit("40"))
+    for name, args in fins.items():
+        g = fin_closed_form(*args)
+        agree(g, fin_ode(*args), 1e-7, name)
+        c.heat_flow(name, g * (t_base - t_air))
+    g_row = 14 * fin_closed_form(*fins["straight_adiabatic"])
+    c.heat_flow("row_of_fins", g_row * (t_base - t_air))
+    # A loaded free node: P leaves through 14 fins and a base-plate film.
+    p_load, g_plate = lit("18"), lit("6") * lit("0.012")
+    t_node = t_air + p_load / (g_row + g_plate)
+    c.temperature("charger_plate", t_node)
+    c.heat_flow("plate_fins", g_row * (t_node - t_air))
+    c.line("material aluminium_6063 (k = 205 W/(m*K))   # typical value, from memory")
+    c.line("material stainless_pin  (k = 16 W/(m*K))    # typical value, from memory")
+    c.line()
+    c.line("node base  (fixed = 65 °C)")
+    c.line("node air   (fixed = 30 °C)")
+    c.line("node charger_plate (load = 18 W)")
+    c.line()
+    c.line("link straight_adiabatic: base to air fin(aluminium_6063, length = 28 mm, thickness = 1.2 mm, width = 45 mm, h = 22 W/(m^2*K))")
+    c.line("link straight_tip:       base to air fin(aluminium_6063, length = 28 mm, thickness = 1.2 mm, width = 45 mm, h = 22 W/(m^2*K), tip_h = 30 W/(m^2*K))")
+    c.line("link pin_adiabatic:      base to air fin(stainless_pin, length = 25 mm, diameter = 3 mm, h = 40 W/(m^2*K))")
+    c.line("link pin_tip:            base to air fin(stainless_pin, length = 25 mm, diameter = 3 mm, h = 40 W/(m^2*K), tip_h = 40 W/(m^2*K))")
+    c.line("link row_of_fins:        base to air fin(aluminium_6063, length = 28 mm, thickness = 1.2 mm, width = 45 mm, h = 22 W/(m^2*K), count = 14)")
+    c.line()
+    c.line("link plate_fins: charger_plate to air fin(aluminium_6063, length = 28 mm, thickness = 1.2 mm, width = 45 mm, h = 22 W/(m^2*K), count = 14)")
+    c.line("link plate_film: charger_plate to air film(h = 6 W/(m^2*K), area = 0.012 m^2)")
+    return c
+
+
 CASES = [
     shell_brewery_steam_line,
     shell_hot_water_tank,
@@ -505,6 +582,7 @@ CASES = [
     kt_linear_slab,
     kt_table_pipe_lagging,
     shape_factor_buried_services,
+    fin_charger_heatsink,
 ]
 
 

@@ -4,6 +4,7 @@
 //! [`ALL`]; the parser, checker, language server and docs pick it up from here.
 
 mod plane;
+pub mod fin;
 pub mod radiation;
 pub mod shape_factor;
 pub mod shell;
@@ -141,6 +142,14 @@ pub trait ElementKind: Sync {
         let b = self.build(args)?;
         Ok((crate::network::LinkLaw::Linear { conductance: b.conductance }, b))
     }
+    /// Named dimensionless figures of a use, for reports (a fin's efficiency, ...).
+    fn figures(&self, _args: &Args) -> Vec<(&'static str, f64)> {
+        Vec::new()
+    }
+    /// Warnings about a use whose arguments are valid but outside where the formula holds well.
+    fn warnings(&self, _args: &Args) -> Vec<Diagnostic> {
+        Vec::new()
+    }
 }
 
 /// Every element kind the language knows.
@@ -148,6 +157,7 @@ pub static ALL: &[&dyn ElementKind] = &[&plane::Layer, &plane::Film, &plane::Con
     &shape_factor::BuriedPipe,
     &shape_factor::BuriedSphere,
     &shape_factor::ParallelCylinders,
+    &fin::Fin,
 ];
 
 pub fn lookup(name: &str) -> Option<&'static dyn ElementKind> {
