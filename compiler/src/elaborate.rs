@@ -168,6 +168,12 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
                         parent: Some(name.name.clone()),
                     });
                 }
+            } else if let Some(kind) = elements::lookup(&element.kind.name) {
+                for suffix in kind.internal_nodes() {
+                    let gen = format!("{}.{suffix}", name.name);
+                    net.nodes.push(Node { name: gen.clone(), span: name.span, fixed: None, load: 0.0, generated: true });
+                    cx.symbols.symbols.push(Symbol { name: gen, kind: SymbolKind::GeneratedNode, def: name.span, decl: item.span, refs: Vec::new(), parent: Some(name.name.clone()) });
+                }
             }
         }
     }
@@ -204,6 +210,17 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
                 if let Some(args) = &args {
                     cx.diags.extend(kind.warnings(args));
                     net.figures.extend(kind.figures(args).into_iter().map(|(n, v)| LinkFigure { link: net.links.len(), name: n, value: v }));
+                    match kind.expand(args) {
+                        Ok(Some(x)) => {
+                            cx.diags.extend(elements::expand_into(&mut net, &node_index, name, item.span, a, b, kind, x));
+                            continue;
+                        }
+                        Ok(None) => {}
+                        Err(d) => {
+                            cx.diags.push(d);
+                            continue;
+                        }
+                    }
                 }
                 net.links.push(Link {
                     name: name.name.clone(),
@@ -766,6 +783,13 @@ pub fn check_buildup_kinds(module: &Module) -> Vec<Diagnostic> {
                 );
             }
             out.extend(shell::check_mixed(els));
+            for e in els.iter().filter(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| !k.single_link())) {
+                out.push(
+                    Diagnostic::error("E217", format!("`{}` cannot be an element of a build-up", e.element.kind.name), e.element.kind.span)
+                        .with_label("makes its own nodes and heat")
+                        .with_help("declare it as a link of its own between the two nodes it joins"),
+                );
+            }
             for e in els {
                 if elements::lookup(&e.element.kind.name).is_none() {
                     let names = elements::ALL.iter().map(|k| k.name());

@@ -573,6 +573,91 @@ def fin_charger_heatsink():
     return c
 
 
+# --------------------------------------------------------------------------- (6) generation
+
+def generation_curing_wall():
+    c = case(
+        "generation_curing_wall",
+        "Curing concrete wall: hydration heat between two films",
+        "A freshly cast wall with uniform hydration heat q̇, a warm heated enclosure on one side and winter air on the other: midplane temperature, both face temperatures and both face heat flows.",
+        [
+            "plane wall with uniform generation, T(x) = T1 + (T2 − T1)x/L + q̇x(L − x)/(2k) (Incropera et al., Sec. 3.5.1, eq. 3.41 with unequal faces)",
+            f"scipy {scipy.__version__} scipy.integrate.solve_bvp of k·T'' = −q̇ with a film (Robin) condition at each face; agrees with the closed form to 1e-8 (checked by the generator)",
+        ],
+    )
+    k, L, A, qv = lit("1.6"), lit("0.3"), lit("6"), lit("900")
+    h1, t1 = lit("8"), lit("18") + C0
+    h2, t2 = lit("15"), lit("-5") + C0
+    # Closed form: the two face temperatures solve a 2×2 linear system.
+    g, p = k * A / L, qv * A * L
+    mat = np.array([[h1 * A + g, -g], [-g, h2 * A + g]])
+    rhs = np.array([h1 * A * t1 + p / 2, h2 * A * t2 + p / 2])
+    ta, tb = np.linalg.solve(mat, rhs)
+    tc = 0.5 * (ta + tb) + qv * L * L / (8 * k)
+    q_a = h1 * A * (ta - t1)  # heat leaving through face a to the enclosure
+    q_b = h2 * A * (tb - t2)
+
+    def bc(ya, yb):
+        return np.array([k * ya[1] - h1 * (ya[0] - t1), -k * yb[1] - h2 * (yb[0] - t2)])
+
+    x = np.linspace(0, L, 41)
+    sol = integrate.solve_bvp(lambda x, y: np.vstack([y[1], -qv / k * np.ones_like(x)]), bc, x, np.vstack([np.full_like(x, 290.0), np.zeros_like(x)]), tol=1e-10)
+    assert sol.success
+    agree(sol.sol(0.0)[0], ta, 1e-9, "face a")
+    agree(sol.sol(L)[0], tb, 1e-9, "face b")
+    agree(sol.sol(L / 2)[0], tc, 1e-9, "midplane")
+    c.temperature("wall.centre", tc - C0)
+    c.temperature("face_in", ta - C0)
+    c.temperature("face_out", tb - C0)
+    c.heat_flow("enclosure_film", q_a)
+    c.heat_flow("winter_film", q_b)
+    c.line("material young_concrete (k = 1.6 W/(m*K))")
+    c.line()
+    c.line("node enclosure (fixed = 18 °C)")
+    c.line("node winter    (fixed = -5 °C)")
+    c.line("node face_in")
+    c.line("node face_out")
+    c.line()
+    c.line("link wall:           face_in to face_out heated_slab(young_concrete, thickness = 300 mm, area = 6 m^2, q = 900 W/m^3)")
+    c.line("link enclosure_film: face_in to enclosure film(h = 8 W/(m^2*K), area = 6 m^2)")
+    c.line("link winter_film:    face_out to winter film(h = 15 W/(m^2*K), area = 6 m^2)")
+    return c
+
+
+def generation_heater_rod():
+    c = case(
+        "generation_heater_rod",
+        "Immersion heater element: centre temperature of a solid rod",
+        "A solid rod with uniform generation (given as total power) in water, and a second stated by q̇ between fixed axis-free and surface temperatures: the centre temperature.",
+        [
+            "solid cylinder with uniform generation: T(0) − T(r0) = q̇r0²/(4k) (Incropera et al., Sec. 3.5.2, eq. 3.53)",
+            f"scipy {scipy.__version__} scipy.integrate.quad of Fourier's law with the enclosed heat, dT/dr = −q̇r/(2k), from the axis to the surface (checked by the generator)",
+            "Newton's law of cooling at the surface, area 2πr0L",
+        ],
+    )
+    k, r0, L, power, h, tw = lit("15"), lit("4") * 1e-3, lit("0.45"), lit("1800"), lit("3000"), lit("60") + C0
+    qv = power / (math.pi * r0 * r0 * L)
+    rise = qv * r0 * r0 / (4 * k)
+    agree(rise, integrate.quad(lambda r: qv * r / (2 * k), 0, r0, epsabs=0, epsrel=1e-13)[0], 1e-12, "rod rise")
+    ts = tw + power / (h * 2 * math.pi * r0 * L)
+    c.temperature("element_axis", ts + rise - C0)
+    c.temperature("element_skin", ts - C0)
+    k2, r2, qv2 = lit("20"), lit("2.5") * 1e-3, lit("5e7")
+    c.temperature("probe_axis", lit("150") + qv2 * r2 * r2 / (4 * k2))
+    c.line("material heater_core (k = 15 W/(m*K))   # compacted magnesia with its wire, typical value, from memory")
+    c.line()
+    c.line("node element_axis")
+    c.line("node element_skin")
+    c.line("node water (fixed = 60 °C)")
+    c.line("node probe_axis")
+    c.line("node probe_skin (fixed = 150 °C)")
+    c.line()
+    c.line("link element: element_axis to element_skin heated_rod(heater_core, radius = 4 mm, length = 0.45 m, power = 1.8 kW)")
+    c.line("link boiling: element_skin to water film(h = 3000 W/(m^2*K), area = 2 * pi * 4 mm * 0.45 m)")
+    c.line("link probe:   probe_axis to probe_skin heated_rod(k = 20 W/(m*K), radius = 2.5 mm, length = 0.1 m, q = 5e7 W/m^3)")
+    return c
+
+
 CASES = [
     shell_brewery_steam_line,
     shell_hot_water_tank,
@@ -583,6 +668,8 @@ CASES = [
     kt_table_pipe_lagging,
     shape_factor_buried_services,
     fin_charger_heatsink,
+    generation_curing_wall,
+    generation_heater_rod,
 ]
 
 
