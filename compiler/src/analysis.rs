@@ -60,11 +60,17 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     let mut modules = Vec::new();
     load_module(root, &mut sources, loader, &mut modules, &mut diagnostics, &mut vec![name.to_string()]);
     let module_refs: Vec<&Module> = modules.iter().map(|(_, m)| m).collect();
+    // Repetitions and sub-network uses become plain declarations; the parsed modules stay as
+    // written for the editor.
+    let expanded = crate::expand::expand_modules(&module_refs, &options.overrides);
+    diagnostics.extend(expanded.diags);
+    let module_refs: Vec<&Module> = expanded.modules.iter().collect();
     for m in &module_refs {
         diagnostics.extend(check_buildup_kinds(m));
     }
     let el = elaborate(&module_refs, &sources, &options.overrides);
     diagnostics.extend(el.diags);
+    crate::expand::dedup_copies(&mut diagnostics, &expanded.bodies);
     diagnostics.sort_by_key(|d| (d.primary.span.file, d.primary.span.start, d.severity));
     diagnostics.dedup_by(|a, b| a.primary.span == b.primary.span && a.message == b.message);
     let mut analysis = Analysis {

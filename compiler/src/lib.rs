@@ -11,6 +11,7 @@ pub mod diagnostic;
 pub mod elaborate;
 pub mod elements;
 pub mod eval;
+pub mod expand;
 pub mod laws;
 pub mod lexer;
 pub mod limits;

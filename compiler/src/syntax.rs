@@ -95,6 +95,15 @@ pub enum ItemKind {
     Link { name: Ident, from: Ident, to: Ident, element: ElementCall },
     Buildup { name: Ident, elements: Vec<BuildupElement> },
     Limit { name: Ident, measure: Ident, subject: Ident, op: CmpOp, value: Expr },
+    /// `repeat NAME (count = N, first = NODE) { declarations }`: N copies of the body, copy i's
+    /// names prefixed `NAME.i.` (see `crate::expand`).
+    Repeat { name: Ident, args: Vec<Arg>, body: Vec<Item> },
+    /// `network NAME (PORT, ...) { declarations }`: a reusable sub-network; ports are the nodes
+    /// a use connects, `param`s in the body are defaults a use may replace.
+    Network { name: Ident, ports: Vec<Ident>, body: Vec<Item> },
+    /// `use NAME: NETWORK(PORT = NODE, PARAM = VALUE, ...)`: one copy of a sub-network, its
+    /// names prefixed `NAME.`.
+    Use { name: Ident, network: Ident, args: Vec<Arg> },
 }
 
 /// A top-level declaration.
@@ -114,7 +123,10 @@ impl Item {
             | ItemKind::Node { name, .. }
             | ItemKind::Link { name, .. }
             | ItemKind::Buildup { name, .. }
-            | ItemKind::Limit { name, .. } => Some(name),
+            | ItemKind::Limit { name, .. }
+            | ItemKind::Repeat { name, .. }
+            | ItemKind::Network { name, .. }
+            | ItemKind::Use { name, .. } => Some(name),
         }
     }
 }
