@@ -92,6 +92,19 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
         out.push_str(&format!("Element figures (dimensionless)\n{t}\n\n"));
     }
 
+    for r in &net.regions {
+        let field = r.field(&sol.temperatures, &sol.heat_flows);
+        let (lo, hi) = field.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), c| (lo.min(c.temperature_k), hi.max(c.temperature_k)));
+        out.push_str(&format!(
+            "Region {}: {} × {} cells, {} to {} (the field and heat flux vectors are in the JSON output)\n\n",
+            r.name,
+            r.nx,
+            r.ny,
+            temp(lo),
+            temp(hi)
+        ));
+    }
+
     let mut t = new_table(&["boundary", "heat delivered"]);
     for &(i, q) in &sol.boundary_heat {
         t.add_row(vec![Cell::new(&net.nodes[i].name), Cell::new(power(q))]);
@@ -227,6 +240,10 @@ pub fn json(a: &Analysis) -> String {
         "buildups": groups,
         "limits": limits,
         "balance": sol.map(|s| json!({"worst_residual_W": s.worst_residual})),
+        "regions": net.regions.iter().map(|r| json!({
+            "name": r.name, "cells_x": r.nx, "cells_y": r.ny, "width_m": r.width, "height_m": r.height, "thickness_m": r.thickness,
+            "cells": sol.map(|s| r.field(&s.temperatures, &s.heat_flows)),
+        })).collect::<Vec<Value>>(),
         "nonlinear_solve": sol.and_then(|s| s.convergence.as_ref()).map(|c| json!({"method": c.method, "iterations": c.iterations, "final_residual_W": c.final_residual})),
         "diagnostics": diagnostics,
         "caution": CAUTION,

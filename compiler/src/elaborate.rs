@@ -9,6 +9,7 @@ use crate::elements::{self, shell, ArgType, ArgValue, Args, ElementKind, Materia
 use crate::eval::{expect_dim, expect_point, Evaluator, NameKinds};
 use crate::limits::{self, LimitSpec};
 use crate::radial::{self, UseArgs};
+use crate::region;
 use crate::conductivity::material_args as kt;
 use crate::network::{Group, Link, LinkFigure, Network, Node, NodeId};
 use crate::source::Sources;
@@ -48,7 +49,7 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     let mut items: Vec<&Item> = Vec::new();
     for (i, m) in modules.iter().enumerate() {
         for item in &m.items {
-            if i > 0 && matches!(item.kind, ItemKind::Node { .. } | ItemKind::Link { .. } | ItemKind::Limit { .. } | ItemKind::Title { .. }) {
+            if i > 0 && matches!(item.kind, ItemKind::Node { .. } | ItemKind::Link { .. } | ItemKind::Limit { .. } | ItemKind::Title { .. } | ItemKind::Region { .. }) {
                 diags.push(
                     Diagnostic::warning("W105", "an imported file's nodes, links, limits and title are not used", item.span)
                         .with_label("ignored in the importing model")
@@ -83,6 +84,8 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             ItemKind::Node { .. } => SymbolKind::Node,
             ItemKind::Link { .. } => SymbolKind::Link,
             ItemKind::Buildup { .. } => SymbolKind::Buildup,
+            // A region is a body that carries heat, like a link; its cells are generated nodes.
+            ItemKind::Region { .. } => SymbolKind::Link,
             _ => SymbolKind::Limit,
         };
         symbols.symbols.push(Symbol { name: name.name.clone(), kind, def: name.span, decl: item.span, refs: Vec::new(), parent: None });
@@ -177,7 +180,30 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             }
         }
     }
+    let mut plans = Vec::new();
+    for item in &items {
+        if let ItemKind::Region { name, args, .. } = &item.kind {
+            let planned = cx.args(&region::RegionArgs, args, item.span, &[]).map(|a| region::Plan::new(&name.name, name.span, a));
+            match planned {
+                Some(Ok(mut plan)) => {
+                    for n in plan.add_nodes(&mut net) {
+                        cx.symbols.symbols.push(Symbol { name: n, kind: SymbolKind::GeneratedNode, def: name.span, decl: item.span, refs: Vec::new(), parent: Some(name.name.clone()) });
+                    }
+                    plans.push((item, plan));
+                }
+                Some(Err(d)) => cx.diags.push(d),
+                None => {}
+            }
+        }
+    }
     let node_index: HashMap<String, NodeId> = net.nodes.iter().enumerate().map(|(i, n)| (n.name.clone(), i)).collect();
+    for (item, mut plan) in plans {
+        if let ItemKind::Region { edges, .. } = &item.kind {
+            plan.add_internal_links(&mut net);
+            cx.region_edges(&mut plan, edges, &mut net, &node_index, &buildups);
+            net.regions.push(plan.region);
+        }
+    }
     let mut used = vec![false; net.nodes.len()];
     for item in &items {
         let ItemKind::Link { name, from, to, element } = &item.kind else { continue };
@@ -514,6 +540,45 @@ impl<'a> Cx<'a> {
             );
         }
         (fixed, load)
+    }
+
+    /// Attach a region's edges and faces to their nodes, each through its element if it has one.
+    fn region_edges(&mut self, plan: &mut region::Plan, edges: &[RegionEdge], net: &mut Network, index: &HashMap<String, NodeId>, buildups: &HashMap<&str, &Vec<BuildupElement>>) {
+        let mut seen: HashMap<&str, Span> = HashMap::new();
+        for e in edges {
+            if !region::SIDES.contains(&e.side.name.as_str()) {
+                self.unknown_arg(&e.side, "a region", region::SIDES);
+                continue;
+            }
+            if let Some(prev) = seen.insert(&e.side.name, e.side.span) {
+                self.duplicate_arg(&e.side, prev);
+                continue;
+            }
+            let Some(node) = self.node_ref(&e.node, index, buildups) else { continue };
+            let element = match &e.element {
+                None => None,
+                Some(call) => {
+                    let Some(kind) = elements::lookup(&call.kind.name).filter(|k| k.takes_area() && k.single_link()) else {
+                        self.diags.push(
+                            Diagnostic::error("E206", format!("`{}` cannot attach a region's edge", call.kind.name), call.kind.span)
+                                .with_label("not an element with an area")
+                                .with_help("attach an edge through `film`, `contact`, `radiation` or `layer`, or to a node directly (`left: hot_bar`)"),
+                        );
+                        continue;
+                    };
+                    let area = plan.cell_area(&e.side.name);
+                    let Some(args) = self.args(kind, &call.args, call.span, &[("area", area, e.side.span)]) else { continue };
+                    match kind.law(&args) {
+                        Ok((law, _)) => Some((kind.name(), law)),
+                        Err(d) => {
+                            self.diags.push(d);
+                            continue;
+                        }
+                    }
+                }
+            };
+            plan.attach(net, &e.side.name, node, element);
+        }
     }
 
     fn duplicate_arg(&mut self, an: &Ident, prev: Span) {

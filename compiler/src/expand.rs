@@ -556,6 +556,14 @@ impl Renamer<'_> {
                 network: network.clone(),
                 args: self.args(args),
             },
+            ItemKind::Region { name, args, edges } => ItemKind::Region {
+                name: self.ident(name),
+                args: self.args(args),
+                edges: edges
+                    .iter()
+                    .map(|e| RegionEdge { side: e.side.clone(), node: self.ident(&e.node), element: e.element.as_ref().map(|c| self.call(c)), span: e.span })
+                    .collect(),
+            },
             ItemKind::Title { .. } | ItemKind::Import { .. } | ItemKind::Network { .. } => {
                 let what = if matches!(item.kind, ItemKind::Network { .. }) {
                     "a sub-network"

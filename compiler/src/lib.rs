@@ -19,6 +19,7 @@ pub mod network;
 pub mod nonlinear;
 pub mod parser;
 pub mod radial;
+pub mod region;
 pub mod render;
 pub mod results;
 pub mod solve;

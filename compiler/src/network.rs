@@ -80,6 +80,8 @@ pub struct Network {
     pub groups: Vec<Group>,
     /// Named dimensionless figures of links (a fin's efficiency), for reports.
     pub figures: Vec<LinkFigure>,
+    /// 2-D regions meshed into the network, for their temperature and flux fields.
+    pub regions: Vec<crate::region::Region>,
 }
 
 /// A named figure of one link, such as `fin_efficiency`.

@@ -427,7 +427,7 @@ impl<'a> Parser<'a> {
 
 /// Words that start a declaration only where a declaration may start, followed by a name; they
 /// stay ordinary names everywhere else, so they need no tokens of their own.
-const CONTEXTUAL: &[&str] = &["repeat", "network", "use"];
+const CONTEXTUAL: &[&str] = &["repeat", "network", "use", "region"];
 
 impl Parser<'_> {
     fn at_contextual_item(&self) -> bool {
@@ -463,6 +463,30 @@ impl Parser<'_> {
                 }
                 let body = self.body("`{` to open the sub-network's declarations")?;
                 Ok(ItemKind::Network { name, ports, body })
+            }
+            "region" => {
+                let name = self.ident("the region's name")?;
+                let args = self.arg_list("`(` and the region's material, size and cell counts")?;
+                let open = self.expect(Tok::LBrace, "`{` to open the region's edge attachments")?;
+                let mut edges = Vec::new();
+                while self.eat(Tok::RBrace).is_none() {
+                    if self.at_end() {
+                        return Err(Diagnostic::error("E002", "this region is not closed", open.span)
+                            .with_label("`{` opened here")
+                            .with_help("add `}` after the last edge attachment"));
+                    }
+                    let side = self.ident("an edge (`left`, `right`, `bottom`, `top`) or face (`front`, `back`)")?;
+                    self.expect(Tok::Colon, "`:` after the edge, as in `left: hot_bar`")?;
+                    let node = self.ident("the node this edge is attached to")?;
+                    let element = if self.peek() == Some(Tok::Ident) && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::LParen) {
+                        Some(self.element_call("an element such as `film(h = 10 W/(m^2*K))`")?)
+                    } else {
+                        None
+                    };
+                    let span = side.span.to(self.prev_end());
+                    edges.push(RegionEdge { side, node, element, span });
+                }
+                Ok(ItemKind::Region { name, args, edges })
             }
             _ => {
                 let name = self.ident("the name of this use")?;

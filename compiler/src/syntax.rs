@@ -104,6 +104,18 @@ pub enum ItemKind {
     /// `use NAME: NETWORK(PORT = NODE, PARAM = VALUE, ...)`: one copy of a sub-network, its
     /// names prefixed `NAME.`.
     Use { name: Ident, network: Ident, args: Vec<Arg> },
+    /// `region NAME (ARGS) { SIDE: NODE [ELEMENT(...)] ... }`: a rectangle meshed into cells
+    /// (see `crate::region`).
+    Region { name: Ident, args: Vec<Arg>, edges: Vec<RegionEdge> },
+}
+
+/// One attachment of a region: `right: air film(h = 10 W/(m^2*K))`, or `left: hot_bar`.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct RegionEdge {
+    pub side: Ident,
+    pub node: Ident,
+    pub element: Option<ElementCall>,
+    pub span: Span,
 }
 
 /// A top-level declaration.
@@ -126,7 +138,8 @@ impl Item {
             | ItemKind::Limit { name, .. }
             | ItemKind::Repeat { name, .. }
             | ItemKind::Network { name, .. }
-            | ItemKind::Use { name, .. } => Some(name),
+            | ItemKind::Use { name, .. }
+            | ItemKind::Region { name, .. } => Some(name),
         }
     }
 }
