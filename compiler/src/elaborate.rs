@@ -183,16 +183,15 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     let mut plans = Vec::new();
     for item in &items {
         if let ItemKind::Region { name, args, .. } = &item.kind {
-            let planned = cx.args(&region::RegionArgs, args, item.span, &[]).map(|a| region::Plan::new(&name.name, name.span, a));
-            match planned {
-                Some(Ok(mut plan)) => {
+            let Some(checked) = cx.args(&region::RegionArgs, args, item.span, &[]) else { continue };
+            match region::Plan::new(&name.name, name.span, checked) {
+                Ok(mut plan) => {
                     for n in plan.add_nodes(&mut net) {
                         cx.symbols.symbols.push(Symbol { name: n, kind: SymbolKind::GeneratedNode, def: name.span, decl: item.span, refs: Vec::new(), parent: Some(name.name.clone()) });
                     }
                     plans.push((item, plan));
                 }
-                Some(Err(d)) => cx.diags.push(d),
-                None => {}
+                Err(d) => cx.diags.push(d),
             }
         }
     }

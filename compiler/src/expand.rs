@@ -7,6 +7,9 @@
 //! places one copy whose names become `kitchen.NAME`, its ports bound to the given nodes and
 //! its `param`s replaced by the given values. The generated names are ordinary names: results
 //! and limits refer to them like any other.
+// Diagnostics are returned by value throughout the compiler; boxing them here alone would
+// split the element API.
+#![allow(clippy::result_large_err)]
 
 use crate::diagnostic::{did_you_mean, Diagnostic};
 use crate::eval::{Evaluator, NameKinds};
@@ -70,7 +73,7 @@ pub fn expand_modules(modules: &[&Module], overrides: &[(String, Quantity)]) -> 
         })
         .collect();
     let mut diags = x.diags;
-    diags.extend(x.ev.diags.drain(..));
+    diags.append(&mut x.ev.diags);
     Expanded {
         modules: out,
         diags,
@@ -561,7 +564,12 @@ impl Renamer<'_> {
                 args: self.args(args),
                 edges: edges
                     .iter()
-                    .map(|e| RegionEdge { side: e.side.clone(), node: self.ident(&e.node), element: e.element.as_ref().map(|c| self.call(c)), span: e.span })
+                    .map(|e| RegionEdge {
+                        side: e.side.clone(),
+                        node: self.ident(&e.node),
+                        element: e.element.as_ref().map(|c| self.call(c)),
+                        span: e.span,
+                    })
                     .collect(),
             },
             ItemKind::Title { .. } | ItemKind::Import { .. } | ItemKind::Network { .. } => {

@@ -10,6 +10,9 @@
 //! [`assemble`] is the reusable piece: the balance and Jacobian (or, equivalently, the
 //! linearised conductance matrix and right-hand side) for given node temperatures, for any
 //! caller that steps a network through time as well.
+// Diagnostics are returned by value throughout the compiler; boxing them here alone would
+// split the element API.
+#![allow(clippy::result_large_err)]
 
 use crate::network::{LinkLaw, Network, NodeId};
 use crate::solve::{solve_steady, SolveError, Temperatures};

@@ -1,5 +1,8 @@
 //! Radial build-ups: the bore a link gives, the radius each shell starts at, and the critical
 //! insulation radius check. Kept apart from elaboration so plane build-ups read as before.
+// Diagnostics are returned by value throughout the compiler; boxing them here alone would
+// split the element API.
+#![allow(clippy::result_large_err)]
 
 use crate::diagnostic::Diagnostic;
 use crate::elements::{self, shell, shell::Geometry, Args, Built, ElementKind};

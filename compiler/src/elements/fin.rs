@@ -4,6 +4,9 @@
 //!
 //! The fin is a link from its base node to the fluid node: G = Q/θ_b, with θ_b the base excess
 //! temperature. `count` identical fins act in parallel.
+// Diagnostics are returned by value throughout the compiler; boxing them here alone would
+// split the element API.
+#![allow(clippy::result_large_err)]
 
 use super::{q, show, ArgType, Args, Built, ElementKind, ParamSpec};
 use crate::diagnostic::Diagnostic;

@@ -139,6 +139,7 @@ pub trait ElementKind: Sync {
     fn build(&self, args: &Args) -> Result<Built, Diagnostic>;
     /// How the link's heat flow depends on its end temperatures. Most elements are linear with
     /// the conductance `build` gives; radiation and k(T) conduction override this.
+    #[allow(clippy::result_large_err)]
     fn law(&self, args: &Args) -> Result<(crate::network::LinkLaw, Built), Diagnostic> {
         let b = self.build(args)?;
         Ok((crate::network::LinkLaw::Linear { conductance: b.conductance }, b))
@@ -152,6 +153,7 @@ pub trait ElementKind: Sync {
         true
     }
     /// For elements that become several links and put heat into nodes; `None` for one link.
+    #[allow(clippy::result_large_err)]
     fn expand(&self, _args: &Args) -> Result<Option<generation::Expansion>, Diagnostic> {
         Ok(None)
     }

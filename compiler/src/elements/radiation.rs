@@ -1,5 +1,8 @@
 //! Thermal radiation between grey, diffuse surfaces: a surface to large surroundings, or two
 //! surfaces that see each other through a view factor.
+// Diagnostics are returned by value throughout the compiler; boxing them here alone would
+// split the element API.
+#![allow(clippy::result_large_err)]
 
 use super::{q, show, Args, Built, ElementKind, ParamSpec};
 use crate::diagnostic::Diagnostic;

@@ -2,6 +2,9 @@
 //! isothermal surfaces in a medium of conductivity k, written R = 1/(k·S) with the shape
 //! factor S in metres (Incropera, DeWitt, Bergman, Lavine, *Fundamentals of Heat and Mass
 //! Transfer*, Table 4.1).
+// Diagnostics are returned by value throughout the compiler; boxing them here alone would
+// split the element API.
+#![allow(clippy::result_large_err)]
 
 use super::shell::{conduction_law, conductivity};
 use super::{q, show, ArgType, Args, Built, ElementKind, ParamSpec};

@@ -3,6 +3,9 @@
 //! A shell is stated by its inner radius and either its outer radius or its thickness. Inside a
 //! build-up used with `inner_radius` (and `length` for a cylinder), the inner radius of each
 //! shell is the outer radius of the one before it, so an analyst states the bore once.
+// Diagnostics are returned by value throughout the compiler; boxing them here alone would
+// split the element API.
+#![allow(clippy::result_large_err)]
 
 use super::{q, show, ArgType, Args, Built, ElementKind, ParamSpec};
 use crate::diagnostic::Diagnostic;
