@@ -161,3 +161,39 @@ fn misuse_is_reported_where_it_is_written() {
     let a = run("node a (fixed = 1 °C)\nrepeat s (count = 50) {\n  node t\n  link l: a to t resistance(1 m)\n}\n");
     assert_eq!(codes(&a), ["E101"]);
 }
+
+#[test]
+fn a_broken_line_inside_a_block_does_not_lose_the_rest() {
+    use caloris_compiler::parser::parse;
+    use caloris_compiler::span::FileId;
+    use caloris_compiler::syntax::ItemKind;
+    let src = "repeat seg (count = 3) {\n  node t\n  link l: t to ) resistance(1 K/W)\n  node u\n}\nnode after\n\
+               region r (k = 1 W/(m*K), thickness = 1 m, width = 1 m, height = 1 m, cells_x = 2, cells_y = 2) {\n  left: after\n}\n\
+               network n (a) {\n  node inner\n}\nuse x: n(a = after)\n";
+    let (m, diags) = parse(src, FileId(0));
+    assert_eq!(diags.len(), 1, "{diags:?}");
+    assert_eq!(diags[0].code, "E002");
+    let ItemKind::Repeat { body, .. } = &m.items[0].kind else { panic!("{:?}", m.items[0]) };
+    assert_eq!(body.len(), 2, "the nodes before and after the broken link survive");
+    let kinds: Vec<&str> = m
+        .items
+        .iter()
+        .map(|i| match i.kind {
+            ItemKind::Repeat { .. } => "repeat",
+            ItemKind::Node { .. } => "node",
+            ItemKind::Region { .. } => "region",
+            ItemKind::Network { .. } => "network",
+            ItemKind::Use { .. } => "use",
+            _ => "other",
+        })
+        .collect();
+    assert_eq!(kinds, ["repeat", "node", "region", "network", "use"]);
+}
+
+#[test]
+fn the_new_words_stay_ordinary_names_elsewhere() {
+    // `region`, `repeat`, `use` and `network` start a declaration only where one may start.
+    let a = run("param region = 2 m\nparam use = region * 2\nnode network (fixed = 10 °C)\nnode repeat\nlink l: repeat to network resistance(use / 1 m * 1 K/W)\n");
+    assert!(!a.has_errors(), "{:?}", a.diagnostics);
+    assert!((a.solution.expect("solves").temperatures[1] - 283.15).abs() < 1e-12);
+}
