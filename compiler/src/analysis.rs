@@ -69,7 +69,9 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
         diagnostics.extend(check_buildup_kinds(m));
     }
     let el = elaborate(&module_refs, &sources, &options.overrides);
-    diagnostics.extend(el.diags);
+    let expansion_failed = diagnostics.iter().any(|d| d.is_error());
+    // An unconnected boundary is expected when a repetition or use could not be expanded.
+    diagnostics.extend(el.diags.into_iter().filter(|d| !(expansion_failed && d.code == "W102")));
     crate::expand::dedup_copies(&mut diagnostics, &expanded.bodies);
     diagnostics.sort_by_key(|d| (d.primary.span.file, d.primary.span.start, d.severity));
     diagnostics.dedup_by(|a, b| a.primary.span == b.primary.span && a.message == b.message);
