@@ -17,18 +17,32 @@ impl FsLoader {
             .map(Path::to_path_buf)
             .unwrap_or_else(|| PathBuf::from("."));
         let dir = dir.canonicalize().unwrap_or(dir);
-        let root = dir.ancestors().find(|a| a.join(".git").exists()).map(Path::to_path_buf).unwrap_or(dir);
+        let root = dir
+            .ancestors()
+            .find(|a| a.join(".git").exists())
+            .map(Path::to_path_buf)
+            .unwrap_or(dir);
         FsLoader { root }
     }
 }
 
 impl SourceLoader for FsLoader {
     fn load(&self, from: &str, path: &str) -> Result<(String, String), String> {
-        let base = Path::new(from).parent().map(Path::to_path_buf).unwrap_or_default();
-        let joined = if base.as_os_str().is_empty() { PathBuf::from(path) } else { base.join(path) };
+        let base = Path::new(from)
+            .parent()
+            .map(Path::to_path_buf)
+            .unwrap_or_default();
+        let joined = if base.as_os_str().is_empty() {
+            PathBuf::from(path)
+        } else {
+            base.join(path)
+        };
         let canonical = joined.canonicalize().map_err(|e| format!("{e}"))?;
         if !canonical.starts_with(&self.root) {
-            return Err(format!("it lies outside the project folder `{}`", self.root.display()));
+            return Err(format!(
+                "it lies outside the project folder `{}`",
+                self.root.display()
+            ));
         }
         let text = std::fs::read_to_string(&canonical).map_err(|e| format!("{e}"))?;
         Ok((joined.display().to_string(), text))
@@ -43,7 +57,8 @@ mod tests {
 
     /// A fresh project folder (with `.git`, so it is the root) inside a fresh scratch folder.
     fn project(tag: &str) -> (PathBuf, PathBuf) {
-        let scratch = std::env::temp_dir().join(format!("caloris-loader-{tag}-{}", std::process::id()));
+        let scratch =
+            std::env::temp_dir().join(format!("caloris-loader-{tag}-{}", std::process::id()));
         let _ = std::fs::remove_dir_all(&scratch);
         let root = scratch.join("project");
         std::fs::create_dir_all(root.join(".git")).expect("scratch folder");
@@ -57,7 +72,12 @@ mod tests {
 
     fn run(model: &Path) -> Analysis {
         let text = std::fs::read_to_string(model).expect("model");
-        analyze(&model.display().to_string(), &text, &FsLoader::for_model(model), &Options::default())
+        analyze(
+            &model.display().to_string(),
+            &text,
+            &FsLoader::for_model(model),
+            &Options::default(),
+        )
     }
 
     const USES_WOOL: &str = "node a (fixed = 20 °C)\nnode b (fixed = 0 °C)\nlink w: a to b layer(wool, thickness = 100 mm, area = 1 m^2)\n";
@@ -66,10 +86,19 @@ mod tests {
     fn paths_are_relative_to_the_importing_file() {
         let (scratch, root) = project("relative");
         // Two files named materials.heat: the one beside the importer must win.
-        write(&root.join("materials.heat"), "material wool (k = 1 W/(m*K))\n");
-        write(&root.join("rooms/materials.heat"), "material wool (k = 0.04 W/(m*K))\n");
+        write(
+            &root.join("materials.heat"),
+            "material wool (k = 1 W/(m*K))\n",
+        );
+        write(
+            &root.join("rooms/materials.heat"),
+            "material wool (k = 0.04 W/(m*K))\n",
+        );
         write(&root.join("rooms/lib.heat"), "import \"materials.heat\"\n");
-        write(&root.join("rooms/model.heat"), &format!("import \"lib.heat\"\n{USES_WOOL}"));
+        write(
+            &root.join("rooms/model.heat"),
+            &format!("import \"lib.heat\"\n{USES_WOOL}"),
+        );
         let a = run(&root.join("rooms/model.heat"));
         assert!(!a.has_errors(), "{:?}", a.diagnostics);
         let q = a.solution.expect("solves").heat_flows[0];
@@ -80,18 +109,38 @@ mod tests {
     #[test]
     fn nothing_outside_the_project_root_is_read() {
         let (scratch, root) = project("outside");
-        write(&scratch.join("secret.heat"), "material wool (k = 0.04 W/(m*K))\n");
-        write(&root.join("model.heat"), &format!("import \"../secret.heat\"\n{USES_WOOL}"));
+        write(
+            &scratch.join("secret.heat"),
+            "material wool (k = 0.04 W/(m*K))\n",
+        );
+        write(
+            &root.join("model.heat"),
+            &format!("import \"../secret.heat\"\n{USES_WOOL}"),
+        );
         let a = run(&root.join("model.heat"));
-        let d = a.diagnostics.iter().find(|d| d.code == "E601").expect("E601");
+        let d = a
+            .diagnostics
+            .iter()
+            .find(|d| d.code == "E601")
+            .expect("E601");
         assert!(d.message.contains("outside the project"), "{}", d.message);
         #[cfg(unix)]
         {
             // A link inside the project that points outside is refused as well.
-            std::os::unix::fs::symlink(scratch.join("secret.heat"), root.join("alias.heat")).expect("symlink");
-            write(&root.join("model2.heat"), &format!("import \"alias.heat\"\n{USES_WOOL}"));
+            std::os::unix::fs::symlink(scratch.join("secret.heat"), root.join("alias.heat"))
+                .expect("symlink");
+            write(
+                &root.join("model2.heat"),
+                &format!("import \"alias.heat\"\n{USES_WOOL}"),
+            );
             let a = run(&root.join("model2.heat"));
-            assert!(a.diagnostics.iter().any(|d| d.code == "E601" && d.message.contains("outside the project")), "{:?}", a.diagnostics);
+            assert!(
+                a.diagnostics
+                    .iter()
+                    .any(|d| d.code == "E601" && d.message.contains("outside the project")),
+                "{:?}",
+                a.diagnostics
+            );
         }
         let _ = std::fs::remove_dir_all(scratch);
     }
@@ -99,21 +148,42 @@ mod tests {
     #[test]
     fn import_cycles_are_reported() {
         let (scratch, root) = project("cycle");
-        write(&root.join("a.heat"), "import \"b.heat\"\nmaterial wool (k = 0.04 W/(m*K))\n");
+        write(
+            &root.join("a.heat"),
+            "import \"b.heat\"\nmaterial wool (k = 0.04 W/(m*K))\n",
+        );
         write(&root.join("b.heat"), "import \"a.heat\"\n");
-        write(&root.join("model.heat"), &format!("import \"a.heat\"\n{USES_WOOL}"));
+        write(
+            &root.join("model.heat"),
+            &format!("import \"a.heat\"\n{USES_WOOL}"),
+        );
         let a = run(&root.join("model.heat"));
-        let d = a.diagnostics.iter().find(|d| d.code == "E602").expect("E602");
-        assert!(d.message.contains("a.heat") && d.message.contains("b.heat"), "{}", d.message);
+        let d = a
+            .diagnostics
+            .iter()
+            .find(|d| d.code == "E602")
+            .expect("E602");
+        assert!(
+            d.message.contains("a.heat") && d.message.contains("b.heat"),
+            "{}",
+            d.message
+        );
         let _ = std::fs::remove_dir_all(scratch);
     }
 
     #[test]
     fn a_missing_file_is_an_error_at_the_import() {
         let (scratch, root) = project("missing");
-        write(&root.join("model.heat"), &format!("import \"nowhere.heat\"\n{USES_WOOL}"));
+        write(
+            &root.join("model.heat"),
+            &format!("import \"nowhere.heat\"\n{USES_WOOL}"),
+        );
         let a = run(&root.join("model.heat"));
-        assert!(a.diagnostics.iter().any(|d| d.code == "E601"), "{:?}", a.diagnostics);
+        assert!(
+            a.diagnostics.iter().any(|d| d.code == "E601"),
+            "{:?}",
+            a.diagnostics
+        );
         let _ = std::fs::remove_dir_all(scratch);
     }
 }

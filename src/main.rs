@@ -24,7 +24,11 @@ pub mod exit {
 }
 
 #[derive(Parser)]
-#[command(name = "caloris", version, about = "Thermal resistance networks as text: check units, solve, verify design limits")]
+#[command(
+    name = "caloris",
+    version,
+    about = "Thermal resistance networks as text: check units, solve, verify design limits"
+)]
 struct Cli {
     #[command(subcommand)]
     command: Command,
@@ -67,7 +71,11 @@ fn main() -> ExitCode {
     let cli = Cli::parse();
     let code = match cli.command {
         Command::Check { file } => run(&file, true, Format::Table, UnitSystem::Si),
-        Command::Solve { file, format, units } => {
+        Command::Solve {
+            file,
+            format,
+            units,
+        } => {
             let system = match units {
                 Units::Si => UnitSystem::Si,
                 Units::Us => UnitSystem::Us,
@@ -85,10 +93,13 @@ fn colour_on(stream_is_terminal: bool) -> bool {
 fn read_model(file: &PathBuf) -> Result<(String, String), String> {
     if file.as_os_str() == "-" {
         let mut text = String::new();
-        std::io::stdin().read_to_string(&mut text).map_err(|e| format!("cannot read standard input: {e}"))?;
+        std::io::stdin()
+            .read_to_string(&mut text)
+            .map_err(|e| format!("cannot read standard input: {e}"))?;
         return Ok(("<stdin>".to_string(), text));
     }
-    let text = std::fs::read_to_string(file).map_err(|e| format!("cannot read `{}`: {e}", file.display()))?;
+    let text = std::fs::read_to_string(file)
+        .map_err(|e| format!("cannot read `{}`: {e}", file.display()))?;
     Ok((file.display().to_string(), text))
 }
 
@@ -101,13 +112,24 @@ fn run(file: &PathBuf, check_only: bool, format: Format, system: UnitSystem) -> 
         }
     };
     let loader = loader::FsLoader::for_model(file);
-    let analysis = analyze(&name, &text, &loader, &Options { check_only, ..Options::default() });
+    let analysis = analyze(
+        &name,
+        &text,
+        &loader,
+        &Options {
+            check_only,
+            ..Options::default()
+        },
+    );
     let colour = colour_on(std::io::stderr().is_terminal());
     let rendered = render_diagnostics(&analysis.diagnostics, &analysis.sources, colour);
     eprint!("{rendered}");
     if analysis.has_errors() {
         let n = analysis.diagnostics.iter().filter(|d| d.is_error()).count();
-        eprintln!("{name}: {n} error{} — nothing was solved", if n == 1 { "" } else { "s" });
+        eprintln!(
+            "{name}: {n} error{} — nothing was solved",
+            if n == 1 { "" } else { "s" }
+        );
         if matches!(format, Format::Json) && !check_only {
             println!("{}", output::json(&analysis));
         }
@@ -115,16 +137,25 @@ fn run(file: &PathBuf, check_only: bool, format: Format, system: UnitSystem) -> 
     }
     if check_only {
         let net = &analysis.network;
-        eprintln!("{name}: ok — {} nodes, {} links, {} limits", net.nodes.len(), net.links.len(), analysis.limits.len());
+        eprintln!(
+            "{name}: ok — {} nodes, {} links, {} limits",
+            net.nodes.len(),
+            net.links.len(),
+            analysis.limits.len()
+        );
         return exit::OK;
     }
     print_solution(&analysis, format, system)
 }
 
 fn print_solution(analysis: &Analysis, format: Format, system: UnitSystem) -> u8 {
-    let Some(sol) = &analysis.solution else { return exit::MODEL_ERROR };
+    let Some(sol) = &analysis.solution else {
+        return exit::MODEL_ERROR;
+    };
     let out = match format {
-        Format::Table => output::table(analysis, system, colour_on(std::io::stdout().is_terminal())),
+        Format::Table => {
+            output::table(analysis, system, colour_on(std::io::stdout().is_terminal()))
+        }
         Format::Json => output::json(analysis),
         Format::Csv => output::csv(analysis, system),
     };

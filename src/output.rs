@@ -34,7 +34,9 @@ fn right(t: &mut Table, cols: &[usize]) {
 
 /// The human-readable report.
 pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
-    let Some(sol) = &a.solution else { return String::new() };
+    let Some(sol) = &a.solution else {
+        return String::new();
+    };
     let net = &a.network;
     let mut out = String::new();
     if let Some(t) = &a.title {
@@ -46,21 +48,48 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
     let mut t = new_table(&["node", "temperature", "", "heat load"]);
     for (i, n) in net.nodes.iter().enumerate() {
         let state = if n.fixed.is_some() { "fixed" } else { "" };
-        let load = if n.load != 0.0 { power(n.load) } else { String::new() };
-        t.add_row(vec![Cell::new(&n.name), Cell::new(temp(sol.temperatures[i])), Cell::new(state), Cell::new(load)]);
+        let load = if n.load != 0.0 {
+            power(n.load)
+        } else {
+            String::new()
+        };
+        t.add_row(vec![
+            Cell::new(&n.name),
+            Cell::new(temp(sol.temperatures[i])),
+            Cell::new(state),
+            Cell::new(load),
+        ]);
     }
     right(&mut t, &[1, 3]);
     out.push_str(&format!("Nodes\n{t}\n\n"));
 
-    let mut t = new_table(&["link", "from → to", "kind", "resistance", "heat flow", "heat flux"]);
+    let mut t = new_table(&[
+        "link",
+        "from → to",
+        "kind",
+        "resistance",
+        "heat flow",
+        "heat flux",
+    ]);
     for (i, l) in net.links.iter().enumerate() {
         let q = sol.heat_flows[i];
-        let flux = l.area.map(|a| show(q / a, Dim::HEAT_FLUX, TempKind::NotTemperature, system)).unwrap_or_default();
+        let flux = l
+            .area
+            .map(|a| show(q / a, Dim::HEAT_FLUX, TempKind::NotTemperature, system))
+            .unwrap_or_default();
         t.add_row(vec![
             Cell::new(&l.name),
-            Cell::new(format!("{} → {}", net.nodes[l.from].name, net.nodes[l.to].name)),
+            Cell::new(format!(
+                "{} → {}",
+                net.nodes[l.from].name, net.nodes[l.to].name
+            )),
             Cell::new(&l.kind),
-            Cell::new(show(1.0 / l.conductance_at(&sol.temperatures), Dim::RESISTANCE, TempKind::NotTemperature, system)),
+            Cell::new(show(
+                1.0 / l.conductance_at(&sol.temperatures),
+                Dim::RESISTANCE,
+                TempKind::NotTemperature,
+                system,
+            )),
             Cell::new(power(q)),
             Cell::new(flux),
         ]);
@@ -69,13 +98,39 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
     out.push_str(&format!("Links (heat flow positive from → to)\n{t}\n\n"));
 
     if !sol.groups.is_empty() {
-        let mut t = new_table(&["build-up use", "resistance", "R-value", "U-value", "heat flow"]);
+        let mut t = new_table(&[
+            "build-up use",
+            "resistance",
+            "R-value",
+            "U-value",
+            "heat flow",
+        ]);
         for g in &sol.groups {
             t.add_row(vec![
                 Cell::new(&g.name),
-                Cell::new(show(g.resistance, Dim::RESISTANCE, TempKind::NotTemperature, system)),
-                Cell::new(g.r_value.map(|v| show(v, Dim::AREA_RESISTANCE, TempKind::NotTemperature, system)).unwrap_or_default()),
-                Cell::new(g.u_value.map(|v| show(v, Dim::HEAT_TRANSFER_COEFF, TempKind::NotTemperature, system)).unwrap_or_default()),
+                Cell::new(show(
+                    g.resistance,
+                    Dim::RESISTANCE,
+                    TempKind::NotTemperature,
+                    system,
+                )),
+                Cell::new(
+                    g.r_value
+                        .map(|v| show(v, Dim::AREA_RESISTANCE, TempKind::NotTemperature, system))
+                        .unwrap_or_default(),
+                ),
+                Cell::new(
+                    g.u_value
+                        .map(|v| {
+                            show(
+                                v,
+                                Dim::HEAT_TRANSFER_COEFF,
+                                TempKind::NotTemperature,
+                                system,
+                            )
+                        })
+                        .unwrap_or_default(),
+                ),
                 Cell::new(power(g.heat_flow)),
             ]);
         }
@@ -86,7 +141,11 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
     if !net.figures.is_empty() {
         let mut t = new_table(&["link", "figure", "value"]);
         for f in &net.figures {
-            t.add_row(vec![Cell::new(&net.links[f.link].name), Cell::new(f.name), Cell::new(format!("{:.4}", f.value))]);
+            t.add_row(vec![
+                Cell::new(&net.links[f.link].name),
+                Cell::new(f.name),
+                Cell::new(format!("{:.4}", f.value)),
+            ]);
         }
         right(&mut t, &[2]);
         out.push_str(&format!("Element figures (dimensionless)\n{t}\n\n"));
@@ -94,7 +153,11 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
 
     for r in &net.regions {
         let field = r.field(&sol.temperatures, &sol.heat_flows);
-        let (lo, hi) = field.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), c| (lo.min(c.temperature_k), hi.max(c.temperature_k)));
+        let (lo, hi) = field
+            .iter()
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), c| {
+                (lo.min(c.temperature_k), hi.max(c.temperature_k))
+            });
         out.push_str(&format!(
             "Region {}: {} × {} cells, {} to {} (the field and heat flux vectors are in the JSON output)\n\n",
             r.name,
@@ -110,7 +173,9 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
         t.add_row(vec![Cell::new(&net.nodes[i].name), Cell::new(power(q))]);
     }
     right(&mut t, &[1]);
-    out.push_str(&format!("Boundaries (heat delivered into the network; negative = absorbed)\n{t}\n\n"));
+    out.push_str(&format!(
+        "Boundaries (heat delivered into the network; negative = absorbed)\n{t}\n\n"
+    ));
 
     if !sol.limits.is_empty() {
         let mut t = new_table(&["limit", "measure", "value", "limit", "margin", "verdict"]);
@@ -134,7 +199,10 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
         out.push_str(&format!("Design limits\n{t}\n\n"));
     }
     if let Some(c) = &sol.convergence {
-        out.push_str(&format!("Nonlinear solve: {}, {} iterations, final residual {:.3e} W.\n", c.method, c.iterations, c.final_residual));
+        out.push_str(&format!(
+            "Nonlinear solve: {}, {} iterations, final residual {:.3e} W.\n",
+            c.method, c.iterations, c.final_residual
+        ));
     }
     out.push_str(&format!(
         "Energy balance: worst residual at a free node {:.3e} W.\n\n{CAUTION}\n",
@@ -265,20 +333,45 @@ fn csv_field(s: &str) -> String {
 
 /// One row per node and per link, for spreadsheets.
 pub fn csv(a: &Analysis, system: UnitSystem) -> String {
-    let Some(sol) = &a.solution else { return String::new() };
+    let Some(sol) = &a.solution else {
+        return String::new();
+    };
     let net = &a.network;
     let (_, tu) = num(0.0, Dim::TEMPERATURE, TempKind::Point, system);
     let (_, pu) = num(0.0, Dim::POWER, TempKind::NotTemperature, system);
     let (_, ru) = num(0.0, Dim::RESISTANCE, TempKind::NotTemperature, system);
     let mut out = format!("record,name,from,to,temperature [{tu}],heat_load [{pu}],heat_flow [{pu}],resistance [{ru}]\n");
     for (i, n) in net.nodes.iter().enumerate() {
-        let (t, _) = num(sol.temperatures[i], Dim::TEMPERATURE, TempKind::Point, system);
+        let (t, _) = num(
+            sol.temperatures[i],
+            Dim::TEMPERATURE,
+            TempKind::Point,
+            system,
+        );
         let (l, _) = num(n.load, Dim::POWER, TempKind::NotTemperature, system);
-        out.push_str(&format!("{},{},,,{t},{l},,\n", if n.fixed.is_some() { "fixed_node" } else { "node" }, csv_field(&n.name)));
+        out.push_str(&format!(
+            "{},{},,,{t},{l},,\n",
+            if n.fixed.is_some() {
+                "fixed_node"
+            } else {
+                "node"
+            },
+            csv_field(&n.name)
+        ));
     }
     for (i, l) in net.links.iter().enumerate() {
-        let (q, _) = num(sol.heat_flows[i], Dim::POWER, TempKind::NotTemperature, system);
-        let (r, _) = num(1.0 / l.conductance_at(&sol.temperatures), Dim::RESISTANCE, TempKind::NotTemperature, system);
+        let (q, _) = num(
+            sol.heat_flows[i],
+            Dim::POWER,
+            TempKind::NotTemperature,
+            system,
+        );
+        let (r, _) = num(
+            1.0 / l.conductance_at(&sol.temperatures),
+            Dim::RESISTANCE,
+            TempKind::NotTemperature,
+            system,
+        );
         out.push_str(&format!(
             "link,{},{},{},,,{q},{r}\n",
             csv_field(&l.name),

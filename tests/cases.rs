@@ -24,18 +24,30 @@ struct RepoFiles<'a>(&'a Path);
 impl SourceLoader for RepoFiles<'_> {
     fn load(&self, from: &str, path: &str) -> Result<(String, String), String> {
         let joined = Path::new(from).parent().unwrap_or(Path::new("")).join(path);
-        let full = self.0.join(&joined).canonicalize().map_err(|e| e.to_string())?;
+        let full = self
+            .0
+            .join(&joined)
+            .canonicalize()
+            .map_err(|e| e.to_string())?;
         let root = self.0.canonicalize().map_err(|e| e.to_string())?;
         if !full.starts_with(&root) {
             return Err("it lies outside the repository".into());
         }
         let text = std::fs::read_to_string(&full).map_err(|e| e.to_string())?;
-        Ok((full.strip_prefix(&root).unwrap_or(&full).display().to_string(), text))
+        Ok((
+            full.strip_prefix(&root)
+                .unwrap_or(&full)
+                .display()
+                .to_string(),
+            text,
+        ))
     }
 }
 
 fn collect(dir: &Path, out: &mut Vec<PathBuf>) {
-    let Ok(entries) = std::fs::read_dir(dir) else { return };
+    let Ok(entries) = std::fs::read_dir(dir) else {
+        return;
+    };
     for e in entries.flatten() {
         let p = e.path();
         if p.is_dir() {
@@ -47,25 +59,46 @@ fn collect(dir: &Path, out: &mut Vec<PathBuf>) {
 }
 
 fn quantity(text: &str) -> Result<f64, String> {
-    let e = parse_expr(text, FileId(0)).map_err(|d| format!("bad value `{text}`: {}", d.message))?;
+    let e =
+        parse_expr(text, FileId(0)).map_err(|d| format!("bad value `{text}`: {}", d.message))?;
     let mut ev = Evaluator::new(std::iter::empty());
-    let q = ev.eval(&e, &NoNames).ok_or_else(|| format!("bad value `{text}`: {:?}", ev.diags))?;
+    let q = ev
+        .eval(&e, &NoNames)
+        .ok_or_else(|| format!("bad value `{text}`: {:?}", ev.diags))?;
     Ok(q.value)
 }
 
 fn check_line(a: &Analysis, line: &str) -> Result<(), String> {
     let line = line.trim();
     if line == "ok" {
-        let errs: Vec<_> = a.diagnostics.iter().filter(|d| d.is_error()).map(|d| format!("{} {}", d.code, d.message)).collect();
-        return if errs.is_empty() { Ok(()) } else { Err(format!("expected no errors, got {errs:?}")) };
+        let errs: Vec<_> = a
+            .diagnostics
+            .iter()
+            .filter(|d| d.is_error())
+            .map(|d| format!("{} {}", d.code, d.message))
+            .collect();
+        return if errs.is_empty() {
+            Ok(())
+        } else {
+            Err(format!("expected no errors, got {errs:?}"))
+        };
     }
     for (word, sev) in [("error", Severity::Error), ("warning", Severity::Warning)] {
         if let Some(rest) = line.strip_prefix(word).map(str::trim) {
-            let (code, at) = rest.split_once(" at ").ok_or("expected `CODE at LINE:COL`")?;
+            let (code, at) = rest
+                .split_once(" at ")
+                .ok_or("expected `CODE at LINE:COL`")?;
             let (l, c) = at.trim().split_once(':').ok_or("expected LINE:COL")?;
-            let (l, c): (u32, u32) = (l.parse().map_err(|_| "bad line")?, c.parse().map_err(|_| "bad column")?);
+            let (l, c): (u32, u32) = (
+                l.parse().map_err(|_| "bad line")?,
+                c.parse().map_err(|_| "bad column")?,
+            );
             let found = a.diagnostics.iter().any(|d| {
-                let lc = a.sources.get(d.primary.span.file).lines.line_col_chars(d.primary.span.start);
+                let lc = a
+                    .sources
+                    .get(d.primary.span.file)
+                    .lines
+                    .line_col_chars(d.primary.span.start);
                 d.severity == sev && d.code == code.trim() && lc.line + 1 == l && lc.col + 1 == c
             });
             return if found {
@@ -75,8 +108,19 @@ fn check_line(a: &Analysis, line: &str) -> Result<(), String> {
                     .diagnostics
                     .iter()
                     .map(|d| {
-                        let lc = a.sources.get(d.primary.span.file).lines.line_col_chars(d.primary.span.start);
-                        format!("{:?} {} at {}:{} {}", d.severity, d.code, lc.line + 1, lc.col + 1, d.message)
+                        let lc = a
+                            .sources
+                            .get(d.primary.span.file)
+                            .lines
+                            .line_col_chars(d.primary.span.start);
+                        format!(
+                            "{:?} {} at {}:{} {}",
+                            d.severity,
+                            d.code,
+                            lc.line + 1,
+                            lc.col + 1,
+                            d.message
+                        )
                     })
                     .collect();
                 Err(format!("expected {word} {code} at {l}:{c}; got {got:#?}"))
@@ -84,30 +128,65 @@ fn check_line(a: &Analysis, line: &str) -> Result<(), String> {
         }
     }
     let sol = a.solution.as_ref().ok_or_else(|| {
-        format!("model did not solve: {:?}", a.diagnostics.iter().map(|d| &d.message).collect::<Vec<_>>())
+        format!(
+            "model did not solve: {:?}",
+            a.diagnostics.iter().map(|d| &d.message).collect::<Vec<_>>()
+        )
     })?;
     if let Some(rest) = line.strip_prefix("limit ") {
-        let (name, verdict) = rest.trim().split_once(' ').ok_or("expected `limit NAME pass|fail`")?;
-        let l = sol.limits.iter().find(|l| l.name == name).ok_or(format!("no limit `{name}`"))?;
+        let (name, verdict) = rest
+            .trim()
+            .split_once(' ')
+            .ok_or("expected `limit NAME pass|fail`")?;
+        let l = sol
+            .limits
+            .iter()
+            .find(|l| l.name == name)
+            .ok_or(format!("no limit `{name}`"))?;
         let want = verdict.trim() == "pass";
-        return if l.passed == want { Ok(()) } else { Err(format!("limit {name}: passed = {}, margin {}", l.passed, l.margin)) };
+        return if l.passed == want {
+            Ok(())
+        } else {
+            Err(format!(
+                "limit {name}: passed = {}, margin {}",
+                l.passed, l.margin
+            ))
+        };
     }
     // MEASURE(SUBJECT) = VALUE ± TOL
-    let (lhs, rhs) = line.split_once('=').ok_or(format!("cannot read expectation `{line}`"))?;
+    let (lhs, rhs) = line
+        .split_once('=')
+        .ok_or(format!("cannot read expectation `{line}`"))?;
     let (value, tol) = rhs.split_once('±').ok_or("expected `± TOLERANCE`")?;
     let lhs_expr = parse_expr(lhs.trim(), FileId(0)).map_err(|d| d.message)?;
-    let ExprKind::Call { func, args } = lhs_expr.kind else { return Err("expected MEASURE(SUBJECT)".into()) };
-    let Some(ExprKind::Name(subject)) = args.first().map(|a| a.kind.clone()) else { return Err("expected a subject".into()) };
+    let ExprKind::Call { func, args } = lhs_expr.kind else {
+        return Err("expected MEASURE(SUBJECT)".into());
+    };
+    let Some(ExprKind::Name(subject)) = args.first().map(|a| a.kind.clone()) else {
+        return Err("expected a subject".into());
+    };
     let mut symbols = a.symbols.clone();
-    let (m, s) = resolve_measure(&Ident { name: func.name.clone(), span: func.span }, &subject, &a.network, &mut symbols)
-        .map_err(|d| d.map(|d| d.message).unwrap_or_default())?;
+    let (m, s) = resolve_measure(
+        &Ident {
+            name: func.name.clone(),
+            span: func.span,
+        },
+        &subject,
+        &a.network,
+        &mut symbols,
+    )
+    .map_err(|d| d.map(|d| d.message).unwrap_or_default())?;
     let actual = sol.measure(&a.network, m, s);
     let expected = quantity(value.trim())?;
     let tol = quantity(tol.trim())?;
     if (actual - expected).abs() <= tol {
         Ok(())
     } else {
-        Err(format!("{}: expected {expected} ± {tol} (SI), got {actual} (difference {:e})", lhs.trim(), actual - expected))
+        Err(format!(
+            "{}: expected {expected} ± {tol} (SI), got {actual} (difference {:e})",
+            lhs.trim(),
+            actual - expected
+        ))
     }
 }
 
@@ -125,21 +204,38 @@ fn every_case_meets_its_stated_expectations() {
         let text = std::fs::read_to_string(f).expect("readable case file");
         let name = f.strip_prefix(root).unwrap_or(f).display().to_string();
         let a = analyze(&name, &text, &RepoFiles(root), &Options::default());
-        let expects: Vec<&str> = text.lines().filter_map(|l| l.trim().strip_prefix("# expect:")).collect();
+        let expects: Vec<&str> = text
+            .lines()
+            .filter_map(|l| l.trim().strip_prefix("# expect:"))
+            .collect();
         let is_example = name.starts_with("examples");
         if expects.is_empty() && !is_example {
             failures.push(format!("{name}: no `# expect:` lines"));
         }
         // Examples must at least check cleanly and solve.
         if is_example && a.solution.is_none() {
-            failures.push(format!("{name}: example does not solve: {:?}", a.diagnostics.iter().map(|d| &d.message).collect::<Vec<_>>()));
+            failures.push(format!(
+                "{name}: example does not solve: {:?}",
+                a.diagnostics.iter().map(|d| &d.message).collect::<Vec<_>>()
+            ));
         }
         // Errors that no line expects are failures too.
-        let expected_errors: Vec<&str> = expects.iter().filter(|e| e.trim().starts_with("error")).copied().collect();
+        let expected_errors: Vec<&str> = expects
+            .iter()
+            .filter(|e| e.trim().starts_with("error"))
+            .copied()
+            .collect();
         if !expected_errors.is_empty() {
             let n = a.diagnostics.iter().filter(|d| d.is_error()).count();
             if n != expected_errors.len() {
-                failures.push(format!("{name}: {} errors expected, {n} reported: {:?}", expected_errors.len(), a.diagnostics.iter().map(|d| (&d.code, &d.message)).collect::<Vec<_>>()));
+                failures.push(format!(
+                    "{name}: {} errors expected, {n} reported: {:?}",
+                    expected_errors.len(),
+                    a.diagnostics
+                        .iter()
+                        .map(|d| (&d.code, &d.message))
+                        .collect::<Vec<_>>()
+                ));
             }
         }
         for e in &expects {
@@ -151,10 +247,18 @@ fn every_case_meets_its_stated_expectations() {
         if let Some(sol) = &a.solution {
             let scale = sol.heat_flows.iter().fold(1.0f64, |m, q| m.max(q.abs()));
             if sol.worst_residual > 1e-9 * scale {
-                failures.push(format!("{name}: energy balance does not close: {}", sol.worst_residual));
+                failures.push(format!(
+                    "{name}: energy balance does not close: {}",
+                    sol.worst_residual
+                ));
             }
         }
     }
     println!("{} files, {checks} expectations checked", files.len());
-    assert!(failures.is_empty(), "{} failure(s):\n{}", failures.len(), failures.join("\n"));
+    assert!(
+        failures.is_empty(),
+        "{} failure(s):\n{}",
+        failures.len(),
+        failures.join("\n")
+    );
 }

@@ -6,9 +6,9 @@ use crate::elaborate::{check_buildup_kinds, elaborate};
 use crate::elements::Material;
 use crate::limits::LimitSpec;
 use crate::network::Network;
+use crate::nonlinear::{newton_failure, solve_nonlinear, NewtonSettings};
 use crate::parser::parse;
 use crate::results::Solution;
-use crate::nonlinear::{newton_failure, solve_nonlinear, NewtonSettings};
 use crate::solve::{solve_steady, SolveError};
 use crate::source::{SourceLoader, Sources};
 use crate::span::{FileId, Span};
@@ -58,7 +58,14 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     let root = sources.add(name, text);
     let mut diagnostics = Vec::new();
     let mut modules = Vec::new();
-    load_module(root, &mut sources, loader, &mut modules, &mut diagnostics, &mut vec![name.to_string()]);
+    load_module(
+        root,
+        &mut sources,
+        loader,
+        &mut modules,
+        &mut diagnostics,
+        &mut vec![name.to_string()],
+    );
     let module_refs: Vec<&Module> = modules.iter().map(|(_, m)| m).collect();
     // Repetitions and sub-network uses become plain declarations; the parsed modules stay as
     // written for the editor.
@@ -71,7 +78,11 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     let el = elaborate(&module_refs, &sources, &options.overrides);
     let expansion_failed = diagnostics.iter().any(|d| d.is_error());
     // An unconnected boundary is expected when a repetition or use could not be expanded.
-    diagnostics.extend(el.diags.into_iter().filter(|d| !(expansion_failed && d.code == "W102")));
+    diagnostics.extend(
+        el.diags
+            .into_iter()
+            .filter(|d| !(expansion_failed && d.code == "W102")),
+    );
     crate::expand::dedup_copies(&mut diagnostics, &expanded.bodies);
     diagnostics.sort_by_key(|d| (d.primary.span.file, d.primary.span.start, d.severity));
     diagnostics.dedup_by(|a, b| a.primary.span == b.primary.span && a.message == b.message);
@@ -87,24 +98,45 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
         params: el.params,
         solution: None,
     };
-    if !analysis.has_errors() && !options.check_only && !analysis.network.links.iter().all(|l| l.law.is_linear()) {
-        let settings = NewtonSettings { max_iterations: options.newton_max_iterations.unwrap_or(NewtonSettings::default().max_iterations), ..NewtonSettings::default() };
+    if !analysis.has_errors()
+        && !options.check_only
+        && !analysis.network.links.iter().all(|l| l.law.is_linear())
+    {
+        let settings = NewtonSettings {
+            max_iterations: options
+                .newton_max_iterations
+                .unwrap_or(NewtonSettings::default().max_iterations),
+            ..NewtonSettings::default()
+        };
         match solve_nonlinear(&analysis.network, settings) {
             Ok((t, conv)) => {
                 let mut sol = Solution::new(&analysis.network, t, &analysis.limits);
                 sol.convergence = Some(conv);
                 analysis.solution = Some(sol);
             }
-            Err(e) => analysis.diagnostics.push(newton_failure(&analysis.network, e)),
+            Err(e) => analysis
+                .diagnostics
+                .push(newton_failure(&analysis.network, e)),
         }
     } else if !analysis.has_errors() && !options.check_only {
         match solve_steady(&analysis.network) {
-            Ok(t) => analysis.solution = Some(Solution::new(&analysis.network, t, &analysis.limits)),
+            Ok(t) => {
+                analysis.solution = Some(Solution::new(&analysis.network, t, &analysis.limits))
+            }
             Err(e) => {
-                let span = analysis.network.nodes.first().map(|n| n.span).unwrap_or_default();
+                let span = analysis
+                    .network
+                    .nodes
+                    .first()
+                    .map(|n| n.span)
+                    .unwrap_or_default();
                 let msg = match e {
-                    SolveError::NotPositiveDefinite => "the network equations could not be solved (matrix not positive definite)",
-                    SolveError::NonFinite => "the solve produced values that are not finite numbers",
+                    SolveError::NotPositiveDefinite => {
+                        "the network equations could not be solved (matrix not positive definite)"
+                    }
+                    SolveError::NonFinite => {
+                        "the solve produced values that are not finite numbers"
+                    }
                 };
                 analysis.diagnostics.push(
                     Diagnostic::error("E501", msg, span)
@@ -143,11 +175,18 @@ fn load_module(
         match loader.load(&from, &path) {
             Ok((name, text)) => {
                 if stack.contains(&name) {
-                    let chain = stack.iter().chain(std::iter::once(&name)).cloned().collect::<Vec<_>>().join(" -> ");
+                    let chain = stack
+                        .iter()
+                        .chain(std::iter::once(&name))
+                        .cloned()
+                        .collect::<Vec<_>>()
+                        .join(" -> ");
                     diags.push(
                         Diagnostic::error("E602", format!("import cycle: {chain}"), span)
                             .with_label("this import leads back to a file that is being imported")
-                            .with_help("move the shared declarations into a file that imports neither"),
+                            .with_help(
+                                "move the shared declarations into a file that imports neither",
+                            ),
                     );
                     continue;
                 }
@@ -162,7 +201,9 @@ fn load_module(
             Err(msg) => diags.push(
                 Diagnostic::error("E601", format!("cannot import `{path}`: {msg}"), span)
                     .with_label("this file cannot be read")
-                    .with_help("paths are relative to the importing file and must stay inside the project"),
+                    .with_help(
+                        "paths are relative to the importing file and must stay inside the project",
+                    ),
             ),
         }
     }

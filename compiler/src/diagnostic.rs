@@ -59,7 +59,10 @@ impl Diagnostic {
             code,
             severity,
             message: message.into(),
-            primary: Label { span, message: String::new() },
+            primary: Label {
+                span,
+                message: String::new(),
+            },
             secondary: Vec::new(),
             help: None,
             fix: None,
@@ -71,15 +74,27 @@ impl Diagnostic {
         self
     }
     pub fn with_secondary(mut self, span: Span, message: impl Into<String>) -> Self {
-        self.secondary.push(Label { span, message: message.into() });
+        self.secondary.push(Label {
+            span,
+            message: message.into(),
+        });
         self
     }
     pub fn with_help(mut self, help: impl Into<String>) -> Self {
         self.help = Some(help.into());
         self
     }
-    pub fn with_fix(mut self, title: impl Into<String>, span: Span, replacement: impl Into<String>) -> Self {
-        self.fix = Some(Fix { title: title.into(), span, replacement: replacement.into() });
+    pub fn with_fix(
+        mut self,
+        title: impl Into<String>,
+        span: Span,
+        replacement: impl Into<String>,
+    ) -> Self {
+        self.fix = Some(Fix {
+            title: title.into(),
+            span,
+            replacement: replacement.into(),
+        });
         self
     }
     pub fn is_error(&self) -> bool {
@@ -88,7 +103,10 @@ impl Diagnostic {
 }
 
 /// "did you mean `x`?" for the closest candidate within a small edit distance.
-pub fn did_you_mean<'a>(name: &str, candidates: impl IntoIterator<Item = &'a str>) -> Option<&'a str> {
+pub fn did_you_mean<'a>(
+    name: &str,
+    candidates: impl IntoIterator<Item = &'a str>,
+) -> Option<&'a str> {
     let mut best: Option<(f64, &str)> = None;
     for c in candidates {
         let score = strsim::jaro_winkler(name, c);

@@ -4,14 +4,14 @@
 //! evaluated on demand, then materials, nodes and links are checked argument by argument, and
 //! build-up uses are expanded into chains of element links with named interface nodes.
 
+use crate::conductivity::material_args as kt;
 use crate::diagnostic::{did_you_mean, Diagnostic};
 use crate::elements::{self, shell, ArgType, ArgValue, Args, ElementKind, Material};
 use crate::eval::{expect_dim, expect_point, Evaluator, NameKinds};
 use crate::limits::{self, LimitSpec};
+use crate::network::{Group, Link, LinkFigure, Network, Node, NodeId};
 use crate::radial::{self, UseArgs};
 use crate::region;
-use crate::conductivity::material_args as kt;
-use crate::network::{Group, Link, LinkFigure, Network, Node, NodeId};
 use crate::source::Sources;
 use crate::span::Span;
 use crate::symbols::{Symbol, SymbolKind, SymbolTable};
@@ -42,14 +42,27 @@ impl NameKinds for Kinds<'_> {
 const K_TYPICAL: (f64, f64) = (0.01, 1000.0);
 
 /// Elaborate parsed modules (the root first, then imports) into a network.
-pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, crate::units::Quantity)]) -> Elaborated {
+pub fn elaborate(
+    modules: &[&Module],
+    sources: &Sources,
+    overrides: &[(String, crate::units::Quantity)],
+) -> Elaborated {
     let mut diags = Vec::new();
     let mut symbols = SymbolTable::default();
     let mut title = None;
     let mut items: Vec<&Item> = Vec::new();
     for (i, m) in modules.iter().enumerate() {
         for item in &m.items {
-            if i > 0 && matches!(item.kind, ItemKind::Node { .. } | ItemKind::Link { .. } | ItemKind::Limit { .. } | ItemKind::Title { .. } | ItemKind::Region { .. }) {
+            if i > 0
+                && matches!(
+                    item.kind,
+                    ItemKind::Node { .. }
+                        | ItemKind::Link { .. }
+                        | ItemKind::Limit { .. }
+                        | ItemKind::Title { .. }
+                        | ItemKind::Region { .. }
+                )
+            {
                 diags.push(
                     Diagnostic::warning("W105", "an imported file's nodes, links, limits and title are not used", item.span)
                         .with_label("ignored in the importing model")
@@ -88,16 +101,32 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             ItemKind::Region { .. } => SymbolKind::Link,
             _ => SymbolKind::Limit,
         };
-        symbols.symbols.push(Symbol { name: name.name.clone(), kind, def: name.span, decl: item.span, refs: Vec::new(), parent: None });
+        symbols.symbols.push(Symbol {
+            name: name.name.clone(),
+            kind,
+            def: name.span,
+            decl: item.span,
+            refs: Vec::new(),
+            parent: None,
+        });
         if let ItemKind::Buildup { elements, .. } = &item.kind {
             let mut seen: HashMap<&str, Span> = HashMap::new();
             for e in elements {
                 if let Some(prev) = seen.insert(&e.name.name, e.name.span) {
                     diags.push(
-                        Diagnostic::error("E201", format!("build-up `{}` has two elements named `{}`", name.name, e.name.name), e.name.span)
-                            .with_label("second element with this name")
-                            .with_secondary(prev, "first one here")
-                            .with_help("give each element its own name; it names the interface node after it"),
+                        Diagnostic::error(
+                            "E201",
+                            format!(
+                                "build-up `{}` has two elements named `{}`",
+                                name.name, e.name.name
+                            ),
+                            e.name.span,
+                        )
+                        .with_label("second element with this name")
+                        .with_secondary(prev, "first one here")
+                        .with_help(
+                            "give each element its own name; it names the interface node after it",
+                        ),
                     );
                 }
                 symbols.symbols.push(Symbol {
@@ -120,7 +149,14 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     for (n, q) in overrides {
         ev.set_override(n, *q);
     }
-    let mut cx = Cx { ev, symbols, sources, diags, materials: Vec::new(), material_index: HashMap::new() };
+    let mut cx = Cx {
+        ev,
+        symbols,
+        sources,
+        diags,
+        materials: Vec::new(),
+        material_index: HashMap::new(),
+    };
 
     // 2. Parameters (all of them, so errors in unused ones are reported too).
     let mut param_values = Vec::new();
@@ -144,7 +180,13 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     for item in &items {
         if let ItemKind::Node { name, args } = &item.kind {
             let (fixed, load) = cx.node_args(name, args);
-            net.nodes.push(Node { name: name.name.clone(), span: name.span, fixed, load, generated: false });
+            net.nodes.push(Node {
+                name: name.name.clone(),
+                span: name.span,
+                fixed,
+                load,
+                generated: false,
+            });
         }
     }
 
@@ -161,7 +203,13 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             if let Some(els) = buildups.get(element.kind.name.as_str()) {
                 for e in els.iter().take(els.len().saturating_sub(1)) {
                     let gen = format!("{}.{}", name.name, e.name.name);
-                    net.nodes.push(Node { name: gen.clone(), span: e.name.span, fixed: None, load: 0.0, generated: true });
+                    net.nodes.push(Node {
+                        name: gen.clone(),
+                        span: e.name.span,
+                        fixed: None,
+                        load: 0.0,
+                        generated: true,
+                    });
                     cx.symbols.symbols.push(Symbol {
                         name: gen,
                         kind: SymbolKind::GeneratedNode,
@@ -174,8 +222,21 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             } else if let Some(kind) = elements::lookup(&element.kind.name) {
                 for suffix in kind.internal_nodes() {
                     let gen = format!("{}.{suffix}", name.name);
-                    net.nodes.push(Node { name: gen.clone(), span: name.span, fixed: None, load: 0.0, generated: true });
-                    cx.symbols.symbols.push(Symbol { name: gen, kind: SymbolKind::GeneratedNode, def: name.span, decl: item.span, refs: Vec::new(), parent: Some(name.name.clone()) });
+                    net.nodes.push(Node {
+                        name: gen.clone(),
+                        span: name.span,
+                        fixed: None,
+                        load: 0.0,
+                        generated: true,
+                    });
+                    cx.symbols.symbols.push(Symbol {
+                        name: gen,
+                        kind: SymbolKind::GeneratedNode,
+                        def: name.span,
+                        decl: item.span,
+                        refs: Vec::new(),
+                        parent: Some(name.name.clone()),
+                    });
                 }
             }
         }
@@ -183,11 +244,20 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     let mut plans = Vec::new();
     for item in &items {
         if let ItemKind::Region { name, args, .. } = &item.kind {
-            let Some(checked) = cx.args(&region::RegionArgs, args, item.span, &[]) else { continue };
+            let Some(checked) = cx.args(&region::RegionArgs, args, item.span, &[]) else {
+                continue;
+            };
             match region::Plan::new(&name.name, name.span, checked) {
                 Ok(mut plan) => {
                     for n in plan.add_nodes(&mut net) {
-                        cx.symbols.symbols.push(Symbol { name: n, kind: SymbolKind::GeneratedNode, def: name.span, decl: item.span, refs: Vec::new(), parent: Some(name.name.clone()) });
+                        cx.symbols.symbols.push(Symbol {
+                            name: n,
+                            kind: SymbolKind::GeneratedNode,
+                            def: name.span,
+                            decl: item.span,
+                            refs: Vec::new(),
+                            parent: Some(name.name.clone()),
+                        });
                     }
                     plans.push((item, plan));
                 }
@@ -195,7 +265,12 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             }
         }
     }
-    let node_index: HashMap<String, NodeId> = net.nodes.iter().enumerate().map(|(i, n)| (n.name.clone(), i)).collect();
+    let node_index: HashMap<String, NodeId> = net
+        .nodes
+        .iter()
+        .enumerate()
+        .map(|(i, n)| (n.name.clone(), i))
+        .collect();
     for (item, mut plan) in plans {
         if let ItemKind::Region { edges, .. } = &item.kind {
             plan.add_internal_links(&mut net);
@@ -205,16 +280,30 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     }
     let mut used = vec![false; net.nodes.len()];
     for item in &items {
-        let ItemKind::Link { name, from, to, element } = &item.kind else { continue };
+        let ItemKind::Link {
+            name,
+            from,
+            to,
+            element,
+        } = &item.kind
+        else {
+            continue;
+        };
         let a = cx.node_ref(from, &node_index, &buildups);
         let b = cx.node_ref(to, &node_index, &buildups);
         if let (Some(a), Some(b)) = (a, b) {
             if a == b {
                 cx.diags.push(
-                    Diagnostic::error("E208", format!("link `{}` joins node `{}` to itself", name.name, from.name), to.span)
-                        .with_label("same node at both ends")
-                        .with_secondary(from.span, "first end")
-                        .with_help("a link carries heat between two different nodes; check the node names"),
+                    Diagnostic::error(
+                        "E208",
+                        format!("link `{}` joins node `{}` to itself", name.name, from.name),
+                        to.span,
+                    )
+                    .with_label("same node at both ends")
+                    .with_secondary(from.span, "first end")
+                    .with_help(
+                        "a link carries heat between two different nodes; check the node names",
+                    ),
                 );
                 continue;
             }
@@ -234,10 +323,24 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
             if let (Some(a), Some(b), Some((law, built))) = (a, b, built) {
                 if let Some(args) = &args {
                     cx.diags.extend(kind.warnings(args));
-                    net.figures.extend(kind.figures(args).into_iter().map(|(n, v)| LinkFigure { link: net.links.len(), name: n, value: v }));
+                    net.figures
+                        .extend(kind.figures(args).into_iter().map(|(n, v)| LinkFigure {
+                            link: net.links.len(),
+                            name: n,
+                            value: v,
+                        }));
                     match kind.expand(args) {
                         Ok(Some(x)) => {
-                            cx.diags.extend(elements::expand_into(&mut net, &node_index, name, item.span, a, b, kind, x));
+                            cx.diags.extend(elements::expand_into(
+                                &mut net,
+                                &node_index,
+                                name,
+                                item.span,
+                                a,
+                                b,
+                                kind,
+                                x,
+                            ));
                             continue;
                         }
                         Ok(None) => {}
@@ -274,10 +377,27 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     // 6. Limits.
     let mut limit_specs = Vec::new();
     for item in &items {
-        if let ItemKind::Limit { name, measure, subject, op, value } = &item.kind {
+        if let ItemKind::Limit {
+            name,
+            measure,
+            subject,
+            op,
+            value,
+        } = &item.kind
+        {
             let kinds = Kinds(&cx.symbols);
             let q = cx.ev.eval(value, &kinds);
-            match limits::check_limit(name, measure, subject, *op, value, q, &net, &mut cx.symbols, sources) {
+            match limits::check_limit(
+                name,
+                measure,
+                subject,
+                *op,
+                value,
+                q,
+                &net,
+                &mut cx.symbols,
+                sources,
+            ) {
                 Ok(spec) => limit_specs.push(spec),
                 Err(Some(d)) => cx.diags.push(d),
                 Err(None) => {}
@@ -287,14 +407,22 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
 
     // 7. Connectivity, only when the network is otherwise sound (an unknown node name would
     // otherwise show up twice).
-    let has_errors = cx.diags.iter().chain(cx.ev.diags.iter()).any(|d| d.is_error());
+    let has_errors = cx
+        .diags
+        .iter()
+        .chain(cx.ev.diags.iter())
+        .any(|d| d.is_error());
     if !has_errors {
         for (i, n) in net.nodes.iter().enumerate() {
             if !used[i] && n.fixed.is_some() {
                 cx.diags.push(
-                    Diagnostic::warning("W102", format!("boundary node `{}` is not connected to anything", n.name), n.span)
-                        .with_label("no link ends here")
-                        .with_help("link it to the network or remove it"),
+                    Diagnostic::warning(
+                        "W102",
+                        format!("boundary node `{}` is not connected to anything", n.name),
+                        n.span,
+                    )
+                    .with_label("no link ends here")
+                    .with_help("link it to the network or remove it"),
                 );
             }
         }
@@ -316,12 +444,24 @@ pub fn elaborate(modules: &[&Module], sources: &Sources, overrides: &[(String, c
     }
     let mut diags = cx.diags;
     diags.extend(cx.ev.diags);
-    Elaborated { network: net, materials: cx.materials, limits: limit_specs, symbols: cx.symbols, params: param_values, title, diags }
+    Elaborated {
+        network: net,
+        materials: cx.materials,
+        limits: limit_specs,
+        symbols: cx.symbols,
+        params: param_values,
+        title,
+        diags,
+    }
 }
 
 fn floating_error(net: &Network, group: &[NodeId]) -> Diagnostic {
     let names: Vec<&str> = group.iter().map(|&i| net.nodes[i].name.as_str()).collect();
-    let shown = if names.len() > 6 { format!("{}, … ({} nodes)", names[..6].join(", "), names.len()) } else { names.join(", ") };
+    let shown = if names.len() > 6 {
+        format!("{}, … ({} nodes)", names[..6].join(", "), names.len())
+    } else {
+        names.join(", ")
+    };
     let first = &net.nodes[group[0]];
     let mut d = Diagnostic::error(
         "E301",
@@ -331,7 +471,10 @@ fn floating_error(net: &Network, group: &[NodeId]) -> Diagnostic {
     .with_label("floating: its temperature is undetermined")
     .with_help("link these nodes to a node with a fixed temperature; without one the network equations are singular");
     for &i in group.iter().skip(1).take(5) {
-        d = d.with_secondary(net.nodes[i].span, format!("`{}` is in the same floating group", net.nodes[i].name));
+        d = d.with_secondary(
+            net.nodes[i].span,
+            format!("`{}` is in the same floating group", net.nodes[i].name),
+        );
     }
     d
 }
@@ -366,11 +509,19 @@ impl<'a> Cx<'a> {
         if v > 0.0 && v.is_finite() {
             return true;
         }
-        let written = self.text(e.span).get(e.span.range()).unwrap_or("").to_string();
+        let written = self
+            .text(e.span)
+            .get(e.span.range())
+            .unwrap_or("")
+            .to_string();
         self.diags.push(
-            Diagnostic::error("E202", format!("{what} must be greater than zero; `{written}` is not"), e.span)
-                .with_label(if v == 0.0 { "zero" } else { "not positive" })
-                .with_help(format!("give {what} a positive value")),
+            Diagnostic::error(
+                "E202",
+                format!("{what} must be greater than zero; `{written}` is not"),
+                e.span,
+            )
+            .with_label(if v == 0.0 { "zero" } else { "not positive" })
+            .with_help(format!("give {what} a positive value")),
         );
         false
     }
@@ -394,9 +545,13 @@ impl<'a> Cx<'a> {
         for arg in args {
             let Some(an) = &arg.name else {
                 self.diags.push(
-                    Diagnostic::error("E204", "material properties are written `name = value`", arg.span)
-                        .with_label("property without a name")
-                        .with_help("write e.g. `k = 0.04 W/(m*K)`"),
+                    Diagnostic::error(
+                        "E204",
+                        "material properties are written `name = value`",
+                        arg.span,
+                    )
+                    .with_label("property without a name")
+                    .with_help("write e.g. `k = 0.04 W/(m*K)`"),
                 );
                 continue;
             };
@@ -408,7 +563,11 @@ impl<'a> Cx<'a> {
                 "k" if kt::is_table(&arg.value) => {
                     k = self.k_table(&arg.value, &mut k_of_t);
                 }
-                "k_slope" => k_of_t.slope = self.quantity(&arg.value, kt::SLOPE_DIM, "k_slope").map(|q| (q.value, arg.value.span)),
+                "k_slope" => {
+                    k_of_t.slope = self
+                        .quantity(&arg.value, kt::SLOPE_DIM, "k_slope")
+                        .map(|q| (q.value, arg.value.span))
+                }
                 "k_at" => {
                     if let Some(q) = self.quantity(&arg.value, Dim::TEMPERATURE, "k_at") {
                         match expect_point(q, "k_at", &arg.value) {
@@ -425,27 +584,41 @@ impl<'a> Cx<'a> {
                         }
                     }
                 }
-                "density" => density = self.quantity(&arg.value, Dim::DENSITY, "density").filter(|q| self.positive(q.value, &arg.value, "density")).map(|q| q.value),
+                "density" => {
+                    density = self
+                        .quantity(&arg.value, Dim::DENSITY, "density")
+                        .filter(|q| self.positive(q.value, &arg.value, "density"))
+                        .map(|q| q.value)
+                }
                 "specific_heat" => {
                     specific_heat = self
                         .quantity(&arg.value, Dim::SPECIFIC_HEAT, "specific_heat")
                         .filter(|q| self.positive(q.value, &arg.value, "specific_heat"))
                         .map(|q| q.value)
                 }
-                _ => self.unknown_arg(an, "a material", &["k", "k_slope", "k_at", "density", "specific_heat"]),
+                _ => self.unknown_arg(
+                    an,
+                    "a material",
+                    &["k", "k_slope", "k_at", "density", "specific_heat"],
+                ),
             }
         }
         let Some(k) = k else {
             if !seen.contains_key("k") {
                 self.diags.push(
-                    Diagnostic::error("E203", format!("material `{}` needs a conductivity `k`", name.name), name.span)
-                        .with_label("no `k`")
-                        .with_help("add it, e.g. `(k = 0.04 W/(m*K))`"),
+                    Diagnostic::error(
+                        "E203",
+                        format!("material `{}` needs a conductivity `k`", name.name),
+                        name.span,
+                    )
+                    .with_label("no `k`")
+                    .with_help("add it, e.g. `(k = 0.04 W/(m*K))`"),
                 );
             }
             return;
         };
-        self.material_index.insert(name.name.clone(), self.materials.len());
+        self.material_index
+            .insert(name.name.clone(), self.materials.len());
         let conductivity = match k_of_t.model(k, name) {
             Ok(c) => c,
             Err(d) => {
@@ -453,25 +626,39 @@ impl<'a> Cx<'a> {
                 return;
             }
         };
-        self.materials.push(Material { name: name.name.clone(), span: name.span, k, density, specific_heat, conductivity });
+        self.materials.push(Material {
+            name: name.name.clone(),
+            span: name.span,
+            k,
+            density,
+            specific_heat,
+            conductivity,
+        });
     }
 
     /// `k = table(T₁, k₁, T₂, k₂, …)`: evaluate and check the points; k at the first point is
     /// the material's nominal k.
     fn k_table(&mut self, e: &Expr, parts: &mut kt::Parts) -> Option<f64> {
-        let ExprKind::Call { args, .. } = &e.kind else { return None };
+        let ExprKind::Call { args, .. } = &e.kind else {
+            return None;
+        };
         let mut points = Vec::new();
         let mut ok = true;
         for pair in args.chunks(2) {
             let t = self.quantity(&pair[0], Dim::TEMPERATURE, "a table temperature");
-            let t = t.filter(|q| match expect_point(*q, "a table temperature", &pair[0]) {
-                Ok(()) => true,
-                Err(d) => {
-                    self.diags.push(d);
-                    false
-                }
+            let t = t.filter(
+                |q| match expect_point(*q, "a table temperature", &pair[0]) {
+                    Ok(()) => true,
+                    Err(d) => {
+                        self.diags.push(d);
+                        false
+                    }
+                },
+            );
+            let k = pair.get(1).and_then(|v| {
+                self.quantity(v, Dim::CONDUCTIVITY, "a table conductivity")
+                    .filter(|q| self.positive(q.value, v, "k"))
             });
-            let k = pair.get(1).and_then(|v| self.quantity(v, Dim::CONDUCTIVITY, "a table conductivity").filter(|q| self.positive(q.value, v, "k")));
             match (t, k) {
                 (Some(t), Some(k)) => points.push((t.value, k.value, pair[0].span)),
                 _ => ok = false,
@@ -513,9 +700,13 @@ impl<'a> Cx<'a> {
                     if let Some(q) = self.quantity(&arg.value, Dim::TEMPERATURE, "fixed") {
                         match expect_point(q, "fixed", &arg.value) {
                             Ok(()) if q.value <= 0.0 => self.diags.push(
-                                Diagnostic::error("E202", "this temperature is at or below absolute zero", arg.value.span)
-                                    .with_label("below 0 K")
-                                    .with_help("check the value and its unit (°C, °F or K)"),
+                                Diagnostic::error(
+                                    "E202",
+                                    "this temperature is at or below absolute zero",
+                                    arg.value.span,
+                                )
+                                .with_label("below 0 K")
+                                .with_help("check the value and its unit (°C, °F or K)"),
                             ),
                             Ok(()) => fixed = Some(q.value),
                             Err(d) => self.diags.push(d),
@@ -533,16 +724,30 @@ impl<'a> Cx<'a> {
         }
         if let (Some(_), Some(ls)) = (fixed, load_span) {
             self.diags.push(
-                Diagnostic::error("E209", format!("node `{}` is fixed, so a load on it has no effect", name.name), ls)
-                    .with_label("load on a fixed node")
-                    .with_help("put the load on a free node linked to it, or remove `fixed`"),
+                Diagnostic::error(
+                    "E209",
+                    format!(
+                        "node `{}` is fixed, so a load on it has no effect",
+                        name.name
+                    ),
+                    ls,
+                )
+                .with_label("load on a fixed node")
+                .with_help("put the load on a free node linked to it, or remove `fixed`"),
             );
         }
         (fixed, load)
     }
 
     /// Attach a region's edges and faces to their nodes, each through its element if it has one.
-    fn region_edges(&mut self, plan: &mut region::Plan, edges: &[RegionEdge], net: &mut Network, index: &HashMap<String, NodeId>, buildups: &HashMap<&str, &Vec<BuildupElement>>) {
+    fn region_edges(
+        &mut self,
+        plan: &mut region::Plan,
+        edges: &[RegionEdge],
+        net: &mut Network,
+        index: &HashMap<String, NodeId>,
+        buildups: &HashMap<&str, &Vec<BuildupElement>>,
+    ) {
         let mut seen: HashMap<&str, Span> = HashMap::new();
         for e in edges {
             if !region::SIDES.contains(&e.side.name.as_str()) {
@@ -553,11 +758,15 @@ impl<'a> Cx<'a> {
                 self.duplicate_arg(&e.side, prev);
                 continue;
             }
-            let Some(node) = self.node_ref(&e.node, index, buildups) else { continue };
+            let Some(node) = self.node_ref(&e.node, index, buildups) else {
+                continue;
+            };
             let element = match &e.element {
                 None => None,
                 Some(call) => {
-                    let Some(kind) = elements::lookup(&call.kind.name).filter(|k| k.takes_area() && k.single_link()) else {
+                    let Some(kind) = elements::lookup(&call.kind.name)
+                        .filter(|k| k.takes_area() && k.single_link())
+                    else {
                         self.diags.push(
                             Diagnostic::error("E206", format!("`{}` cannot attach a region's edge", call.kind.name), call.kind.span)
                                 .with_label("not an element with an area")
@@ -566,7 +775,11 @@ impl<'a> Cx<'a> {
                         continue;
                     };
                     let area = plan.cell_area(&e.side.name);
-                    let Some(args) = self.args(kind, &call.args, call.span, &[("area", area, e.side.span)]) else { continue };
+                    let Some(args) =
+                        self.args(kind, &call.args, call.span, &[("area", area, e.side.span)])
+                    else {
+                        continue;
+                    };
                     match kind.law(&args) {
                         Ok((law, _)) => Some((kind.name(), law)),
                         Err(d) => {
@@ -590,40 +803,82 @@ impl<'a> Cx<'a> {
     }
 
     fn unknown_arg(&mut self, an: &Ident, what: &str, known: &[&str]) {
-        let list = known.iter().map(|k| format!("`{k}`")).collect::<Vec<_>>().join(", ");
-        let mut d = Diagnostic::error("E204", format!("{what} has no argument `{}`", an.name), an.span).with_label("unknown argument");
+        let list = known
+            .iter()
+            .map(|k| format!("`{k}`"))
+            .collect::<Vec<_>>()
+            .join(", ");
+        let mut d = Diagnostic::error(
+            "E204",
+            format!("{what} has no argument `{}`", an.name),
+            an.span,
+        )
+        .with_label("unknown argument");
         d = match did_you_mean(&an.name, known.iter().copied()) {
-            Some(s) => d.with_help(format!("did you mean `{s}`? It takes {list}")).with_fix(format!("Replace with `{s}`"), an.span, s),
+            Some(s) => d
+                .with_help(format!("did you mean `{s}`? It takes {list}"))
+                .with_fix(format!("Replace with `{s}`"), an.span, s),
             None => d.with_help(format!("it takes {list}")),
         };
         self.diags.push(d);
     }
 
     fn unknown_kind(&mut self, kind: &Ident, buildups: &HashMap<&str, &Vec<BuildupElement>>) {
-        let names: Vec<&str> = elements::ALL.iter().map(|k| k.name()).chain(buildups.keys().copied()).collect();
-        let mut d = Diagnostic::error("E206", format!("unknown link kind `{}`", kind.name), kind.span).with_label("not an element kind or build-up");
-        let list = elements::ALL.iter().map(|k| format!("`{}`", k.name())).collect::<Vec<_>>().join(", ");
+        let names: Vec<&str> = elements::ALL
+            .iter()
+            .map(|k| k.name())
+            .chain(buildups.keys().copied())
+            .collect();
+        let mut d = Diagnostic::error(
+            "E206",
+            format!("unknown link kind `{}`", kind.name),
+            kind.span,
+        )
+        .with_label("not an element kind or build-up");
+        let list = elements::ALL
+            .iter()
+            .map(|k| format!("`{}`", k.name()))
+            .collect::<Vec<_>>()
+            .join(", ");
         d = match did_you_mean(&kind.name, names) {
-            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), kind.span, s),
+            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
+                format!("Replace with `{s}`"),
+                kind.span,
+                s,
+            ),
             None => d.with_help(format!("use one of {list}, or the name of a `buildup`")),
         };
         self.diags.push(d);
     }
 
-    fn node_ref(&mut self, id: &Ident, index: &HashMap<String, NodeId>, buildups: &HashMap<&str, &Vec<BuildupElement>>) -> Option<NodeId> {
+    fn node_ref(
+        &mut self,
+        id: &Ident,
+        index: &HashMap<String, NodeId>,
+        buildups: &HashMap<&str, &Vec<BuildupElement>>,
+    ) -> Option<NodeId> {
         if let Some(&i) = index.get(&id.name) {
             self.symbols.add_ref(&id.name, id.span);
             return Some(i);
         }
         let mut d;
         if let Some(s) = self.symbols.get(&id.name) {
-            d = Diagnostic::error("E105", format!("`{}` is {}, not a node", id.name, s.kind.article()), id.span)
-                .with_label("a link's ends must be nodes")
-                .with_secondary(s.def, "declared here");
+            d = Diagnostic::error(
+                "E105",
+                format!("`{}` is {}, not a node", id.name, s.kind.article()),
+                id.span,
+            )
+            .with_label("a link's ends must be nodes")
+            .with_secondary(s.def, "declared here");
         } else {
-            d = Diagnostic::error("E102", format!("unknown node `{}`", id.name), id.span).with_label("no node has this name");
+            d = Diagnostic::error("E102", format!("unknown node `{}`", id.name), id.span)
+                .with_label("no node has this name");
             if let Some(s) = did_you_mean(&id.name, index.keys().map(|s| s.as_str())) {
-                d = d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), id.span, s);
+                d = d.with_help(format!("did you mean `{s}`?")).with_fix(
+                    format!("Replace with `{s}`"),
+                    id.span,
+                    s,
+                );
             } else if let Some((link, elem)) = id.name.split_once('.') {
                 let _ = buildups;
                 d = d.with_help(format!(
@@ -639,7 +894,13 @@ impl<'a> Cx<'a> {
 
     /// Check an element's arguments against its schema. `area` is supplied by the link when the
     /// element sits in a build-up.
-    fn args(&mut self, kind: &'static dyn ElementKind, args: &[Arg], call_span: Span, supplied: &[(&'static str, f64, Span)]) -> Option<Args> {
+    fn args(
+        &mut self,
+        kind: &'static dyn ElementKind,
+        args: &[Arg],
+        call_span: Span,
+        supplied: &[(&'static str, f64, Span)],
+    ) -> Option<Args> {
         let specs = kind.params();
         let mut values = HashMap::new();
         let mut ok = true;
@@ -657,9 +918,21 @@ impl<'a> Cx<'a> {
                 None if i == 0 => &specs[0],
                 None => {
                     self.diags.push(
-                        Diagnostic::error("E204", "only the first argument may be written without its name", arg.span)
-                            .with_label("argument without a name")
-                            .with_help(format!("write `name = value`; `{}` takes {}", kind.name(), specs.iter().map(|s| format!("`{}`", s.name)).collect::<Vec<_>>().join(", "))),
+                        Diagnostic::error(
+                            "E204",
+                            "only the first argument may be written without its name",
+                            arg.span,
+                        )
+                        .with_label("argument without a name")
+                        .with_help(format!(
+                            "write `name = value`; `{}` takes {}",
+                            kind.name(),
+                            specs
+                                .iter()
+                                .map(|s| format!("`{}`", s.name))
+                                .collect::<Vec<_>>()
+                                .join(", ")
+                        )),
                     );
                     ok = false;
                     continue;
@@ -668,51 +941,85 @@ impl<'a> Cx<'a> {
             let key_span = arg.name.as_ref().map(|n| n.span).unwrap_or(arg.span);
             if let Some((_, prev)) = values.get(spec.name) {
                 let prev: Span = *prev;
-                self.duplicate_arg(&Ident { name: spec.name.to_string(), span: key_span }, prev);
+                self.duplicate_arg(
+                    &Ident {
+                        name: spec.name.to_string(),
+                        span: key_span,
+                    },
+                    prev,
+                );
                 ok = false;
                 continue;
             }
             if supplied.iter().any(|s| s.0 == spec.name) {
-                self.diags.push(radial::supplied_inside(spec.name, arg.span));
+                self.diags
+                    .push(radial::supplied_inside(spec.name, arg.span));
                 ok = false;
                 continue;
             }
             match spec.ty {
-                ArgType::Material => match &arg.value.kind {
-                    ExprKind::Name(id) if self.material_index.contains_key(&id.name) => {
-                        self.symbols.add_ref(&id.name, id.span);
-                        let m = self.materials[self.material_index[&id.name]].clone();
-                        values.insert(spec.name, (ArgValue::Material(m), arg.value.span));
-                    }
-                    ExprKind::Name(id) if self.symbols.get(&id.name).is_some_and(|s| s.kind == SymbolKind::Material) => {
-                        // The material itself failed to check; its error is already reported.
-                        self.symbols.add_ref(&id.name, id.span);
-                        ok = false;
-                    }
-                    ExprKind::Name(id) => {
-                        ok = false;
-                        let known: Vec<&str> = self.symbols.names_of(SymbolKind::Material).collect();
-                        let mut d = if let Some(s) = self.symbols.get(&id.name) {
-                            Diagnostic::error("E105", format!("`{}` is {}, not a material", id.name, s.kind.article()), id.span)
+                ArgType::Material => {
+                    match &arg.value.kind {
+                        ExprKind::Name(id) if self.material_index.contains_key(&id.name) => {
+                            self.symbols.add_ref(&id.name, id.span);
+                            let m = self.materials[self.material_index[&id.name]].clone();
+                            values.insert(spec.name, (ArgValue::Material(m), arg.value.span));
+                        }
+                        ExprKind::Name(id)
+                            if self
+                                .symbols
+                                .get(&id.name)
+                                .is_some_and(|s| s.kind == SymbolKind::Material) =>
+                        {
+                            // The material itself failed to check; its error is already reported.
+                            self.symbols.add_ref(&id.name, id.span);
+                            ok = false;
+                        }
+                        ExprKind::Name(id) => {
+                            ok = false;
+                            let known: Vec<&str> =
+                                self.symbols.names_of(SymbolKind::Material).collect();
+                            let mut d = if let Some(s) = self.symbols.get(&id.name) {
+                                Diagnostic::error(
+                                    "E105",
+                                    format!(
+                                        "`{}` is {}, not a material",
+                                        id.name,
+                                        s.kind.article()
+                                    ),
+                                    id.span,
+                                )
                                 .with_label("a material was expected")
-                        } else {
-                            Diagnostic::error("E102", format!("unknown material `{}`", id.name), id.span).with_label("no material has this name")
-                        };
-                        d = match did_you_mean(&id.name, known) {
-                            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), id.span, s),
-                            None => d.with_help(format!("declare it, e.g. `material {} (k = 0.04 W/(m*K))`", id.name)),
-                        };
-                        self.diags.push(d);
-                    }
-                    _ => {
-                        ok = false;
-                        self.diags.push(
+                            } else {
+                                Diagnostic::error(
+                                    "E102",
+                                    format!("unknown material `{}`", id.name),
+                                    id.span,
+                                )
+                                .with_label("no material has this name")
+                            };
+                            d =
+                                match did_you_mean(&id.name, known) {
+                                    Some(s) => d
+                                        .with_help(format!("did you mean `{s}`?"))
+                                        .with_fix(format!("Replace with `{s}`"), id.span, s),
+                                    None => d.with_help(format!(
+                                        "declare it, e.g. `material {} (k = 0.04 W/(m*K))`",
+                                        id.name
+                                    )),
+                                };
+                            self.diags.push(d);
+                        }
+                        _ => {
+                            ok = false;
+                            self.diags.push(
                             Diagnostic::error("E101", format!("`{}` expects the name of a material", spec.name), arg.value.span)
                                 .with_label("not a material name")
                                 .with_help("name a declared material, or give the conductivity as `k = ...`"),
                         );
+                        }
                     }
-                },
+                }
                 ArgType::Quantity(dim) => match self.quantity(&arg.value, dim, spec.name) {
                     Some(q) => {
                         if spec.positive && !self.positive(q.value, &arg.value, spec.name) {
@@ -733,7 +1040,11 @@ impl<'a> Cx<'a> {
                 values.insert(name, (ArgValue::Quantity(v), span));
             }
         }
-        ok.then_some(Args { kind: kind.name(), values, call_span })
+        ok.then_some(Args {
+            kind: kind.name(),
+            values,
+            call_span,
+        })
     }
 
     #[allow(clippy::too_many_arguments)]
@@ -748,7 +1059,9 @@ impl<'a> Cx<'a> {
         els: &[BuildupElement],
     ) {
         let geom = shell::geometry(els.iter().map(|e| e.element.kind.name.as_str()));
-        let Some(use_args) = self.buildup_use_args(call, els, geom) else { return };
+        let Some(use_args) = self.buildup_use_args(call, els, geom) else {
+            return;
+        };
         let group_id = net.groups.len();
         let mut links = Vec::new();
         let mut prev = from;
@@ -756,13 +1069,24 @@ impl<'a> Cx<'a> {
         // Each shell starts at the radius where the one before it ended.
         let mut chain = radial::Chain::new(geom, use_args.inner_radius);
         for (i, e) in els.iter().enumerate() {
-            let next = if i + 1 == els.len() { to } else { index.get(&format!("{}.{}", name.name, e.name.name)).copied() };
+            let next = if i + 1 == els.len() {
+                to
+            } else {
+                index
+                    .get(&format!("{}.{}", name.name, e.name.name))
+                    .copied()
+            };
             let Some(kind) = elements::lookup(&e.element.kind.name) else {
                 // Reported once at the build-up (below) rather than at every use.
                 complete = false;
                 continue;
             };
-            let args = self.args(kind, &e.element.args, e.element.span, &use_args.supplied(geom, chain.radius));
+            let args = self.args(
+                kind,
+                &e.element.args,
+                e.element.span,
+                &use_args.supplied(geom, chain.radius),
+            );
             let built = args.as_ref().and_then(|a| match kind.law(a) {
                 Ok(b) => Some(b),
                 Err(d) => {
@@ -770,12 +1094,23 @@ impl<'a> Cx<'a> {
                     None
                 }
             });
-            chain.advance(i, kind, e.element.span, args.as_ref(), built.as_ref().map(|b| &b.1));
+            chain.advance(
+                i,
+                kind,
+                e.element.span,
+                args.as_ref(),
+                built.as_ref().map(|b| &b.1),
+            );
             match (prev, next, built) {
                 (Some(a), Some(b), Some((law, built))) => {
                     if let Some(args) = &args {
                         self.diags.extend(kind.warnings(args));
-                        net.figures.extend(kind.figures(args).into_iter().map(|(n, v)| LinkFigure { link: net.links.len(), name: n, value: v }));
+                        net.figures
+                            .extend(kind.figures(args).into_iter().map(|(n, v)| LinkFigure {
+                                link: net.links.len(),
+                                name: n,
+                                value: v,
+                            }));
                     }
                     links.push(net.links.len());
                     net.links.push(Link {
@@ -797,19 +1132,40 @@ impl<'a> Cx<'a> {
         if complete {
             self.diags.extend(chain.critical_radius_warning(name, els));
             if let (Some(a), Some(b)) = (from, to) {
-                let area = if geom == shell::Geometry::Plane { use_args.area.map(|a| a.0) } else { None };
-                net.groups.push(Group { name: name.name.clone(), span: name.span, buildup: call.kind.name.clone(), from: a, to: b, area, links });
+                let area = if geom == shell::Geometry::Plane {
+                    use_args.area.map(|a| a.0)
+                } else {
+                    None
+                };
+                net.groups.push(Group {
+                    name: name.name.clone(),
+                    span: name.span,
+                    buildup: call.kind.name.clone(),
+                    from: a,
+                    to: b,
+                    area,
+                    links,
+                });
             }
         }
     }
 
     /// The arguments of a link that uses a build-up: the area of a plane build-up, the bore
     /// radius (and the length of a cylindrical one) of a radial build-up.
-    fn buildup_use_args(&mut self, call: &ElementCall, els: &[BuildupElement], geom: shell::Geometry) -> Option<UseArgs> {
+    fn buildup_use_args(
+        &mut self,
+        call: &ElementCall,
+        els: &[BuildupElement],
+        geom: shell::Geometry,
+    ) -> Option<UseArgs> {
         let allowed = radial::use_arg_names(geom);
         let mut found: HashMap<&'static str, (f64, Span)> = HashMap::new();
         for arg in &call.args {
-            let key = arg.name.as_ref().map(|n| n.name.as_str()).unwrap_or(allowed[0]);
+            let key = arg
+                .name
+                .as_ref()
+                .map(|n| n.name.as_str())
+                .unwrap_or(allowed[0]);
             match allowed.iter().find(|a| **a == key) {
                 Some(&k) if !found.contains_key(k) => {
                     let dim = if k == "area" { Dim::AREA } else { Dim::LENGTH };
@@ -820,17 +1176,26 @@ impl<'a> Cx<'a> {
                     }
                 }
                 _ => {
-                    let n = arg.name.clone().unwrap_or(Ident { name: "value".into(), span: arg.span });
+                    let n = arg.name.clone().unwrap_or(Ident {
+                        name: "value".into(),
+                        span: arg.span,
+                    });
                     self.unknown_arg(&n, &format!("build-up `{}`", call.kind.name), allowed);
                 }
             }
         }
-        let needs_area = els.iter().any(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| k.takes_area()));
+        let needs_area = els
+            .iter()
+            .any(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| k.takes_area()));
         if let Some(d) = radial::missing_use_args(call, geom, allowed, &found, needs_area) {
             self.diags.push(d);
             return None;
         }
-        Some(UseArgs { area: found.get("area").copied(), inner_radius: found.get("inner_radius").copied(), length: found.get("length").copied() })
+        Some(UseArgs {
+            area: found.get("area").copied(),
+            inner_radius: found.get("inner_radius").copied(),
+            length: found.get("length").copied(),
+        })
     }
 }
 
@@ -838,7 +1203,11 @@ impl<'a> Cx<'a> {
 pub fn check_buildup_kinds(module: &Module) -> Vec<Diagnostic> {
     let mut out = Vec::new();
     for item in &module.items {
-        if let ItemKind::Buildup { elements: els, name } = &item.kind {
+        if let ItemKind::Buildup {
+            elements: els,
+            name,
+        } = &item.kind
+        {
             if els.is_empty() {
                 out.push(
                     Diagnostic::error("E203", format!("build-up `{}` has no elements", name.name), name.span)
@@ -847,21 +1216,45 @@ pub fn check_buildup_kinds(module: &Module) -> Vec<Diagnostic> {
                 );
             }
             out.extend(shell::check_mixed(els));
-            for e in els.iter().filter(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| !k.single_link())) {
+            for e in els.iter().filter(|e| {
+                elements::lookup(&e.element.kind.name).is_some_and(|k| !k.single_link())
+            }) {
                 out.push(
-                    Diagnostic::error("E217", format!("`{}` cannot be an element of a build-up", e.element.kind.name), e.element.kind.span)
-                        .with_label("makes its own nodes and heat")
-                        .with_help("declare it as a link of its own between the two nodes it joins"),
+                    Diagnostic::error(
+                        "E217",
+                        format!(
+                            "`{}` cannot be an element of a build-up",
+                            e.element.kind.name
+                        ),
+                        e.element.kind.span,
+                    )
+                    .with_label("makes its own nodes and heat")
+                    .with_help("declare it as a link of its own between the two nodes it joins"),
                 );
             }
             for e in els {
                 if elements::lookup(&e.element.kind.name).is_none() {
                     let names = elements::ALL.iter().map(|k| k.name());
-                    let mut d = Diagnostic::error("E206", format!("unknown element kind `{}`", e.element.kind.name), e.element.kind.span)
-                        .with_label("not an element kind");
+                    let mut d = Diagnostic::error(
+                        "E206",
+                        format!("unknown element kind `{}`", e.element.kind.name),
+                        e.element.kind.span,
+                    )
+                    .with_label("not an element kind");
                     d = match did_you_mean(&e.element.kind.name, names) {
-                        Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), e.element.kind.span, s),
-                        None => d.with_help(format!("a build-up element is one of {}", elements::ALL.iter().map(|k| format!("`{}(...)`", k.name())).collect::<Vec<_>>().join(", "))),
+                        Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
+                            format!("Replace with `{s}`"),
+                            e.element.kind.span,
+                            s,
+                        ),
+                        None => d.with_help(format!(
+                            "a build-up element is one of {}",
+                            elements::ALL
+                                .iter()
+                                .map(|k| format!("`{}(...)`", k.name()))
+                                .collect::<Vec<_>>()
+                                .join(", ")
+                        )),
                     };
                     out.push(d);
                 }

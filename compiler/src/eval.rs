@@ -69,14 +69,22 @@ impl<'a> Evaluator<'a> {
         let (ident, expr) = *self.params.get(name)?;
         if self.state.get(name) == Some(&State::Active) {
             let start = self.stack.iter().position(|i| i.name == name).unwrap_or(0);
-            let chain: Vec<&str> = self.stack[start..].iter().map(|i| i.name.as_str()).collect();
+            let chain: Vec<&str> = self.stack[start..]
+                .iter()
+                .map(|i| i.name.as_str())
+                .collect();
             let mut d = Diagnostic::error(
                 "E104",
-                format!("parameter `{name}` depends on itself: {} -> {name}", chain.join(" -> ")),
+                format!(
+                    "parameter `{name}` depends on itself: {} -> {name}",
+                    chain.join(" -> ")
+                ),
                 ident.span,
             )
             .with_label("defined in a cycle")
-            .with_help("give one of these parameters a value that does not refer back to the others");
+            .with_help(
+                "give one of these parameters a value that does not refer back to the others",
+            );
             for i in &self.stack[start + 1..] {
                 d = d.with_secondary(i.span, format!("`{}` is part of the cycle", i.name));
             }
@@ -106,13 +114,20 @@ impl<'a> Evaluator<'a> {
                 let q = self.eval(inner, others)?;
                 if q.kind == TempKind::Point {
                     self.diags.push(
-                        Diagnostic::error("E103", "a temperature on a scale cannot be negated", e.span)
-                            .with_label("negating a temperature point")
-                            .with_help("negate a difference instead, e.g. `-(t_in - t_out)`"),
+                        Diagnostic::error(
+                            "E103",
+                            "a temperature on a scale cannot be negated",
+                            e.span,
+                        )
+                        .with_label("negating a temperature point")
+                        .with_help("negate a difference instead, e.g. `-(t_in - t_out)`"),
                     );
                     return None;
                 }
-                Some(Quantity { value: -q.value, ..q })
+                Some(Quantity {
+                    value: -q.value,
+                    ..q
+                })
             }
             ExprKind::Binary { op, lhs, rhs } => {
                 let a = self.eval(lhs, others);
@@ -121,22 +136,37 @@ impl<'a> Evaluator<'a> {
                 self.binary(*op, a, b, e.span, lhs.span, rhs.span)
             }
             ExprKind::Call { func, args } => {
-                let vals: Vec<Option<Quantity>> = args.iter().map(|a| self.eval(a, others)).collect();
+                let vals: Vec<Option<Quantity>> =
+                    args.iter().map(|a| self.eval(a, others)).collect();
                 let vals: Option<Vec<Quantity>> = vals.into_iter().collect();
                 self.call(func, &vals?, args, e.span)
             }
         }
     }
 
-    fn literal(&mut self, value: f64, unit: Option<&(String, Span)>, span: Span) -> Option<Quantity> {
+    fn literal(
+        &mut self,
+        value: f64,
+        unit: Option<&(String, Span)>,
+        span: Span,
+    ) -> Option<Quantity> {
         let Some((text, uspan)) = unit else {
-            return Some(Quantity { value, dim: Dim::NONE, kind: TempKind::NotTemperature });
+            return Some(Quantity {
+                value,
+                dim: Dim::NONE,
+                kind: TempKind::NotTemperature,
+            });
         };
         match parse_unit(text) {
             Ok(u) => Some(u.to_si(value)),
             Err(err) => {
-                let at = Span { start: uspan.start + err.start as u32, end: uspan.start + err.end as u32, ..*uspan };
-                let mut d = Diagnostic::error("E100", err.message.clone(), at).with_label("not a known unit");
+                let at = Span {
+                    start: uspan.start + err.start as u32,
+                    end: uspan.start + err.end as u32,
+                    ..*uspan
+                };
+                let mut d = Diagnostic::error("E100", err.message.clone(), at)
+                    .with_label("not a known unit");
                 if let Some(h) = err.help.clone() {
                     d = d.with_help(h);
                 }
@@ -149,22 +179,36 @@ impl<'a> Evaluator<'a> {
 
     fn name(&mut self, id: &Ident, others: &dyn NameKinds) -> Option<Quantity> {
         if id.name == "pi" {
-            return Some(Quantity { value: std::f64::consts::PI, dim: Dim::NONE, kind: TempKind::NotTemperature });
+            return Some(Quantity {
+                value: std::f64::consts::PI,
+                dim: Dim::NONE,
+                kind: TempKind::NotTemperature,
+            });
         }
         if self.params.contains_key(id.name.as_str()) || self.overrides.contains_key(&id.name) {
             self.references.push((id.name.clone(), id.span));
             return self.param(&id.name, others);
         }
         let d = if let Some(kind) = others.kind_of(&id.name) {
-            Diagnostic::error("E105", format!("`{}` is {kind}, not a value", id.name), id.span)
-                .with_label(format!("{kind} used in arithmetic"))
-                .with_help("only parameters (`param`) and numbers with units can be used in expressions")
+            Diagnostic::error(
+                "E105",
+                format!("`{}` is {kind}, not a value", id.name),
+                id.span,
+            )
+            .with_label(format!("{kind} used in arithmetic"))
+            .with_help(
+                "only parameters (`param`) and numbers with units can be used in expressions",
+            )
         } else {
             let mut d = Diagnostic::error("E102", format!("unknown name `{}`", id.name), id.span)
                 .with_label("no parameter has this name");
             let names: Vec<&str> = self.params.keys().copied().chain(["pi"]).collect();
             if let Some(s) = did_you_mean(&id.name, names) {
-                d = d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), id.span, s);
+                d = d.with_help(format!("did you mean `{s}`?")).with_fix(
+                    format!("Replace with `{s}`"),
+                    id.span,
+                    s,
+                );
             } else {
                 d = d.with_help(format!("declare it, e.g. `param {} = 1 m`", id.name));
             }
@@ -174,7 +218,15 @@ impl<'a> Evaluator<'a> {
         None
     }
 
-    fn binary(&mut self, op: BinOp, a: Quantity, b: Quantity, span: Span, ls: Span, rs: Span) -> Option<Quantity> {
+    fn binary(
+        &mut self,
+        op: BinOp,
+        a: Quantity,
+        b: Quantity,
+        span: Span,
+        ls: Span,
+        rs: Span,
+    ) -> Option<Quantity> {
         use TempKind::*;
         let plain = NotTemperature;
         match op {
@@ -190,7 +242,11 @@ impl<'a> Evaluator<'a> {
                     );
                     return None;
                 }
-                let value = if op == BinOp::Add { a.value + b.value } else { a.value - b.value };
+                let value = if op == BinOp::Add {
+                    a.value + b.value
+                } else {
+                    a.value - b.value
+                };
                 let kind = match (op, a.kind, b.kind) {
                     (BinOp::Add, Point, Point) => {
                         self.diags.push(
@@ -203,9 +259,13 @@ impl<'a> Evaluator<'a> {
                     (BinOp::Sub, Point, Point) => Difference,
                     (BinOp::Sub, Difference, Point) | (BinOp::Sub, Absolute, Point) => {
                         self.diags.push(
-                            Diagnostic::error("E103", "cannot subtract a temperature on a scale from a difference", span)
-                                .with_label("difference - point has no meaning")
-                                .with_help("write the temperature first: `t - 5 K`"),
+                            Diagnostic::error(
+                                "E103",
+                                "cannot subtract a temperature on a scale from a difference",
+                                span,
+                            )
+                            .with_label("difference - point has no meaning")
+                            .with_help("write the temperature first: `t - 5 K`"),
                         );
                         return None;
                     }
@@ -214,7 +274,11 @@ impl<'a> Evaluator<'a> {
                     (_, Absolute, Absolute) => Absolute,
                     (_, k, _) => k,
                 };
-                Some(Quantity { value, dim: a.dim, kind })
+                Some(Quantity {
+                    value,
+                    dim: a.dim,
+                    kind,
+                })
             }
             BinOp::Mul | BinOp::Div => {
                 for (q, s) in [(a, ls), (b, rs)] {
@@ -232,7 +296,9 @@ impl<'a> Evaluator<'a> {
                 } else {
                     if b.value == 0.0 {
                         self.diags.push(
-                            Diagnostic::error("E106", "division by zero", rs).with_label("this is zero").with_help("check the divisor"),
+                            Diagnostic::error("E106", "division by zero", rs)
+                                .with_label("this is zero")
+                                .with_help("check the divisor"),
                         );
                         return None;
                     }
@@ -251,8 +317,15 @@ impl<'a> Evaluator<'a> {
             BinOp::Pow => {
                 if !b.dim.is_none() {
                     self.diags.push(
-                        Diagnostic::error("E101", format!("an exponent must be a dimensionless number, not {}", b.dim.describe()), rs)
-                            .with_label("exponent with a unit"),
+                        Diagnostic::error(
+                            "E101",
+                            format!(
+                                "an exponent must be a dimensionless number, not {}",
+                                b.dim.describe()
+                            ),
+                            rs,
+                        )
+                        .with_label("exponent with a unit"),
                     );
                     return None;
                 }
@@ -265,28 +338,59 @@ impl<'a> Evaluator<'a> {
                 };
                 let Some(dim) = dim else {
                     self.diags.push(
-                        Diagnostic::error("E101", format!("{} can only be raised to a whole-number power", a.dim.describe()), rs)
-                            .with_label("not a whole number")
-                            .with_help("use `sqrt` for square roots of areas and similar"),
+                        Diagnostic::error(
+                            "E101",
+                            format!(
+                                "{} can only be raised to a whole-number power",
+                                a.dim.describe()
+                            ),
+                            rs,
+                        )
+                        .with_label("not a whole number")
+                        .with_help("use `sqrt` for square roots of areas and similar"),
                     );
                     return None;
                 };
-                let kind = if dim == Dim::TEMPERATURE { a.kind } else { plain };
-                Some(Quantity { value: a.value.powf(b.value), dim, kind })
+                let kind = if dim == Dim::TEMPERATURE {
+                    a.kind
+                } else {
+                    plain
+                };
+                Some(Quantity {
+                    value: a.value.powf(b.value),
+                    dim,
+                    kind,
+                })
             }
         }
     }
 
-    fn call(&mut self, func: &Ident, vals: &[Quantity], args: &[Expr], span: Span) -> Option<Quantity> {
+    fn call(
+        &mut self,
+        func: &Ident,
+        vals: &[Quantity],
+        args: &[Expr],
+        span: Span,
+    ) -> Option<Quantity> {
         let arity = match func.name.as_str() {
             "sqrt" | "ln" | "exp" | "abs" => 1,
             "min" | "max" => 2,
             _ => {
-                let mut d = Diagnostic::error("E107", format!("unknown function `{}`", func.name), func.span)
-                    .with_label("not a function")
-                    .with_help("the functions are sqrt, ln, exp, abs, min and max");
-                if let Some(s) = did_you_mean(&func.name, ["sqrt", "ln", "exp", "abs", "min", "max"]) {
-                    d = d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), func.span, s);
+                let mut d = Diagnostic::error(
+                    "E107",
+                    format!("unknown function `{}`", func.name),
+                    func.span,
+                )
+                .with_label("not a function")
+                .with_help("the functions are sqrt, ln, exp, abs, min and max");
+                if let Some(s) =
+                    did_you_mean(&func.name, ["sqrt", "ln", "exp", "abs", "min", "max"])
+                {
+                    d = d.with_help(format!("did you mean `{s}`?")).with_fix(
+                        format!("Replace with `{s}`"),
+                        func.span,
+                        s,
+                    );
                 }
                 self.diags.push(d);
                 return None;
@@ -294,8 +398,17 @@ impl<'a> Evaluator<'a> {
         };
         if vals.len() != arity {
             self.diags.push(
-                Diagnostic::error("E107", format!("`{}` takes {arity} argument{}, not {}", func.name, if arity == 1 { "" } else { "s" }, vals.len()), span)
-                    .with_label("wrong number of arguments"),
+                Diagnostic::error(
+                    "E107",
+                    format!(
+                        "`{}` takes {arity} argument{}, not {}",
+                        func.name,
+                        if arity == 1 { "" } else { "s" },
+                        vals.len()
+                    ),
+                    span,
+                )
+                .with_label("wrong number of arguments"),
             );
             return None;
         }
@@ -305,44 +418,94 @@ impl<'a> Evaluator<'a> {
             "sqrt" => {
                 let Some(dim) = a.dim.root(2) else {
                     self.diags.push(
-                        Diagnostic::error("E101", format!("the square root of {} has no unit", a.dim.describe()), args[0].span)
-                            .with_label("dimension with odd powers"),
+                        Diagnostic::error(
+                            "E101",
+                            format!("the square root of {} has no unit", a.dim.describe()),
+                            args[0].span,
+                        )
+                        .with_label("dimension with odd powers"),
                     );
                     return None;
                 };
                 if a.value < 0.0 {
-                    self.diags.push(Diagnostic::error("E106", "square root of a negative value", args[0].span).with_label("negative"));
+                    self.diags.push(
+                        Diagnostic::error("E106", "square root of a negative value", args[0].span)
+                            .with_label("negative"),
+                    );
                     return None;
                 }
-                Some(Quantity { value: a.value.sqrt(), dim, kind: plain })
+                Some(Quantity {
+                    value: a.value.sqrt(),
+                    dim,
+                    kind: plain,
+                })
             }
             "ln" | "exp" => {
                 if !a.dim.is_none() {
                     self.diags.push(
-                        Diagnostic::error("E101", format!("`{}` needs a dimensionless argument, not {}", func.name, a.dim.describe()), args[0].span)
-                            .with_label("has a unit")
-                            .with_help("divide by a reference value first, e.g. `ln(r_out / r_in)`"),
+                        Diagnostic::error(
+                            "E101",
+                            format!(
+                                "`{}` needs a dimensionless argument, not {}",
+                                func.name,
+                                a.dim.describe()
+                            ),
+                            args[0].span,
+                        )
+                        .with_label("has a unit")
+                        .with_help("divide by a reference value first, e.g. `ln(r_out / r_in)`"),
                     );
                     return None;
                 }
                 if func.name == "ln" && a.value <= 0.0 {
-                    self.diags.push(Diagnostic::error("E106", "logarithm of a value that is not positive", args[0].span).with_label("not positive"));
+                    self.diags.push(
+                        Diagnostic::error(
+                            "E106",
+                            "logarithm of a value that is not positive",
+                            args[0].span,
+                        )
+                        .with_label("not positive"),
+                    );
                     return None;
                 }
-                let v = if func.name == "ln" { a.value.ln() } else { a.value.exp() };
-                Some(Quantity { value: v, dim: Dim::NONE, kind: plain })
+                let v = if func.name == "ln" {
+                    a.value.ln()
+                } else {
+                    a.value.exp()
+                };
+                Some(Quantity {
+                    value: v,
+                    dim: Dim::NONE,
+                    kind: plain,
+                })
             }
-            "abs" => Some(Quantity { value: a.value.abs(), ..a }),
+            "abs" => Some(Quantity {
+                value: a.value.abs(),
+                ..a
+            }),
             _ => {
                 let b = vals[1];
                 if a.dim != b.dim {
                     self.diags.push(
-                        Diagnostic::error("E101", format!("`{}` compares {} with {}", func.name, a.dim.describe(), b.dim.describe()), span)
-                            .with_label("arguments of different dimensions"),
+                        Diagnostic::error(
+                            "E101",
+                            format!(
+                                "`{}` compares {} with {}",
+                                func.name,
+                                a.dim.describe(),
+                                b.dim.describe()
+                            ),
+                            span,
+                        )
+                        .with_label("arguments of different dimensions"),
                     );
                     return None;
                 }
-                let pick = if func.name == "min" { a.value <= b.value } else { a.value >= b.value };
+                let pick = if func.name == "min" {
+                    a.value <= b.value
+                } else {
+                    a.value >= b.value
+                };
                 Some(if pick { a } else { b })
             }
         }
@@ -351,26 +514,46 @@ impl<'a> Evaluator<'a> {
 
 /// Check that a quantity has the expected dimension; the message names what was expected and
 /// what was found, in the analyst's words.
-pub fn expect_dim(q: Quantity, expected: Dim, what: &str, expr: &Expr, source: &str) -> Result<(), Diagnostic> {
+pub fn expect_dim(
+    q: Quantity,
+    expected: Dim,
+    what: &str,
+    expr: &Expr,
+    source: &str,
+) -> Result<(), Diagnostic> {
     if q.dim == expected {
         return Ok(());
     }
     let written = source.get(expr.span.range()).unwrap_or("this value");
     Err(Diagnostic::error(
         "E101",
-        format!("{what} expects {}; `{written}` is {}", expected.describe(), q.dim.describe()),
+        format!(
+            "{what} expects {}; `{written}` is {}",
+            expected.describe(),
+            q.dim.describe()
+        ),
         expr.span,
     )
     .with_label(format!("{} here", q.dim.describe()))
-    .with_help(format!("write {what} in a unit of {}, e.g. `{}`", expected.name().unwrap_or("the right dimension"), expected.si_unit())))
+    .with_help(format!(
+        "write {what} in a unit of {}, e.g. `{}`",
+        expected.name().unwrap_or("the right dimension"),
+        expected.si_unit()
+    )))
 }
 
 /// Check that a temperature can be used as a point on a scale.
 pub fn expect_point(q: Quantity, what: &str, expr: &Expr) -> Result<(), Diagnostic> {
     if q.kind == TempKind::Difference {
-        return Err(Diagnostic::error("E103", format!("{what} expects a temperature on a scale, but this is a temperature difference"), expr.span)
-            .with_label("a difference")
-            .with_help("write the temperature in °C or °F (e.g. `20 °C`), or absolute in K"));
+        return Err(Diagnostic::error(
+            "E103",
+            format!(
+                "{what} expects a temperature on a scale, but this is a temperature difference"
+            ),
+            expr.span,
+        )
+        .with_label("a difference")
+        .with_help("write the temperature in °C or °F (e.g. `20 °C`), or absolute in K"));
     }
     Ok(())
 }

@@ -91,7 +91,10 @@ fn is_unit_start(c: char) -> bool {
 
 fn is_unit_char(c: char) -> bool {
     c.is_alphanumeric()
-        || matches!(c, '_' | '°' | 'µ' | 'Δ' | '²' | '³' | '¹' | '⁴' | '⁻' | '·' | '⋅' | '*' | '/' | '^')
+        || matches!(
+            c,
+            '_' | '°' | 'µ' | 'Δ' | '²' | '³' | '¹' | '⁴' | '⁻' | '·' | '⋅' | '*' | '/' | '^'
+        )
 }
 
 /// Extend a number token over the unit that follows it on the same line.
@@ -100,7 +103,9 @@ fn number_with_unit(lex: &mut logos::Lexer<Tok>) -> u32 {
     let rest = lex.remainder();
     let after_space = rest.len() - rest.trim_start_matches([' ', '\t']).len();
     let unit = &rest[after_space..];
-    let Some(first) = unit.chars().next() else { return num_len };
+    let Some(first) = unit.chars().next() else {
+        return num_len;
+    };
     if !is_unit_start(first) && first != '(' {
         return num_len;
     }
@@ -165,7 +170,10 @@ pub fn lex(text: &str, file: FileId) -> Vec<Token> {
     while let Some(res) = lexer.next() {
         let r = lexer.span();
         let kind = res.unwrap_or(Tok::Unknown);
-        out.push(Token { kind, span: Span::new(file, r.start, r.end) });
+        out.push(Token {
+            kind,
+            span: Span::new(file, r.start, r.end),
+        });
     }
     out
 }
@@ -214,7 +222,14 @@ impl Tok {
     pub fn starts_item(self) -> bool {
         matches!(
             self,
-            Tok::Title | Tok::Import | Tok::Param | Tok::Material | Tok::Node | Tok::Link | Tok::Buildup | Tok::Limit
+            Tok::Title
+                | Tok::Import
+                | Tok::Param
+                | Tok::Material
+                | Tok::Node
+                | Tok::Link
+                | Tok::Buildup
+                | Tok::Limit
         )
     }
 }
@@ -224,7 +239,10 @@ mod tests {
     use super::*;
 
     fn kinds(text: &str) -> Vec<(Tok, &str)> {
-        lex(text, FileId(0)).into_iter().map(|t| (t.kind, &text[t.span.range()])).collect()
+        lex(text, FileId(0))
+            .into_iter()
+            .map(|t| (t.kind, &text[t.span.range()]))
+            .collect()
     }
 
     #[test]
@@ -233,10 +251,26 @@ mod tests {
             kinds("2 m * h"),
             vec![(Tok::Number(1), "2 m"), (Tok::Star, "*"), (Tok::Ident, "h")]
         );
-        assert_eq!(kinds("0.04 W/(m*K))"), vec![(Tok::Number(4), "0.04 W/(m*K)"), (Tok::RParen, ")")]);
-        assert_eq!(kinds("20 °C)"), vec![(Tok::Number(2), "20 °C"), (Tok::RParen, ")")]);
-        assert_eq!(kinds("1e-3 m^-2,"), vec![(Tok::Number(4), "1e-3 m^-2"), (Tok::Comma, ",")]);
-        assert_eq!(kinds("5 - 2"), vec![(Tok::Number(1), "5"), (Tok::Minus, "-"), (Tok::Number(1), "2")]);
+        assert_eq!(
+            kinds("0.04 W/(m*K))"),
+            vec![(Tok::Number(4), "0.04 W/(m*K)"), (Tok::RParen, ")")]
+        );
+        assert_eq!(
+            kinds("20 °C)"),
+            vec![(Tok::Number(2), "20 °C"), (Tok::RParen, ")")]
+        );
+        assert_eq!(
+            kinds("1e-3 m^-2,"),
+            vec![(Tok::Number(4), "1e-3 m^-2"), (Tok::Comma, ",")]
+        );
+        assert_eq!(
+            kinds("5 - 2"),
+            vec![
+                (Tok::Number(1), "5"),
+                (Tok::Minus, "-"),
+                (Tok::Number(1), "2")
+            ]
+        );
         assert_eq!(kinds("3 m²·K/W"), vec![(Tok::Number(1), "3 m²·K/W")]);
     }
 
@@ -244,7 +278,11 @@ mod tests {
     fn dotted_names_and_comments() {
         assert_eq!(
             kinds("north.inside # face\nx"),
-            vec![(Tok::Ident, "north.inside"), (Tok::Comment, "# face"), (Tok::Ident, "x")]
+            vec![
+                (Tok::Ident, "north.inside"),
+                (Tok::Comment, "# face"),
+                (Tok::Ident, "x")
+            ]
         );
     }
 }

@@ -23,15 +23,35 @@ pub enum Measure {
 
 pub const MEASURES: &[(&str, Measure, &str)] = &[
     ("temperature", Measure::Temperature, "temperature of a node"),
-    ("heat_flow", Measure::HeatFlow, "heat flow through a link, positive from its first node to its second"),
-    ("heat_flux", Measure::HeatFlux, "heat flow per area of a link that has an area"),
-    ("u_value", Measure::UValue, "U-value 1/(R·A) of a link with an area or a build-up"),
-    ("r_value", Measure::RValue, "R-value R·A of a link with an area or a build-up"),
+    (
+        "heat_flow",
+        Measure::HeatFlow,
+        "heat flow through a link, positive from its first node to its second",
+    ),
+    (
+        "heat_flux",
+        Measure::HeatFlux,
+        "heat flow per area of a link that has an area",
+    ),
+    (
+        "u_value",
+        Measure::UValue,
+        "U-value 1/(R·A) of a link with an area or a build-up",
+    ),
+    (
+        "r_value",
+        Measure::RValue,
+        "R-value R·A of a link with an area or a build-up",
+    ),
 ];
 
 impl Measure {
     pub fn name(self) -> &'static str {
-        MEASURES.iter().find(|m| m.1 == self).map(|m| m.0).unwrap_or("")
+        MEASURES
+            .iter()
+            .find(|m| m.1 == self)
+            .map(|m| m.0)
+            .unwrap_or("")
     }
     pub fn dim(self) -> Dim {
         match self {
@@ -67,13 +87,29 @@ pub struct LimitSpec {
 }
 
 /// Resolve `measure(subject)` against the network.
-pub fn resolve_measure(measure: &Ident, subject: &Ident, net: &Network, symbols: &mut SymbolTable) -> Result<(Measure, Subject), Option<Diagnostic>> {
+pub fn resolve_measure(
+    measure: &Ident,
+    subject: &Ident,
+    net: &Network,
+    symbols: &mut SymbolTable,
+) -> Result<(Measure, Subject), Option<Diagnostic>> {
     let Some(&(_, m, _)) = MEASURES.iter().find(|m| m.0 == measure.name) else {
         let names = MEASURES.iter().map(|m| m.0);
-        let mut d = Diagnostic::error("E401", format!("unknown measure `{}`", measure.name), measure.span).with_label("not a measure");
-        let list = MEASURES.iter().map(|m| format!("`{}`", m.0)).collect::<Vec<_>>().join(", ");
+        let mut d = Diagnostic::error(
+            "E401",
+            format!("unknown measure `{}`", measure.name),
+            measure.span,
+        )
+        .with_label("not a measure");
+        let list = MEASURES
+            .iter()
+            .map(|m| format!("`{}`", m.0))
+            .collect::<Vec<_>>()
+            .join(", ");
         d = match did_you_mean(&measure.name, names) {
-            Some(s) => d.with_help(format!("did you mean `{s}`? Measures are {list}")).with_fix(format!("Replace with `{s}`"), measure.span, s),
+            Some(s) => d
+                .with_help(format!("did you mean `{s}`? Measures are {list}"))
+                .with_fix(format!("Replace with `{s}`"), measure.span, s),
             None => d.with_help(format!("measures are {list}")),
         };
         return Err(Some(d));
@@ -84,9 +120,12 @@ pub fn resolve_measure(measure: &Ident, subject: &Ident, net: &Network, symbols:
     let found = match m {
         Measure::Temperature => node.map(Subject::Node),
         Measure::HeatFlow => group.map(Subject::Group).or(link.map(Subject::Link)),
-        Measure::HeatFlux | Measure::UValue | Measure::RValue => {
-            group.filter(|&g| net.groups[g].area.is_some()).map(Subject::Group).or(link.filter(|&l| net.links[l].area.is_some()).map(Subject::Link))
-        }
+        Measure::HeatFlux | Measure::UValue | Measure::RValue => group
+            .filter(|&g| net.groups[g].area.is_some())
+            .map(Subject::Group)
+            .or(link
+                .filter(|&l| net.links[l].area.is_some())
+                .map(Subject::Link)),
     };
     if let Some(s) = found {
         symbols.add_ref(&subject.name, subject.span);
@@ -94,17 +133,34 @@ pub fn resolve_measure(measure: &Ident, subject: &Ident, net: &Network, symbols:
     }
     // Explain why not.
     if symbols.get(&subject.name).is_none() && node.is_none() && link.is_none() && group.is_none() {
-        let known: Vec<&str> = net.nodes.iter().map(|n| n.name.as_str()).chain(net.links.iter().map(|l| l.name.as_str())).collect();
-        let mut d = Diagnostic::error("E102", format!("unknown name `{}`", subject.name), subject.span).with_label("no node or link has this name");
+        let known: Vec<&str> = net
+            .nodes
+            .iter()
+            .map(|n| n.name.as_str())
+            .chain(net.links.iter().map(|l| l.name.as_str()))
+            .collect();
+        let mut d = Diagnostic::error(
+            "E102",
+            format!("unknown name `{}`", subject.name),
+            subject.span,
+        )
+        .with_label("no node or link has this name");
         if let Some(s) = did_you_mean(&subject.name, known) {
-            d = d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), subject.span, s);
+            d = d.with_help(format!("did you mean `{s}`?")).with_fix(
+                format!("Replace with `{s}`"),
+                subject.span,
+                s,
+            );
         }
         // A link whose declaration failed is already reported; say nothing more then.
         return Err(Some(d));
     }
     if symbols.get(&subject.name).is_some() && node.is_none() && link.is_none() && group.is_none() {
         let sym = symbols.get(&subject.name).map(|s| s.kind);
-        if matches!(sym, Some(crate::symbols::SymbolKind::Node | crate::symbols::SymbolKind::Link)) {
+        if matches!(
+            sym,
+            Some(crate::symbols::SymbolKind::Node | crate::symbols::SymbolKind::Link)
+        ) {
             return Err(None);
         }
     }
@@ -118,9 +174,16 @@ pub fn resolve_measure(measure: &Ident, subject: &Ident, net: &Network, symbols:
     } else if link.is_some() || group.is_some() {
         "a link without an area"
     } else {
-        symbols.get(&subject.name).map(|s| s.kind.article()).unwrap_or("something else")
+        symbols
+            .get(&subject.name)
+            .map(|s| s.kind.article())
+            .unwrap_or("something else")
     };
-    let is = if m == Measure::Temperature && (link.is_some() || group.is_some()) { "a link" } else { is };
+    let is = if m == Measure::Temperature && (link.is_some() || group.is_some()) {
+        "a link"
+    } else {
+        is
+    };
     Err(Some(
         Diagnostic::error("E402", format!("`{}` needs {what}; `{}` is {is}", measure.name, subject.name), subject.span)
             .with_label(format!("{is} here"))
@@ -150,7 +213,15 @@ pub fn check_limit(
     if m == Measure::Temperature {
         expect_point(q, "a temperature limit", value).map_err(Some)?;
     }
-    Ok(LimitSpec { name: name.name.clone(), span: name.span, measure: m, subject_name: subject.name.clone(), subject: s, op, value: q.value })
+    Ok(LimitSpec {
+        name: name.name.clone(),
+        span: name.span,
+        measure: m,
+        subject_name: subject.name.clone(),
+        subject: s,
+        op,
+        value: q.value,
+    })
 }
 
 /// The verdict of one limit on a solution.
@@ -190,7 +261,11 @@ impl LimitResult {
 }
 
 pub fn verdict(spec: &LimitSpec, actual: f64) -> LimitResult {
-    let margin = if spec.op.is_upper() { spec.value - actual } else { actual - spec.value };
+    let margin = if spec.op.is_upper() {
+        spec.value - actual
+    } else {
+        actual - spec.value
+    };
     let passed = match spec.op {
         CmpOp::Lt => actual < spec.value,
         CmpOp::Le => actual <= spec.value,

@@ -30,7 +30,10 @@ pub enum LinkLaw {
     Radiation { exchange_area: f64 },
     /// Q = S·∫ k(T) dT from T_to to T_from: conduction with a temperature-dependent
     /// conductivity through a body whose geometry gives the conduction shape S in m.
-    Conduction { shape: f64, conductivity: crate::conductivity::Conductivity },
+    Conduction {
+        shape: f64,
+        conductivity: crate::conductivity::Conductivity,
+    },
 }
 
 #[derive(Clone, Debug, Serialize)]

@@ -21,7 +21,13 @@ pub fn parse(text: &str, file: FileId) -> (Module, Vec<Diagnostic>) {
             tokens.push(t);
         }
     }
-    let mut p = Parser { text, file, tokens, pos: 0, diags: Vec::new() };
+    let mut p = Parser {
+        text,
+        file,
+        tokens,
+        pos: 0,
+        diags: Vec::new(),
+    };
     let mut items = Vec::new();
     while !p.at_end() {
         let start = p.pos;
@@ -38,8 +44,17 @@ pub fn parse(text: &str, file: FileId) -> (Module, Vec<Diagnostic>) {
 
 /// Parse a lone expression (used for test expectations and the language server).
 pub fn parse_expr(text: &str, file: FileId) -> Result<Expr, Diagnostic> {
-    let tokens = lex(text, file).into_iter().filter(|t| t.kind != Tok::Comment).collect();
-    let mut p = Parser { text, file, tokens, pos: 0, diags: Vec::new() };
+    let tokens = lex(text, file)
+        .into_iter()
+        .filter(|t| t.kind != Tok::Comment)
+        .collect();
+    let mut p = Parser {
+        text,
+        file,
+        tokens,
+        pos: 0,
+        diags: Vec::new(),
+    };
     let e = p.expr()?;
     if let Some(t) = p.peek_token() {
         return Err(p.unexpected(t, "the end of the expression"));
@@ -76,7 +91,10 @@ impl<'a> Parser<'a> {
     }
     fn prev_end(&self) -> Span {
         match self.pos.checked_sub(1).and_then(|i| self.tokens.get(i)) {
-            Some(t) => Span { start: t.span.end, ..t.span },
+            Some(t) => Span {
+                start: t.span.end,
+                ..t.span
+            },
             None => Span::new(self.file, 0, 0),
         }
     }
@@ -106,7 +124,10 @@ impl<'a> Parser<'a> {
                 .with_help("add `\"` at the end of the string, on the same line"),
             _ => Diagnostic::error(
                 "E002",
-                format!("expected {expected}, found {}", describe(t.kind, self.slice(t.span))),
+                format!(
+                    "expected {expected}, found {}",
+                    describe(t.kind, self.slice(t.span))
+                ),
                 t.span,
             )
             .with_label(format!("expected {expected}")),
@@ -117,14 +138,21 @@ impl<'a> Parser<'a> {
         match self.peek_token() {
             Some(t) if t.kind == kind => Ok(self.bump()),
             Some(t) => Err(self.unexpected(t, expected)),
-            None => Err(Diagnostic::error("E002", format!("expected {expected}, found the end of the file"), self.eof_span())
-                .with_label(format!("expected {expected}"))),
+            None => Err(Diagnostic::error(
+                "E002",
+                format!("expected {expected}, found the end of the file"),
+                self.eof_span(),
+            )
+            .with_label(format!("expected {expected}"))),
         }
     }
 
     fn ident(&mut self, expected: &str) -> PResult<Ident> {
         let t = self.expect(Tok::Ident, expected)?;
-        Ok(Ident { name: self.slice(t.span).to_string(), span: t.span })
+        Ok(Ident {
+            name: self.slice(t.span).to_string(),
+            span: t.span,
+        })
     }
 
     /// Skip to the next declaration keyword after a broken declaration.
@@ -141,7 +169,9 @@ impl<'a> Parser<'a> {
     }
 
     fn item(&mut self) -> PResult<Item> {
-        let Some(t) = self.peek_token() else { unreachable_eof() };
+        let Some(t) = self.peek_token() else {
+            unreachable_eof()
+        };
         let kind = match t.kind {
             Tok::Title => {
                 self.bump();
@@ -219,7 +249,10 @@ impl<'a> Parser<'a> {
                 ))
             }
         };
-        Ok(Item { kind, span: t.span.to(self.prev_end()) })
+        Ok(Item {
+            kind,
+            span: t.span.to(self.prev_end()),
+        })
     }
 
     fn string(&mut self, expected: &str) -> PResult<(String, Span)> {
@@ -238,14 +271,20 @@ impl<'a> Parser<'a> {
                     return Ok(out);
                 }
                 Some(t) if t.kind.starts_item() => {
-                    return Err(Diagnostic::error("E002", "this build-up is not closed", t.span)
-                        .with_label("a new declaration starts before `}`")
-                        .with_help("add `}` after the build-up's last element"))
+                    return Err(
+                        Diagnostic::error("E002", "this build-up is not closed", t.span)
+                            .with_label("a new declaration starts before `}`")
+                            .with_help("add `}` after the build-up's last element"),
+                    )
                 }
                 None => {
-                    return Err(Diagnostic::error("E002", "this build-up is not closed", self.eof_span())
-                        .with_label("the file ends before `}`")
-                        .with_help("add `}` after the build-up's last element"))
+                    return Err(Diagnostic::error(
+                        "E002",
+                        "this build-up is not closed",
+                        self.eof_span(),
+                    )
+                    .with_label("the file ends before `}`")
+                    .with_help("add `}` after the build-up's last element"))
                 }
                 Some(_) => {
                     let start = self.pos;
@@ -258,8 +297,12 @@ impl<'a> Parser<'a> {
                                 self.pos += 1;
                             }
                             while let Some(t) = self.peek_token() {
-                                let next_is_colon = self.tokens.get(self.pos + 1).map(|n| n.kind) == Some(Tok::Colon);
-                                if t.kind == Tok::RBrace || t.kind.starts_item() || (t.kind == Tok::Ident && next_is_colon) {
+                                let next_is_colon = self.tokens.get(self.pos + 1).map(|n| n.kind)
+                                    == Some(Tok::Colon);
+                                if t.kind == Tok::RBrace
+                                    || t.kind.starts_item()
+                                    || (t.kind == Tok::Ident && next_is_colon)
+                                {
                                     break;
                                 }
                                 self.pos += 1;
@@ -272,11 +315,16 @@ impl<'a> Parser<'a> {
     }
 
     fn buildup_element(&mut self) -> PResult<BuildupElement> {
-        let name = self.ident("an element name, as in `insulation: layer(wood_fibre, thickness = 140 mm)`")?;
+        let name = self
+            .ident("an element name, as in `insulation: layer(wood_fibre, thickness = 140 mm)`")?;
         self.expect(Tok::Colon, "`:` after the element's name")?;
         let element = self.element_call("the element's kind, e.g. `layer(...)` or `film(...)`")?;
         let span = name.span.to(element.span);
-        Ok(BuildupElement { name, element, span })
+        Ok(BuildupElement {
+            name,
+            element,
+            span,
+        })
     }
 
     fn element_call(&mut self, expected: &str) -> PResult<ElementCall> {
@@ -293,7 +341,8 @@ impl<'a> Parser<'a> {
             return Ok(args);
         }
         loop {
-            let named = self.peek() == Some(Tok::Ident) && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::Eq);
+            let named = self.peek() == Some(Tok::Ident)
+                && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::Eq);
             let name = if named {
                 let n = self.ident("an argument name")?;
                 self.bump();
@@ -302,7 +351,11 @@ impl<'a> Parser<'a> {
                 None
             };
             let value = self.expr()?;
-            let span = name.as_ref().map(|n| n.span).unwrap_or(value.span).to(value.span);
+            let span = name
+                .as_ref()
+                .map(|n| n.span)
+                .unwrap_or(value.span)
+                .to(value.span);
             args.push(Arg { name, value, span });
             match self.peek_token() {
                 Some(t) if t.kind == Tok::Comma => {
@@ -316,7 +369,11 @@ impl<'a> Parser<'a> {
                     return Ok(args);
                 }
                 Some(t) => return Err(self.unexpected(t, "`,` or `)` after an argument")),
-                None => return Err(self.expect(Tok::RParen, "`)` to close the arguments").unwrap_err()),
+                None => {
+                    return Err(self
+                        .expect(Tok::RParen, "`)` to close the arguments")
+                        .unwrap_err())
+                }
             }
         }
     }
@@ -353,7 +410,10 @@ impl<'a> Parser<'a> {
         if let Some(t) = self.eat(Tok::Minus) {
             let inner = self.unary()?;
             let span = t.span.to(inner.span);
-            return Ok(Expr { kind: ExprKind::Neg(Box::new(inner)), span });
+            return Ok(Expr {
+                kind: ExprKind::Neg(Box::new(inner)),
+                span,
+            });
         }
         if self.eat(Tok::Plus).is_some() {
             return self.unary();
@@ -372,8 +432,12 @@ impl<'a> Parser<'a> {
 
     fn primary(&mut self) -> PResult<Expr> {
         let Some(t) = self.peek_token() else {
-            return Err(Diagnostic::error("E002", "expected a value, found the end of the file", self.eof_span())
-                .with_label("expected a value"));
+            return Err(Diagnostic::error(
+                "E002",
+                "expected a value, found the end of the file",
+                self.eof_span(),
+            )
+            .with_label("expected a value"));
         };
         match t.kind {
             Tok::Number(num_len) => {
@@ -390,9 +454,19 @@ impl<'a> Parser<'a> {
                     None
                 } else {
                     let start = t.span.end as usize - unit_text.len();
-                    Some((unit_text.to_string(), Span::new(self.file, start, t.span.end as usize)))
+                    Some((
+                        unit_text.to_string(),
+                        Span::new(self.file, start, t.span.end as usize),
+                    ))
                 };
-                Ok(Expr { kind: ExprKind::Number { value, text: num_text.to_string(), unit }, span: t.span })
+                Ok(Expr {
+                    kind: ExprKind::Number {
+                        value,
+                        text: num_text.to_string(),
+                        unit,
+                    },
+                    span: t.span,
+                })
             }
             Tok::Ident => {
                 let id = self.ident("a name")?;
@@ -410,15 +484,24 @@ impl<'a> Parser<'a> {
                         }
                     }
                     let span = id.span.to(self.prev_end());
-                    return Ok(Expr { kind: ExprKind::Call { func: id, args }, span });
+                    return Ok(Expr {
+                        kind: ExprKind::Call { func: id, args },
+                        span,
+                    });
                 }
-                Ok(Expr { span: id.span, kind: ExprKind::Name(id) })
+                Ok(Expr {
+                    span: id.span,
+                    kind: ExprKind::Name(id),
+                })
             }
             Tok::LParen => {
                 self.bump();
                 let inner = self.expr()?;
                 let close = self.expect(Tok::RParen, "`)` to close the bracket")?;
-                Ok(Expr { span: t.span.to(close.span), kind: ExprKind::Paren(Box::new(inner)) })
+                Ok(Expr {
+                    span: t.span.to(close.span),
+                    kind: ExprKind::Paren(Box::new(inner)),
+                })
             }
             _ => Err(self.unexpected(t, "a value (a number with its unit, a name or a bracket)")),
         }
@@ -432,7 +515,11 @@ const CONTEXTUAL: &[&str] = &["repeat", "network", "use", "region"];
 impl Parser<'_> {
     fn at_contextual_item(&self) -> bool {
         match (self.tokens.get(self.pos), self.tokens.get(self.pos + 1)) {
-            (Some(t), Some(n)) => t.kind == Tok::Ident && n.kind == Tok::Ident && CONTEXTUAL.contains(&self.slice(t.span)),
+            (Some(t), Some(n)) => {
+                t.kind == Tok::Ident
+                    && n.kind == Tok::Ident
+                    && CONTEXTUAL.contains(&self.slice(t.span))
+            }
             _ => false,
         }
     }
@@ -449,7 +536,10 @@ impl Parser<'_> {
             }
             "network" => {
                 let name = self.ident("the sub-network's name")?;
-                self.expect(Tok::LParen, "`(` and the sub-network's port nodes, e.g. `(inside, outside)`")?;
+                self.expect(
+                    Tok::LParen,
+                    "`(` and the sub-network's port nodes, e.g. `(inside, outside)`",
+                )?;
                 let mut ports = Vec::new();
                 if self.eat(Tok::RParen).is_none() {
                     loop {
@@ -471,20 +561,33 @@ impl Parser<'_> {
                 let mut edges = Vec::new();
                 while self.eat(Tok::RBrace).is_none() {
                     if self.at_end() {
-                        return Err(Diagnostic::error("E002", "this region is not closed", open.span)
-                            .with_label("`{` opened here")
-                            .with_help("add `}` after the last edge attachment"));
+                        return Err(Diagnostic::error(
+                            "E002",
+                            "this region is not closed",
+                            open.span,
+                        )
+                        .with_label("`{` opened here")
+                        .with_help("add `}` after the last edge attachment"));
                     }
-                    let side = self.ident("an edge (`left`, `right`, `bottom`, `top`) or face (`front`, `back`)")?;
+                    let side = self.ident(
+                        "an edge (`left`, `right`, `bottom`, `top`) or face (`front`, `back`)",
+                    )?;
                     self.expect(Tok::Colon, "`:` after the edge, as in `left: hot_bar`")?;
                     let node = self.ident("the node this edge is attached to")?;
-                    let element = if self.peek() == Some(Tok::Ident) && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::LParen) {
+                    let element = if self.peek() == Some(Tok::Ident)
+                        && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::LParen)
+                    {
                         Some(self.element_call("an element such as `film(h = 10 W/(m^2*K))`")?)
                     } else {
                         None
                     };
                     let span = side.span.to(self.prev_end());
-                    edges.push(RegionEdge { side, node, element, span });
+                    edges.push(RegionEdge {
+                        side,
+                        node,
+                        element,
+                        span,
+                    });
                 }
                 Ok(ItemKind::Region { name, args, edges })
             }
@@ -493,7 +596,11 @@ impl Parser<'_> {
                 self.expect(Tok::Colon, "`:` after the name, as in `use kitchen: room_wall(inside = kitchen, outside = garden)`")?;
                 let network = self.ident("the sub-network to use")?;
                 let args = self.arg_list("`(` and the ports and parameters of the use")?;
-                Ok(ItemKind::Use { name, network, args })
+                Ok(ItemKind::Use {
+                    name,
+                    network,
+                    args,
+                })
             }
         }
     }
@@ -509,9 +616,11 @@ impl Parser<'_> {
                     return Ok(items);
                 }
                 None => {
-                    return Err(Diagnostic::error("E002", "this block is not closed", open.span)
-                        .with_label("`{` opened here")
-                        .with_help("add `}` after the block's last declaration"))
+                    return Err(
+                        Diagnostic::error("E002", "this block is not closed", open.span)
+                            .with_label("`{` opened here")
+                            .with_help("add `}` after the block's last declaration"),
+                    )
                 }
                 Some(_) => {
                     let start = self.pos;
@@ -523,7 +632,8 @@ impl Parser<'_> {
                                 self.pos += 1;
                             }
                             while let Some(k) = self.peek() {
-                                if k == Tok::RBrace || k.starts_item() || self.at_contextual_item() {
+                                if k == Tok::RBrace || k.starts_item() || self.at_contextual_item()
+                                {
                                     break;
                                 }
                                 self.pos += 1;
@@ -538,7 +648,14 @@ impl Parser<'_> {
 
 fn binary(op: BinOp, lhs: Expr, rhs: Expr) -> Expr {
     let span = lhs.span.to(rhs.span);
-    Expr { kind: ExprKind::Binary { op, lhs: Box::new(lhs), rhs: Box::new(rhs) }, span }
+    Expr {
+        kind: ExprKind::Binary {
+            op,
+            lhs: Box::new(lhs),
+            rhs: Box::new(rhs),
+        },
+        span,
+    }
 }
 
 fn describe(kind: Tok, text: &str) -> String {

@@ -22,7 +22,9 @@ fn render_one(d: &Diagnostic, sources: &Sources, colour: bool, out: &mut Vec<u8>
     };
     let name = |s: crate::span::Span| sources.name(s.file).to_string();
     let primary = d.primary.span;
-    let config = Config::default().with_color(colour).with_index_type(IndexType::Byte);
+    let config = Config::default()
+        .with_color(colour)
+        .with_index_type(IndexType::Byte);
     let mut report = Report::build(kind, (name(primary), primary.range()))
         .with_config(config)
         .with_code(d.code)
@@ -34,13 +36,19 @@ fn render_one(d: &Diagnostic, sources: &Sources, colour: bool, out: &mut Vec<u8>
     report = report.with_label(label);
     for s in &d.secondary {
         report = report.with_label(
-            Label::new((name(s.span), s.span.range())).with_message(&s.message).with_color(Color::Blue),
+            Label::new((name(s.span), s.span.range()))
+                .with_message(&s.message)
+                .with_color(Color::Blue),
         );
     }
     if let Some(h) = &d.help {
         report = report.with_help(h);
     }
-    let cache = ariadne::sources(sources.iter().map(|(_, n, t)| (n.to_string(), t.to_string())));
+    let cache = ariadne::sources(
+        sources
+            .iter()
+            .map(|(_, n, t)| (n.to_string(), t.to_string())),
+    );
     // Writing into a Vec cannot fail; a failure here would only lose this one report.
     let _ = report.finish().write(cache, &mut *out);
 }

@@ -55,12 +55,22 @@ impl Solution {
             .filter(|(n, _)| n.fixed.is_none())
             .map(|(_, r)| r.abs())
             .fold(0.0, f64::max);
-        let boundary_heat = net.nodes.iter().enumerate().filter(|(_, n)| n.fixed.is_some()).map(|(i, _)| (i, -residuals[i])).collect();
+        let boundary_heat = net
+            .nodes
+            .iter()
+            .enumerate()
+            .filter(|(_, n)| n.fixed.is_some())
+            .map(|(i, _)| (i, -residuals[i]))
+            .collect();
         let groups = net
             .groups
             .iter()
             .map(|g| {
-                let resistance: f64 = g.links.iter().map(|&l| 1.0 / net.links[l].conductance_at(&t)).sum();
+                let resistance: f64 = g
+                    .links
+                    .iter()
+                    .map(|&l| 1.0 / net.links[l].conductance_at(&t))
+                    .sum();
                 GroupResult {
                     name: g.name.clone(),
                     resistance,
@@ -70,8 +80,20 @@ impl Solution {
                 }
             })
             .collect();
-        let mut sol = Solution { temperatures: t, heat_flows: flows, residuals, worst_residual, boundary_heat, groups, limits: Vec::new(), convergence: None };
-        sol.limits = limit_specs.iter().map(|s| limits::verdict(s, sol.measure(net, s.measure, s.subject))).collect();
+        let mut sol = Solution {
+            temperatures: t,
+            heat_flows: flows,
+            residuals,
+            worst_residual,
+            boundary_heat,
+            groups,
+            limits: Vec::new(),
+            convergence: None,
+        };
+        sol.limits = limit_specs
+            .iter()
+            .map(|s| limits::verdict(s, sol.measure(net, s.measure, s.subject)))
+            .collect();
         sol
     }
 
@@ -81,11 +103,21 @@ impl Solution {
             (Measure::Temperature, Subject::Node(n)) => self.temperatures[n],
             (Measure::HeatFlow, Subject::Link(l)) => self.heat_flows[l],
             (Measure::HeatFlow, Subject::Group(g)) => self.groups[g].heat_flow,
-            (Measure::HeatFlux, Subject::Link(l)) => self.heat_flows[l] / net.links[l].area.unwrap_or(f64::NAN),
-            (Measure::HeatFlux, Subject::Group(g)) => self.groups[g].heat_flow / net.groups[g].area.unwrap_or(f64::NAN),
-            (Measure::UValue, Subject::Link(l)) => net.links[l].conductance_at(&self.temperatures) / net.links[l].area.unwrap_or(f64::NAN),
+            (Measure::HeatFlux, Subject::Link(l)) => {
+                self.heat_flows[l] / net.links[l].area.unwrap_or(f64::NAN)
+            }
+            (Measure::HeatFlux, Subject::Group(g)) => {
+                self.groups[g].heat_flow / net.groups[g].area.unwrap_or(f64::NAN)
+            }
+            (Measure::UValue, Subject::Link(l)) => {
+                net.links[l].conductance_at(&self.temperatures)
+                    / net.links[l].area.unwrap_or(f64::NAN)
+            }
             (Measure::UValue, Subject::Group(g)) => self.groups[g].u_value.unwrap_or(f64::NAN),
-            (Measure::RValue, Subject::Link(l)) => net.links[l].area.unwrap_or(f64::NAN) / net.links[l].conductance_at(&self.temperatures),
+            (Measure::RValue, Subject::Link(l)) => {
+                net.links[l].area.unwrap_or(f64::NAN)
+                    / net.links[l].conductance_at(&self.temperatures)
+            }
             (Measure::RValue, Subject::Group(g)) => self.groups[g].r_value.unwrap_or(f64::NAN),
             _ => f64::NAN,
         }
@@ -94,6 +126,10 @@ impl Solution {
     /// Total heat delivered by all boundaries with a positive delivery (the heat that crosses
     /// the network from warm to cold boundaries, plus loads that leave through them).
     pub fn total_boundary_inflow(&self) -> f64 {
-        self.boundary_heat.iter().map(|b| b.1).filter(|q| *q > 0.0).sum()
+        self.boundary_heat
+            .iter()
+            .map(|b| b.1)
+            .filter(|q| *q > 0.0)
+            .sum()
     }
 }

@@ -31,7 +31,11 @@ pub fn solve_steady(net: &Network) -> Result<Temperatures, SolveError> {
         }
     }
     let n = free.len();
-    let mut temps: Vec<f64> = net.nodes.iter().map(|nd| nd.fixed.unwrap_or(f64::NAN)).collect();
+    let mut temps: Vec<f64> = net
+        .nodes
+        .iter()
+        .map(|nd| nd.fixed.unwrap_or(f64::NAN))
+        .collect();
     if n == 0 {
         return Ok(Temperatures(temps));
     }
@@ -71,10 +75,16 @@ pub fn solve_steady(net: &Network) -> Result<Temperatures, SolveError> {
 
 /// Solve `A x = b` for a symmetric positive definite `A` given by its lower-triangle triplets
 /// (duplicates are summed).
-pub fn solve_spd(n: usize, lower: &[Triplet<usize, usize, f64>], b: &[f64]) -> Result<Vec<f64>, SolveError> {
+pub fn solve_spd(
+    n: usize,
+    lower: &[Triplet<usize, usize, f64>],
+    b: &[f64],
+) -> Result<Vec<f64>, SolveError> {
     let a = SparseColMat::<usize, f64>::try_new_from_triplets(n, n, lower)
         .map_err(|_| SolveError::NotPositiveDefinite)?;
-    let llt = a.sp_cholesky(Side::Lower).map_err(|_| SolveError::NotPositiveDefinite)?;
+    let llt = a
+        .sp_cholesky(Side::Lower)
+        .map_err(|_| SolveError::NotPositiveDefinite)?;
     let mut x = Mat::<f64>::from_fn(n, 1, |i, _| b[i]);
     llt.solve_in_place(x.as_mut());
     let out: Vec<f64> = (0..n).map(|i| x[(i, 0)]).collect();

@@ -17,7 +17,9 @@ pub struct NoImports;
 
 impl SourceLoader for NoImports {
     fn load(&self, _from: &str, path: &str) -> Result<(String, String), String> {
-        Err(format!("imports are not available here (cannot read `{path}`)"))
+        Err(format!(
+            "imports are not available here (cannot read `{path}`)"
+        ))
     }
 }
 
@@ -39,7 +41,11 @@ impl Sources {
     pub fn add(&mut self, name: impl Into<String>, text: impl Into<String>) -> FileId {
         let text = text.into();
         let lines = LineIndex::new(&text);
-        self.files.push(SourceFile { name: name.into(), text, lines });
+        self.files.push(SourceFile {
+            name: name.into(),
+            text,
+            lines,
+        });
         FileId(self.files.len() as u32 - 1)
     }
     pub fn get(&self, id: FileId) -> &SourceFile {
@@ -52,10 +58,16 @@ impl Sources {
         &self.get(id).text
     }
     pub fn find(&self, name: &str) -> Option<FileId> {
-        self.files.iter().position(|f| f.name == name).map(|i| FileId(i as u32))
+        self.files
+            .iter()
+            .position(|f| f.name == name)
+            .map(|i| FileId(i as u32))
     }
     pub fn iter(&self) -> impl Iterator<Item = (FileId, &str, &str)> {
-        self.files.iter().enumerate().map(|(i, f)| (FileId(i as u32), f.name.as_str(), f.text.as_str()))
+        self.files
+            .iter()
+            .enumerate()
+            .map(|(i, f)| (FileId(i as u32), f.name.as_str(), f.text.as_str()))
     }
     pub fn len(&self) -> usize {
         self.files.len()

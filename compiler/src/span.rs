@@ -19,11 +19,19 @@ pub struct Span {
 
 impl Span {
     pub fn new(file: FileId, start: usize, end: usize) -> Span {
-        Span { file, start: start as u32, end: end as u32 }
+        Span {
+            file,
+            start: start as u32,
+            end: end as u32,
+        }
     }
     /// The smallest span covering both (same file assumed).
     pub fn to(self, other: Span) -> Span {
-        Span { file: self.file, start: self.start.min(other.start), end: self.end.max(other.end) }
+        Span {
+            file: self.file,
+            start: self.start.min(other.start),
+            end: self.end.max(other.end),
+        }
     }
     pub fn range(self) -> std::ops::Range<usize> {
         self.start as usize..self.end as usize
@@ -61,7 +69,10 @@ impl LineIndex {
                 line_starts.push(i as u32 + 1);
             }
         }
-        LineIndex { line_starts, text: text.to_string() }
+        LineIndex {
+            line_starts,
+            text: text.to_string(),
+        }
     }
 
     fn line_of(&self, offset: u32) -> usize {
@@ -86,7 +97,10 @@ impl LineIndex {
         let line = self.line_of(offset);
         let start = self.line_starts[line] as usize;
         let col = self.text[start..offset as usize].chars().count() as u32;
-        LineCol { line: line as u32, col }
+        LineCol {
+            line: line as u32,
+            col,
+        }
     }
 
     /// Line and column in UTF-16 code units, as the Language Server Protocol requires.
@@ -94,8 +108,14 @@ impl LineIndex {
         let offset = self.clamp(offset);
         let line = self.line_of(offset);
         let start = self.line_starts[line] as usize;
-        let col = self.text[start..offset as usize].chars().map(|c| c.len_utf16() as u32).sum();
-        LineCol { line: line as u32, col }
+        let col = self.text[start..offset as usize]
+            .chars()
+            .map(|c| c.len_utf16() as u32)
+            .sum();
+        LineCol {
+            line: line as u32,
+            col,
+        }
     }
 
     /// Byte offset of a UTF-16 position; positions past the end of a line clamp to its end.
@@ -139,7 +159,10 @@ mod tests {
         assert_eq!(idx.offset_utf16(LineCol { line: 1, col: 2 }), y);
         assert_eq!(idx.offset_utf16(LineCol { line: 0, col: 20 }), c);
         // Past the end of a line clamps to the line's end.
-        assert_eq!(idx.offset_utf16(LineCol { line: 0, col: 99 }), 22 + '°'.len_utf8() as u32 - 1);
+        assert_eq!(
+            idx.offset_utf16(LineCol { line: 0, col: 99 }),
+            22 + '°'.len_utf8() as u32 - 1
+        );
     }
 
     #[test]

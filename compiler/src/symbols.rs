@@ -55,29 +55,41 @@ pub struct SymbolTable {
 
 impl SymbolTable {
     pub fn get(&self, name: &str) -> Option<&Symbol> {
-        self.symbols.iter().find(|s| s.name == name && s.kind != SymbolKind::BuildupElement)
+        self.symbols
+            .iter()
+            .find(|s| s.name == name && s.kind != SymbolKind::BuildupElement)
     }
     pub fn add_ref(&mut self, name: &str, span: Span) {
-        if let Some(s) = self.symbols.iter_mut().find(|s| s.name == name && s.kind != SymbolKind::BuildupElement) {
+        if let Some(s) = self
+            .symbols
+            .iter_mut()
+            .find(|s| s.name == name && s.kind != SymbolKind::BuildupElement)
+        {
             s.refs.push(span);
         }
     }
     pub fn add_element_ref(&mut self, buildup: &str, element: &str, span: Span) {
-        if let Some(s) = self
-            .symbols
-            .iter_mut()
-            .find(|s| s.kind == SymbolKind::BuildupElement && s.name == element && s.parent.as_deref() == Some(buildup))
-        {
+        if let Some(s) = self.symbols.iter_mut().find(|s| {
+            s.kind == SymbolKind::BuildupElement
+                && s.name == element
+                && s.parent.as_deref() == Some(buildup)
+        }) {
             s.refs.push(span);
         }
     }
     /// The symbol declared or used at a byte offset of a file.
     pub fn at(&self, span_file: crate::span::FileId, offset: u32) -> Option<&Symbol> {
         self.symbols.iter().find(|s| {
-            (s.def.file == span_file && s.def.contains(offset)) || s.refs.iter().any(|r| r.file == span_file && r.contains(offset))
+            (s.def.file == span_file && s.def.contains(offset))
+                || s.refs
+                    .iter()
+                    .any(|r| r.file == span_file && r.contains(offset))
         })
     }
     pub fn names_of(&self, kind: SymbolKind) -> impl Iterator<Item = &str> {
-        self.symbols.iter().filter(move |s| s.kind == kind).map(|s| s.name.as_str())
+        self.symbols
+            .iter()
+            .filter(move |s| s.kind == kind)
+            .map(|s| s.name.as_str())
     }
 }

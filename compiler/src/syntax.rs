@@ -22,11 +22,22 @@ pub enum BinOp {
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub enum ExprKind {
     /// A number and the unit written after it (`12.5 mm`); `unit` is `None` for a bare number.
-    Number { value: f64, text: String, unit: Option<(String, Span)> },
+    Number {
+        value: f64,
+        text: String,
+        unit: Option<(String, Span)>,
+    },
     Name(Ident),
     Neg(Box<Expr>),
-    Binary { op: BinOp, lhs: Box<Expr>, rhs: Box<Expr> },
-    Call { func: Ident, args: Vec<Expr> },
+    Binary {
+        op: BinOp,
+        lhs: Box<Expr>,
+        rhs: Box<Expr>,
+    },
+    Call {
+        func: Ident,
+        args: Vec<Expr>,
+    },
     Paren(Box<Expr>),
     /// Placeholder left by error recovery; never evaluated because the parse error is reported.
     Missing,
@@ -87,26 +98,70 @@ pub struct BuildupElement {
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub enum ItemKind {
-    Title { text: String },
-    Import { path: String, path_span: Span },
-    Param { name: Ident, value: Expr },
-    Material { name: Ident, args: Vec<Arg> },
-    Node { name: Ident, args: Vec<Arg> },
-    Link { name: Ident, from: Ident, to: Ident, element: ElementCall },
-    Buildup { name: Ident, elements: Vec<BuildupElement> },
-    Limit { name: Ident, measure: Ident, subject: Ident, op: CmpOp, value: Expr },
+    Title {
+        text: String,
+    },
+    Import {
+        path: String,
+        path_span: Span,
+    },
+    Param {
+        name: Ident,
+        value: Expr,
+    },
+    Material {
+        name: Ident,
+        args: Vec<Arg>,
+    },
+    Node {
+        name: Ident,
+        args: Vec<Arg>,
+    },
+    Link {
+        name: Ident,
+        from: Ident,
+        to: Ident,
+        element: ElementCall,
+    },
+    Buildup {
+        name: Ident,
+        elements: Vec<BuildupElement>,
+    },
+    Limit {
+        name: Ident,
+        measure: Ident,
+        subject: Ident,
+        op: CmpOp,
+        value: Expr,
+    },
     /// `repeat NAME (count = N, first = NODE) { declarations }`: N copies of the body, copy i's
     /// names prefixed `NAME.i.` (see `crate::expand`).
-    Repeat { name: Ident, args: Vec<Arg>, body: Vec<Item> },
+    Repeat {
+        name: Ident,
+        args: Vec<Arg>,
+        body: Vec<Item>,
+    },
     /// `network NAME (PORT, ...) { declarations }`: a reusable sub-network; ports are the nodes
     /// a use connects, `param`s in the body are defaults a use may replace.
-    Network { name: Ident, ports: Vec<Ident>, body: Vec<Item> },
+    Network {
+        name: Ident,
+        ports: Vec<Ident>,
+        body: Vec<Item>,
+    },
     /// `use NAME: NETWORK(PORT = NODE, PARAM = VALUE, ...)`: one copy of a sub-network, its
     /// names prefixed `NAME.`.
-    Use { name: Ident, network: Ident, args: Vec<Arg> },
+    Use {
+        name: Ident,
+        network: Ident,
+        args: Vec<Arg>,
+    },
     /// `region NAME (ARGS) { SIDE: NODE [ELEMENT(...)] ... }`: a rectangle meshed into cells
     /// (see `crate::region`).
-    Region { name: Ident, args: Vec<Arg>, edges: Vec<RegionEdge> },
+    Region {
+        name: Ident,
+        args: Vec<Arg>,
+        edges: Vec<RegionEdge>,
+    },
 }
 
 /// One attachment of a region: `right: air film(h = 10 W/(m^2*K))`, or `left: hot_bar`.

@@ -63,6 +63,14 @@ fn repetition_without_first_and_an_open_port() {
 #[test]
 fn newton_failure_is_an_error() {
     let src = "node oven (fixed = 220 °C)\nnode room (fixed = 22 °C)\nnode glass\nlink r: oven to glass radiation(emissivity = 0.9, area = 0.2 m^2)\nlink f: glass to room film(h = 8 W/(m^2*K), area = 0.2 m^2)\n";
-    let a = analyze("model.heat", src, &NoImports, &Options { newton_max_iterations: Some(1), ..Options::default() });
+    let a = analyze(
+        "model.heat",
+        src,
+        &NoImports,
+        &Options {
+            newton_max_iterations: Some(1),
+            ..Options::default()
+        },
+    );
     insta::assert_snapshot!(render_diagnostics(&a.diagnostics, &a.sources, false));
 }

@@ -173,8 +173,14 @@ fn a_broken_line_inside_a_block_does_not_lose_the_rest() {
     let (m, diags) = parse(src, FileId(0));
     assert_eq!(diags.len(), 1, "{diags:?}");
     assert_eq!(diags[0].code, "E002");
-    let ItemKind::Repeat { body, .. } = &m.items[0].kind else { panic!("{:?}", m.items[0]) };
-    assert_eq!(body.len(), 2, "the nodes before and after the broken link survive");
+    let ItemKind::Repeat { body, .. } = &m.items[0].kind else {
+        panic!("{:?}", m.items[0])
+    };
+    assert_eq!(
+        body.len(),
+        2,
+        "the nodes before and after the broken link survive"
+    );
     let kinds: Vec<&str> = m
         .items
         .iter()

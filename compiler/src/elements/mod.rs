@@ -3,9 +3,9 @@
 //! Adding an element is adding one type that implements [`ElementKind`] and listing it in
 //! [`ALL`]; the parser, checker, language server and docs pick it up from here.
 
-mod plane;
 pub mod fin;
 pub mod generation;
+mod plane;
 pub mod radiation;
 pub mod shape_factor;
 pub mod shell;
@@ -49,7 +49,12 @@ pub struct ParamSpec {
 }
 
 pub const fn q(name: &'static str, dim: Dim, doc: &'static str) -> ParamSpec {
-    ParamSpec { name, ty: ArgType::Quantity(dim), positive: true, doc }
+    ParamSpec {
+        name,
+        ty: ArgType::Quantity(dim),
+        positive: true,
+        doc,
+    }
 }
 
 #[derive(Clone, Debug)]
@@ -100,17 +105,27 @@ impl Args {
             )
             .with_label(format!("`{b}` given as well as `{a}`"))
             .with_secondary(self.span(a), format!("`{a}` given here"))
-            .with_help(format!("remove one of them; `{a}` and `{b}` say the same thing two ways"))),
+            .with_help(format!(
+                "remove one of them; `{a}` and `{b}` say the same thing two ways"
+            ))),
         }
     }
     fn key(&self, n: &str) -> &'static str {
         self.values.keys().copied().find(|k| *k == n).unwrap_or("")
     }
     pub fn missing(&self, names: &[&str], example: &str) -> Diagnostic {
-        let list = names.iter().map(|n| format!("`{n}`")).collect::<Vec<_>>().join(" or ");
-        Diagnostic::error("E203", format!("`{}` needs {list}", self.kind), self.call_span)
-            .with_label(format!("{list} missing"))
-            .with_help(format!("add it, e.g. `{example}`"))
+        let list = names
+            .iter()
+            .map(|n| format!("`{n}`"))
+            .collect::<Vec<_>>()
+            .join(" or ");
+        Diagnostic::error(
+            "E203",
+            format!("`{}` needs {list}", self.kind),
+            self.call_span,
+        )
+        .with_label(format!("{list} missing"))
+        .with_help(format!("add it, e.g. `{example}`"))
     }
 }
 
@@ -142,7 +157,12 @@ pub trait ElementKind: Sync {
     #[allow(clippy::result_large_err)]
     fn law(&self, args: &Args) -> Result<(crate::network::LinkLaw, Built), Diagnostic> {
         let b = self.build(args)?;
-        Ok((crate::network::LinkLaw::Linear { conductance: b.conductance }, b))
+        Ok((
+            crate::network::LinkLaw::Linear {
+                conductance: b.conductance,
+            },
+            b,
+        ))
     }
     /// Nodes the element makes for itself, named `LINK.suffix` (a heated slab's midplane).
     fn internal_nodes(&self) -> &'static [&'static str] {
@@ -168,7 +188,15 @@ pub trait ElementKind: Sync {
 }
 
 /// Every element kind the language knows.
-pub static ALL: &[&dyn ElementKind] = &[&plane::Layer, &plane::Film, &plane::Contact, &plane::Resistance, &plane::Conductance, &shell::Cylinder, &shell::Sphere, &radiation::Radiation,
+pub static ALL: &[&dyn ElementKind] = &[
+    &plane::Layer,
+    &plane::Film,
+    &plane::Contact,
+    &plane::Resistance,
+    &plane::Conductance,
+    &shell::Cylinder,
+    &shell::Sphere,
+    &radiation::Radiation,
     &shape_factor::BuriedPipe,
     &shape_factor::BuriedSphere,
     &shape_factor::ParallelCylinders,
@@ -183,7 +211,11 @@ pub fn lookup(name: &str) -> Option<&'static dyn ElementKind> {
 
 /// A value with its SI unit, for formulas.
 pub fn show(value: f64, dim: Dim) -> String {
-    let kind = if dim == Dim::TEMPERATURE { TempKind::Difference } else { TempKind::NotTemperature };
+    let kind = if dim == Dim::TEMPERATURE {
+        TempKind::Difference
+    } else {
+        TempKind::NotTemperature
+    };
     format_quantity(Quantity { value, dim, kind }, UnitSystem::Si)
 }
 
@@ -218,14 +250,22 @@ pub fn expand_into(
         net.nodes[n].load += load;
     }
     for p in x.parts {
-        let (Some(a), Some(b)) = (node(p.from), node(p.to)) else { continue };
-        let link_name = if p.suffix.is_empty() { name.name.clone() } else { format!("{}.{}", name.name, p.suffix) };
+        let (Some(a), Some(b)) = (node(p.from), node(p.to)) else {
+            continue;
+        };
+        let link_name = if p.suffix.is_empty() {
+            name.name.clone()
+        } else {
+            format!("{}.{}", name.name, p.suffix)
+        };
         net.links.push(crate::network::Link {
             name: link_name,
             span,
             from: a,
             to: b,
-            law: crate::network::LinkLaw::Linear { conductance: p.conductance },
+            law: crate::network::LinkLaw::Linear {
+                conductance: p.conductance,
+            },
             area: None,
             kind: kind.name().to_string(),
             formula: p.formula,

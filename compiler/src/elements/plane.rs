@@ -14,8 +14,17 @@ pub struct Resistance;
 pub struct Conductance;
 
 const LAYER: &[ParamSpec] = &[
-    ParamSpec { name: "material", ty: ArgType::Material, positive: false, doc: "a declared material (gives k)" },
-    q("k", Dim::CONDUCTIVITY, "thermal conductivity, instead of a material"),
+    ParamSpec {
+        name: "material",
+        ty: ArgType::Material,
+        positive: false,
+        doc: "a declared material (gives k)",
+    },
+    q(
+        "k",
+        Dim::CONDUCTIVITY,
+        "thermal conductivity, instead of a material",
+    ),
     q("thickness", Dim::LENGTH, "layer thickness L"),
     q("area", Dim::AREA, "area the heat crosses"),
 ];
@@ -54,14 +63,19 @@ impl ElementKind for Layer {
     fn law(&self, a: &Args) -> Result<(crate::network::LinkLaw, Built), Diagnostic> {
         // A/L: with k(T) the heat flow is (A/L)·∫k dT, k at the mean temperature for linear k.
         let b = self.build(a)?;
-        let shape = a.require("area", "area = 2 m^2")? / a.require("thickness", "thickness = 100 mm")?;
+        let shape =
+            a.require("area", "area = 2 m^2")? / a.require("thickness", "thickness = 100 mm")?;
         Ok(super::shell::conduction_law(a, shape, b))
     }
 }
 
 const FILM: &[ParamSpec] = &[
     q("h", Dim::HEAT_TRANSFER_COEFF, "heat transfer coefficient"),
-    q("r", Dim::AREA_RESISTANCE, "surface resistance per area, instead of h (e.g. ISO 6946 Rsi/Rse)"),
+    q(
+        "r",
+        Dim::AREA_RESISTANCE,
+        "surface resistance per area, instead of h (e.g. ISO 6946 Rsi/Rse)",
+    ),
     q("area", Dim::AREA, "surface area"),
 ];
 
@@ -81,13 +95,33 @@ impl ElementKind for Film {
         let (g, formula) = if which == "h" {
             let h = a.require("h", "h = 8 W/(m^2*K)")?;
             let g = h * area;
-            (g, format!("R = 1/(h·A) = 1 / ({} × {}) = {}", show(h, Dim::HEAT_TRANSFER_COEFF), show(area, Dim::AREA), show(1.0 / g, Dim::RESISTANCE)))
+            (
+                g,
+                format!(
+                    "R = 1/(h·A) = 1 / ({} × {}) = {}",
+                    show(h, Dim::HEAT_TRANSFER_COEFF),
+                    show(area, Dim::AREA),
+                    show(1.0 / g, Dim::RESISTANCE)
+                ),
+            )
         } else {
             let r = a.require("r", "r = 0.13 m^2*K/W")?;
             let g = area / r;
-            (g, format!("R = r/A = {} / {} = {}", show(r, Dim::AREA_RESISTANCE), show(area, Dim::AREA), show(1.0 / g, Dim::RESISTANCE)))
+            (
+                g,
+                format!(
+                    "R = r/A = {} / {} = {}",
+                    show(r, Dim::AREA_RESISTANCE),
+                    show(area, Dim::AREA),
+                    show(1.0 / g, Dim::RESISTANCE)
+                ),
+            )
         };
-        Ok(Built { conductance: g, area: Some(area), formula })
+        Ok(Built {
+            conductance: g,
+            area: Some(area),
+            formula,
+        })
     }
 }
 
@@ -113,7 +147,12 @@ impl ElementKind for Contact {
         Ok(Built {
             conductance: g,
             area: Some(area),
-            formula: format!("R = R″/A = {} / {} = {}", show(r, Dim::AREA_RESISTANCE), show(area, Dim::AREA), show(1.0 / g, Dim::RESISTANCE)),
+            formula: format!(
+                "R = R″/A = {} / {} = {}",
+                show(r, Dim::AREA_RESISTANCE),
+                show(area, Dim::AREA),
+                show(1.0 / g, Dim::RESISTANCE)
+            ),
         })
     }
 }
@@ -132,7 +171,11 @@ impl ElementKind for Resistance {
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
         let r = a.require("r", "resistance(2.5 K/W)")?;
-        Ok(Built { conductance: 1.0 / r, area: None, formula: format!("R = {}", show(r, Dim::RESISTANCE)) })
+        Ok(Built {
+            conductance: 1.0 / r,
+            area: None,
+            formula: format!("R = {}", show(r, Dim::RESISTANCE)),
+        })
     }
 }
 
@@ -150,6 +193,14 @@ impl ElementKind for Conductance {
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
         let g = a.require("g", "conductance(0.8 W/K)")?;
-        Ok(Built { conductance: g, area: None, formula: format!("R = 1/G = 1 / {} = {}", show(g, Dim::CONDUCTANCE), show(1.0 / g, Dim::RESISTANCE)) })
+        Ok(Built {
+            conductance: g,
+            area: None,
+            formula: format!(
+                "R = 1/G = 1 / {} = {}",
+                show(g, Dim::CONDUCTANCE),
+                show(1.0 / g, Dim::RESISTANCE)
+            ),
+        })
     }
 }
