@@ -85,7 +85,7 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
             )),
             Cell::new(&l.kind),
             Cell::new(show(
-                1.0 / l.conductance(),
+                1.0 / l.conductance_at(&sol.temperatures),
                 Dim::RESISTANCE,
                 TempKind::NotTemperature,
                 system,
@@ -138,6 +138,36 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
         out.push_str(&format!("Build-ups (films included)\n{t}\n\n"));
     }
 
+    if !net.figures.is_empty() {
+        let mut t = new_table(&["link", "figure", "value"]);
+        for f in &net.figures {
+            t.add_row(vec![
+                Cell::new(&net.links[f.link].name),
+                Cell::new(f.name),
+                Cell::new(format!("{:.4}", f.value)),
+            ]);
+        }
+        right(&mut t, &[2]);
+        out.push_str(&format!("Element figures (dimensionless)\n{t}\n\n"));
+    }
+
+    for r in &net.regions {
+        let field = r.field(&sol.temperatures, &sol.heat_flows);
+        let (lo, hi) = field
+            .iter()
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), c| {
+                (lo.min(c.temperature_k), hi.max(c.temperature_k))
+            });
+        out.push_str(&format!(
+            "Region {}: {} × {} cells, {} to {} (the field and heat flux vectors are in the JSON output)\n\n",
+            r.name,
+            r.nx,
+            r.ny,
+            temp(lo),
+            temp(hi)
+        ));
+    }
+
     let mut t = new_table(&["boundary", "heat delivered"]);
     for &(i, q) in &sol.boundary_heat {
         t.add_row(vec![Cell::new(&net.nodes[i].name), Cell::new(power(q))]);
@@ -167,6 +197,12 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
         }
         right(&mut t, &[2, 4]);
         out.push_str(&format!("Design limits\n{t}\n\n"));
+    }
+    if let Some(c) = &sol.convergence {
+        out.push_str(&format!(
+            "Nonlinear solve: {}, {} iterations, final residual {:.3e} W.\n",
+            c.method, c.iterations, c.final_residual
+        ));
     }
     out.push_str(&format!(
         "Energy balance: worst residual at a free node {:.3e} W.\n\n{CAUTION}\n",
@@ -215,11 +251,12 @@ pub fn json(a: &Analysis) -> String {
                 "to": net.nodes[l.to].name,
                 "kind": l.kind,
                 "heat_flow_W": q,
-                "resistance_K_per_W": 1.0 / l.conductance(),
+                "resistance_K_per_W": sol.map(|s| 1.0 / l.conductance_at(&s.temperatures)).unwrap_or(1.0 / l.conductance()),
                 "area_m2": l.area,
                 "heat_flux_W_per_m2": l.area.and_then(|a| q.map(|q| q / a)),
                 "buildup_use": l.group.map(|g| net.groups[g].name.clone()),
                 "formula": l.formula,
+                "figures": net.figures.iter().filter(|f| f.link == i).map(|f| (f.name.to_string(), json!(f.value))).collect::<serde_json::Map<String, Value>>(),
             })
         })
         .collect();
@@ -271,6 +308,11 @@ pub fn json(a: &Analysis) -> String {
         "buildups": groups,
         "limits": limits,
         "balance": sol.map(|s| json!({"worst_residual_W": s.worst_residual})),
+        "regions": net.regions.iter().map(|r| json!({
+            "name": r.name, "cells_x": r.nx, "cells_y": r.ny, "width_m": r.width, "height_m": r.height, "thickness_m": r.thickness,
+            "cells": sol.map(|s| r.field(&s.temperatures, &s.heat_flows)),
+        })).collect::<Vec<Value>>(),
+        "nonlinear_solve": sol.and_then(|s| s.convergence.as_ref()).map(|c| json!({"method": c.method, "iterations": c.iterations, "final_residual_W": c.final_residual})),
         "diagnostics": diagnostics,
         "caution": CAUTION,
     });
@@ -325,7 +367,7 @@ pub fn csv(a: &Analysis, system: UnitSystem) -> String {
             system,
         );
         let (r, _) = num(
-            1.0 / l.conductance(),
+            1.0 / l.conductance_at(&sol.temperatures),
             Dim::RESISTANCE,
             TempKind::NotTemperature,
             system,

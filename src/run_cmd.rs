@@ -89,6 +89,7 @@ pub fn analyse(
         &Options {
             check_only: true,
             overrides,
+            ..Options::default()
         },
     );
     let colour = colour_on(std::io::stderr().is_terminal());

@@ -4,7 +4,7 @@
 use caloris_compiler::eval::{Evaluator, NameKinds};
 use caloris_compiler::limits::resolve_measure;
 use caloris_compiler::parser::parse_expr;
-use caloris_compiler::source::NoImports;
+use caloris_compiler::source::SourceLoader;
 use caloris_compiler::span::FileId;
 use caloris_compiler::syntax::{ExprKind, Ident};
 use caloris_compiler::{analyze, Analysis, Options, Severity};
@@ -14,6 +14,33 @@ struct NoNames;
 impl NameKinds for NoNames {
     fn kind_of(&self, _: &str) -> Option<&'static str> {
         None
+    }
+}
+
+/// Reads imports relative to the importing file, never outside the repository (the CLI's own
+/// loader lives in the binary).
+struct RepoFiles<'a>(&'a Path);
+
+impl SourceLoader for RepoFiles<'_> {
+    fn load(&self, from: &str, path: &str) -> Result<(String, String), String> {
+        let joined = Path::new(from).parent().unwrap_or(Path::new("")).join(path);
+        let full = self
+            .0
+            .join(&joined)
+            .canonicalize()
+            .map_err(|e| e.to_string())?;
+        let root = self.0.canonicalize().map_err(|e| e.to_string())?;
+        if !full.starts_with(&root) {
+            return Err("it lies outside the repository".into());
+        }
+        let text = std::fs::read_to_string(&full).map_err(|e| e.to_string())?;
+        Ok((
+            full.strip_prefix(&root)
+                .unwrap_or(&full)
+                .display()
+                .to_string(),
+            text,
+        ))
     }
 }
 
@@ -176,7 +203,7 @@ fn every_case_meets_its_stated_expectations() {
     for f in &files {
         let text = std::fs::read_to_string(f).expect("readable case file");
         let name = f.strip_prefix(root).unwrap_or(f).display().to_string();
-        let a = analyze(&name, &text, &NoImports, &Options::default());
+        let a = analyze(&name, &text, &RepoFiles(root), &Options::default());
         let expects: Vec<&str> = text
             .lines()
             .filter_map(|l| l.trim().strip_prefix("# expect:"))

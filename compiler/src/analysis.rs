@@ -6,6 +6,7 @@ use crate::elaborate::{check_buildup_kinds, elaborate};
 use crate::elements::Material;
 use crate::limits::LimitSpec;
 use crate::network::Network;
+use crate::nonlinear::{newton_failure, solve_nonlinear, NewtonSettings};
 use crate::parser::parse;
 use crate::results::Solution;
 use crate::solve::{solve_steady, SolveError};
@@ -22,6 +23,8 @@ pub struct Options {
     pub check_only: bool,
     /// Parameter values that replace the model's own (studies and cases).
     pub overrides: Vec<(String, Quantity)>,
+    /// Most Newton steps a nonlinear solve may take (default 60).
+    pub newton_max_iterations: Option<usize>,
 }
 
 /// Everything known about a model after analysis.
@@ -66,6 +69,11 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
         &mut vec![name.to_string()],
     );
     let module_refs: Vec<&Module> = modules.iter().map(|(_, m)| m).collect();
+    // Repetitions and sub-network uses become plain declarations; the parsed modules stay as
+    // written for the editor.
+    let expanded = crate::expand::expand_modules(&module_refs, &options.overrides);
+    diagnostics.extend(expanded.diags);
+    let module_refs: Vec<&Module> = expanded.modules.iter().collect();
     for m in &module_refs {
         diagnostics.extend(check_buildup_kinds(m));
     }
@@ -73,7 +81,14 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     let has_syntax_errors = diagnostics
         .iter()
         .any(|d| d.is_error() && matches!(d.code, "E001" | "E002" | "E003" | "E004"));
-    diagnostics.extend(el.diags);
+    let expansion_failed = diagnostics.iter().any(|d| d.is_error());
+    // An unconnected boundary is expected when a repetition or use could not be expanded.
+    diagnostics.extend(
+        el.diags
+            .into_iter()
+            .filter(|d| !(expansion_failed && d.code == "W102")),
+    );
+    crate::expand::dedup_copies(&mut diagnostics, &expanded.bodies);
     if has_syntax_errors {
         // A declaration lost to a syntax error leaves nodes unlinked; reporting them as floating
         // would bury the real mistake under its echoes.
@@ -94,7 +109,27 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
         solution: None,
         studies: el.studies,
     };
-    if !analysis.has_errors() && !options.check_only {
+    if !analysis.has_errors()
+        && !options.check_only
+        && !analysis.network.links.iter().all(|l| l.law.is_linear())
+    {
+        let settings = NewtonSettings {
+            max_iterations: options
+                .newton_max_iterations
+                .unwrap_or(NewtonSettings::default().max_iterations),
+            ..NewtonSettings::default()
+        };
+        match solve_nonlinear(&analysis.network, settings) {
+            Ok((t, conv)) => {
+                let mut sol = Solution::new(&analysis.network, t, &analysis.limits);
+                sol.convergence = Some(conv);
+                analysis.solution = Some(sol);
+            }
+            Err(e) => analysis
+                .diagnostics
+                .push(newton_failure(&analysis.network, e)),
+        }
+    } else if !analysis.has_errors() && !options.check_only {
         match solve_steady(&analysis.network) {
             Ok(t) => {
                 analysis.solution = Some(Solution::new(&analysis.network, t, &analysis.limits))

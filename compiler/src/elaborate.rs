@@ -4,11 +4,14 @@
 //! evaluated on demand, then materials, nodes and links are checked argument by argument, and
 //! build-up uses are expanded into chains of element links with named interface nodes.
 
+use crate::conductivity::material_args as kt;
 use crate::diagnostic::{did_you_mean, Diagnostic};
-use crate::elements::{self, ArgType, ArgValue, Args, ElementKind, Material};
+use crate::elements::{self, shell, ArgType, ArgValue, Args, ElementKind, Material};
 use crate::eval::{expect_dim, expect_point, Evaluator, NameKinds};
 use crate::limits::{self, LimitSpec};
-use crate::network::{Group, Link, LinkLaw, Network, Node, NodeId};
+use crate::network::{Group, Link, LinkFigure, Network, Node, NodeId};
+use crate::radial::{self, UseArgs};
+use crate::region;
 use crate::source::Sources;
 use crate::span::Span;
 use crate::symbols::{Symbol, SymbolKind, SymbolTable};
@@ -62,6 +65,7 @@ pub fn elaborate(
                         | ItemKind::Link { .. }
                         | ItemKind::Limit { .. }
                         | ItemKind::Title { .. }
+                        | ItemKind::Region { .. }
                 )
             {
                 diags.push(
@@ -99,6 +103,8 @@ pub fn elaborate(
             ItemKind::Link { .. } => SymbolKind::Link,
             ItemKind::Buildup { .. } => SymbolKind::Buildup,
             ItemKind::Declaration { ref word, .. } => transient_decls::symbol_kind(&word.name),
+            // A region is a body that carries heat, like a link; its cells are generated nodes.
+            ItemKind::Region { .. } => SymbolKind::Link,
             _ => SymbolKind::Limit,
         };
         symbols.push(Symbol {
@@ -222,6 +228,49 @@ pub fn elaborate(
                         parent: Some(name.name.clone()),
                     });
                 }
+            } else if let Some(kind) = elements::lookup(&element.kind.name) {
+                for suffix in kind.internal_nodes() {
+                    let gen = format!("{}.{suffix}", name.name);
+                    net.nodes.push(Node {
+                        name: gen.clone(),
+                        span: name.span,
+                        fixed: None,
+                        load: 0.0,
+                        generated: true,
+                    });
+                    cx.symbols.push(Symbol {
+                        name: gen,
+                        kind: SymbolKind::GeneratedNode,
+                        def: name.span,
+                        decl: item.span,
+                        refs: Vec::new(),
+                        parent: Some(name.name.clone()),
+                    });
+                }
+            }
+        }
+    }
+    let mut plans = Vec::new();
+    for item in &items {
+        if let ItemKind::Region { name, args, .. } = &item.kind {
+            let Some(checked) = cx.args(&region::RegionArgs, args, item.span, &[]) else {
+                continue;
+            };
+            match region::Plan::new(&name.name, name.span, checked) {
+                Ok(mut plan) => {
+                    for n in plan.add_nodes(&mut net) {
+                        cx.symbols.push(Symbol {
+                            name: n,
+                            kind: SymbolKind::GeneratedNode,
+                            def: name.span,
+                            decl: item.span,
+                            refs: Vec::new(),
+                            parent: Some(name.name.clone()),
+                        });
+                    }
+                    plans.push((item, plan));
+                }
+                Err(d) => cx.diags.push(d),
             }
         }
     }
@@ -231,6 +280,13 @@ pub fn elaborate(
         .enumerate()
         .map(|(i, n)| (n.name.clone(), i))
         .collect();
+    for (item, mut plan) in plans {
+        if let ItemKind::Region { edges, .. } = &item.kind {
+            plan.add_internal_links(&mut net);
+            cx.region_edges(&mut plan, edges, &mut net, &node_index, &buildups);
+            net.regions.push(plan.region);
+        }
+    }
     let mut used = vec![false; net.nodes.len()];
     for item in &items {
         let ItemKind::Link {
@@ -265,24 +321,50 @@ pub fn elaborate(
             cx.symbols.add_ref(&element.kind.name, element.kind.span);
             cx.buildup_link(&mut net, &node_index, name, a, b, element, els);
         } else if let Some(kind) = elements::lookup(&element.kind.name) {
-            let built =
-                cx.args(kind, &element.args, element.span, None)
-                    .and_then(|args| match kind.build(&args) {
-                        Ok(b) => Some(b),
+            let args = cx.args(kind, &element.args, element.span, &[]);
+            let built = args.as_ref().and_then(|args| match kind.law(args) {
+                Ok(b) => Some(b),
+                Err(d) => {
+                    cx.diags.push(d);
+                    None
+                }
+            });
+            if let (Some(a), Some(b), Some((law, built))) = (a, b, built) {
+                if let Some(args) = &args {
+                    cx.diags.extend(kind.warnings(args));
+                    net.figures
+                        .extend(kind.figures(args).into_iter().map(|(n, v)| LinkFigure {
+                            link: net.links.len(),
+                            name: n,
+                            value: v,
+                        }));
+                    match kind.expand(args) {
+                        Ok(Some(x)) => {
+                            cx.diags.extend(elements::expand_into(
+                                &mut net,
+                                &node_index,
+                                name,
+                                item.span,
+                                a,
+                                b,
+                                kind,
+                                x,
+                            ));
+                            continue;
+                        }
+                        Ok(None) => {}
                         Err(d) => {
                             cx.diags.push(d);
-                            None
+                            continue;
                         }
-                    });
-            if let (Some(a), Some(b), Some(built)) = (a, b, built) {
+                    }
+                }
                 net.links.push(Link {
                     name: name.name.clone(),
                     span: item.span,
                     from: a,
                     to: b,
-                    law: LinkLaw::Linear {
-                        conductance: built.conductance,
-                    },
+                    law,
                     area: built.area,
                     kind: kind.name().to_string(),
                     formula: built.formula,
@@ -471,6 +553,7 @@ impl<'a> Cx<'a> {
         let mut k = None;
         let mut density = None;
         let mut specific_heat = None;
+        let mut k_of_t = kt::Parts::default();
         let mut seen: HashMap<&str, Span> = HashMap::new();
         for arg in args {
             let Some(an) = &arg.name else {
@@ -490,6 +573,22 @@ impl<'a> Cx<'a> {
                 continue;
             }
             match an.name.as_str() {
+                "k" if kt::is_table(&arg.value) => {
+                    k = self.k_table(&arg.value, &mut k_of_t);
+                }
+                "k_slope" => {
+                    k_of_t.slope = self
+                        .quantity(&arg.value, kt::SLOPE_DIM, "k_slope")
+                        .map(|q| (q.value, arg.value.span))
+                }
+                "k_at" => {
+                    if let Some(q) = self.quantity(&arg.value, Dim::TEMPERATURE, "k_at") {
+                        match expect_point(q, "k_at", &arg.value) {
+                            Ok(()) => k_of_t.at = Some((q.value, arg.value.span)),
+                            Err(d) => self.diags.push(d),
+                        }
+                    }
+                }
                 "k" => {
                     if let Some(q) = self.quantity(&arg.value, Dim::CONDUCTIVITY, "k") {
                         if self.positive(q.value, &arg.value, "k") {
@@ -510,7 +609,11 @@ impl<'a> Cx<'a> {
                         .filter(|q| self.positive(q.value, &arg.value, "specific_heat"))
                         .map(|q| q.value)
                 }
-                _ => self.unknown_arg(an, "a material", &["k", "density", "specific_heat"]),
+                _ => self.unknown_arg(
+                    an,
+                    "a material",
+                    &["k", "k_slope", "k_at", "density", "specific_heat"],
+                ),
             }
         }
         let Some(k) = k else {
@@ -529,13 +632,62 @@ impl<'a> Cx<'a> {
         };
         self.material_index
             .insert(name.name.clone(), self.materials.len());
+        let conductivity = match k_of_t.model(k, name) {
+            Ok(c) => c,
+            Err(d) => {
+                self.diags.push(d);
+                return;
+            }
+        };
         self.materials.push(Material {
             name: name.name.clone(),
             span: name.span,
             k,
             density,
             specific_heat,
+            conductivity,
         });
+    }
+
+    /// `k = table(T₁, k₁, T₂, k₂, …)`: evaluate and check the points; k at the first point is
+    /// the material's nominal k.
+    fn k_table(&mut self, e: &Expr, parts: &mut kt::Parts) -> Option<f64> {
+        let ExprKind::Call { args, .. } = &e.kind else {
+            return None;
+        };
+        let mut points = Vec::new();
+        let mut ok = true;
+        for pair in args.chunks(2) {
+            let t = self.quantity(&pair[0], Dim::TEMPERATURE, "a table temperature");
+            let t = t.filter(
+                |q| match expect_point(*q, "a table temperature", &pair[0]) {
+                    Ok(()) => true,
+                    Err(d) => {
+                        self.diags.push(d);
+                        false
+                    }
+                },
+            );
+            let k = pair.get(1).and_then(|v| {
+                self.quantity(v, Dim::CONDUCTIVITY, "a table conductivity")
+                    .filter(|q| self.positive(q.value, v, "k"))
+            });
+            match (t, k) {
+                (Some(t), Some(k)) => points.push((t.value, k.value, pair[0].span)),
+                _ => ok = false,
+            }
+        }
+        match kt::check_table(e, args.len(), &points) {
+            Some(d) => {
+                self.diags.push(d);
+                None
+            }
+            None if ok => {
+                parts.table = Some(points.iter().map(|p| (p.0, p.1)).collect());
+                Some(points[0].1)
+            }
+            None => None,
+        }
     }
 
     fn node_args(&mut self, name: &Ident, args: &[Arg]) -> (Option<f64>, f64) {
@@ -620,6 +772,60 @@ impl<'a> Cx<'a> {
             );
         }
         (fixed, load)
+    }
+
+    /// Attach a region's edges and faces to their nodes, each through its element if it has one.
+    fn region_edges(
+        &mut self,
+        plan: &mut region::Plan,
+        edges: &[RegionEdge],
+        net: &mut Network,
+        index: &HashMap<String, NodeId>,
+        buildups: &HashMap<&str, &Vec<BuildupElement>>,
+    ) {
+        let mut seen: HashMap<&str, Span> = HashMap::new();
+        for e in edges {
+            if !region::SIDES.contains(&e.side.name.as_str()) {
+                self.unknown_arg(&e.side, "a region", region::SIDES);
+                continue;
+            }
+            if let Some(prev) = seen.insert(&e.side.name, e.side.span) {
+                self.duplicate_arg(&e.side, prev);
+                continue;
+            }
+            let Some(node) = self.node_ref(&e.node, index, buildups) else {
+                continue;
+            };
+            let element = match &e.element {
+                None => None,
+                Some(call) => {
+                    let Some(kind) = elements::lookup(&call.kind.name)
+                        .filter(|k| k.takes_area() && k.single_link())
+                    else {
+                        self.diags.push(
+                            Diagnostic::error("E206", format!("`{}` cannot attach a region's edge", call.kind.name), call.kind.span)
+                                .with_label("not an element with an area")
+                                .with_help("attach an edge through `film`, `contact`, `radiation` or `layer`, or to a node directly (`left: hot_bar`)"),
+                        );
+                        continue;
+                    };
+                    let area = plan.cell_area(&e.side.name);
+                    let Some(args) =
+                        self.args(kind, &call.args, call.span, &[("area", area, e.side.span)])
+                    else {
+                        continue;
+                    };
+                    match kind.law(&args) {
+                        Ok((law, _)) => Some((kind.name(), law)),
+                        Err(d) => {
+                            self.diags.push(d);
+                            continue;
+                        }
+                    }
+                }
+            };
+            plan.attach(net, &e.side.name, node, element);
+        }
     }
 
     fn duplicate_arg(&mut self, an: &Ident, prev: Span) {
@@ -728,7 +934,7 @@ impl<'a> Cx<'a> {
         kind: &'static dyn ElementKind,
         args: &[Arg],
         call_span: Span,
-        area: Option<(f64, Span)>,
+        supplied: &[(&'static str, f64, Span)],
     ) -> Option<Args> {
         let specs = kind.params();
         let mut values = HashMap::new();
@@ -780,12 +986,9 @@ impl<'a> Cx<'a> {
                 ok = false;
                 continue;
             }
-            if spec.name == "area" && area.is_some() {
-                self.diags.push(
-                    Diagnostic::error("E210", "an element of a build-up takes its area from the link that uses the build-up", arg.span)
-                        .with_label("area given inside a build-up")
-                        .with_help("remove `area` here and give it where the build-up is used: `link name: a to b my_buildup(area = 10 m^2)`"),
-                );
+            if supplied.iter().any(|s| s.0 == spec.name) {
+                self.diags
+                    .push(radial::supplied_inside(spec.name, arg.span));
                 ok = false;
                 continue;
             }
@@ -867,9 +1070,9 @@ impl<'a> Cx<'a> {
                 },
             }
         }
-        if let Some((a, span)) = area {
-            if kind.takes_area() {
-                values.insert("area", (ArgValue::Quantity(a), span));
+        for &(name, v, span) in supplied {
+            if kind.params().iter().any(|p| p.name == name) {
+                values.insert(name, (ArgValue::Quantity(v), span));
             }
         }
         ok.then_some(Args {
@@ -890,45 +1093,16 @@ impl<'a> Cx<'a> {
         call: &ElementCall,
         els: &[BuildupElement],
     ) {
-        // The link's own arguments: the area for all its elements.
-        let mut area = None;
-        for arg in &call.args {
-            match arg.name.as_ref().map(|n| n.name.as_str()) {
-                Some("area") | None if area.is_none() => {
-                    if let Some(q) = self.quantity(&arg.value, Dim::AREA, "area") {
-                        if self.positive(q.value, &arg.value, "area") {
-                            area = Some((q.value, arg.value.span));
-                        }
-                    }
-                }
-                _ => {
-                    let n = arg.name.clone().unwrap_or(Ident {
-                        name: "value".into(),
-                        span: arg.span,
-                    });
-                    self.unknown_arg(&n, &format!("build-up `{}`", call.kind.name), &["area"]);
-                }
-            }
-        }
-        let needs_area = els
-            .iter()
-            .any(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| k.takes_area()));
-        if area.is_none() && needs_area && call.args.is_empty() {
-            self.diags.push(
-                Diagnostic::error(
-                    "E203",
-                    format!("build-up `{}` needs the `area` it covers", call.kind.name),
-                    call.span,
-                )
-                .with_label("`area` missing")
-                .with_help(format!("add it, e.g. `{}(area = 10 m^2)`", call.kind.name)),
-            );
+        let geom = shell::geometry(els.iter().map(|e| e.element.kind.name.as_str()));
+        let Some(use_args) = self.buildup_use_args(call, els, geom) else {
             return;
-        }
+        };
         let group_id = net.groups.len();
         let mut links = Vec::new();
         let mut prev = from;
         let mut complete = true;
+        // Each shell starts at the radius where the one before it ended.
+        let mut chain = radial::Chain::new(geom, use_args.inner_radius);
         for (i, e) in els.iter().enumerate() {
             let next = if i + 1 == els.len() {
                 to
@@ -942,26 +1116,44 @@ impl<'a> Cx<'a> {
                 complete = false;
                 continue;
             };
-            let built = self
-                .args(kind, &e.element.args, e.element.span, area)
-                .and_then(|a| match kind.build(&a) {
-                    Ok(b) => Some(b),
-                    Err(d) => {
-                        self.diags.push(d);
-                        None
-                    }
-                });
+            let args = self.args(
+                kind,
+                &e.element.args,
+                e.element.span,
+                &use_args.supplied(geom, chain.radius),
+            );
+            let built = args.as_ref().and_then(|a| match kind.law(a) {
+                Ok(b) => Some(b),
+                Err(d) => {
+                    self.diags.push(d);
+                    None
+                }
+            });
+            chain.advance(
+                i,
+                kind,
+                e.element.span,
+                args.as_ref(),
+                built.as_ref().map(|b| &b.1),
+            );
             match (prev, next, built) {
-                (Some(a), Some(b), Some(built)) => {
+                (Some(a), Some(b), Some((law, built))) => {
+                    if let Some(args) = &args {
+                        self.diags.extend(kind.warnings(args));
+                        net.figures
+                            .extend(kind.figures(args).into_iter().map(|(n, v)| LinkFigure {
+                                link: net.links.len(),
+                                name: n,
+                                value: v,
+                            }));
+                    }
                     links.push(net.links.len());
                     net.links.push(Link {
                         name: format!("{}.{}", name.name, e.name.name),
                         span: e.span,
                         from: a,
                         to: b,
-                        law: LinkLaw::Linear {
-                            conductance: built.conductance,
-                        },
+                        law,
                         area: built.area,
                         kind: kind.name().to_string(),
                         formula: built.formula,
@@ -973,18 +1165,72 @@ impl<'a> Cx<'a> {
             prev = next;
         }
         if complete {
+            self.diags.extend(chain.critical_radius_warning(name, els));
             if let (Some(a), Some(b)) = (from, to) {
+                let area = if geom == shell::Geometry::Plane {
+                    use_args.area.map(|a| a.0)
+                } else {
+                    None
+                };
                 net.groups.push(Group {
                     name: name.name.clone(),
                     span: name.span,
                     buildup: call.kind.name.clone(),
                     from: a,
                     to: b,
-                    area: area.map(|a| a.0),
+                    area,
                     links,
                 });
             }
         }
+    }
+
+    /// The arguments of a link that uses a build-up: the area of a plane build-up, the bore
+    /// radius (and the length of a cylindrical one) of a radial build-up.
+    fn buildup_use_args(
+        &mut self,
+        call: &ElementCall,
+        els: &[BuildupElement],
+        geom: shell::Geometry,
+    ) -> Option<UseArgs> {
+        let allowed = radial::use_arg_names(geom);
+        let mut found: HashMap<&'static str, (f64, Span)> = HashMap::new();
+        for arg in &call.args {
+            let key = arg
+                .name
+                .as_ref()
+                .map(|n| n.name.as_str())
+                .unwrap_or(allowed[0]);
+            match allowed.iter().find(|a| **a == key) {
+                Some(&k) if !found.contains_key(k) => {
+                    let dim = if k == "area" { Dim::AREA } else { Dim::LENGTH };
+                    if let Some(q) = self.quantity(&arg.value, dim, k) {
+                        if self.positive(q.value, &arg.value, k) {
+                            found.insert(k, (q.value, arg.value.span));
+                        }
+                    }
+                }
+                _ => {
+                    let n = arg.name.clone().unwrap_or(Ident {
+                        name: "value".into(),
+                        span: arg.span,
+                    });
+                    self.unknown_arg(&n, &format!("build-up `{}`", call.kind.name), allowed);
+                }
+            }
+        }
+        let needs_area = els
+            .iter()
+            .any(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| k.takes_area()));
+        if let Some(d) = radial::missing_use_args(call, geom, allowed, &found, needs_area) {
+            self.diags.push(d);
+            return None;
+        }
+        Some(UseArgs {
+            area: found.get("area").copied(),
+            inner_radius: found.get("inner_radius").copied(),
+            length: found.get("length").copied(),
+        })
     }
 }
 
@@ -1004,6 +1250,23 @@ pub fn check_buildup_kinds(module: &Module) -> Vec<Diagnostic> {
                         .with_help("list its layers and films from one side to the other, e.g. `inside: film(h = 8 W/(m^2*K))`"),
                 );
             }
+            out.extend(shell::check_mixed(els));
+            for e in els.iter().filter(|e| {
+                elements::lookup(&e.element.kind.name).is_some_and(|k| !k.single_link())
+            }) {
+                out.push(
+                    Diagnostic::error(
+                        "E217",
+                        format!(
+                            "`{}` cannot be an element of a build-up",
+                            e.element.kind.name
+                        ),
+                        e.element.kind.span,
+                    )
+                    .with_label("makes its own nodes and heat")
+                    .with_help("declare it as a link of its own between the two nodes it joins"),
+                );
+            }
             for e in els {
                 if elements::lookup(&e.element.kind.name).is_none() {
                     let names = elements::ALL.iter().map(|k| k.name());
@@ -1014,8 +1277,19 @@ pub fn check_buildup_kinds(module: &Module) -> Vec<Diagnostic> {
                     )
                     .with_label("not an element kind");
                     d = match did_you_mean(&e.element.kind.name, names) {
-                        Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), e.element.kind.span, s),
-                        None => d.with_help("a build-up element is `layer(...)`, `film(...)`, `contact(...)`, `resistance(...)` or `conductance(...)`"),
+                        Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
+                            format!("Replace with `{s}`"),
+                            e.element.kind.span,
+                            s,
+                        ),
+                        None => d.with_help(format!(
+                            "a build-up element is one of {}",
+                            elements::ALL
+                                .iter()
+                                .map(|k| format!("`{}(...)`", k.name()))
+                                .collect::<Vec<_>>()
+                                .join(", ")
+                        )),
                     };
                     out.push(d);
                 }

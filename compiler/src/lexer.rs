@@ -29,7 +29,9 @@ pub enum Tok {
     Limit,
     #[token("to")]
     To,
-    #[regex(r"[A-Za-z_][A-Za-z0-9_]*(\.[A-Za-z_][A-Za-z0-9_]*)*")]
+    // Segments after a dot may start with a digit: `fin.3.t` names a node of copy 3 of a
+    // repetition.
+    #[regex(r"[A-Za-z_][A-Za-z0-9_]*(\.[A-Za-z0-9_]+)*")]
     Ident,
     /// A number and the unit written after it; the payload is the byte length of the number.
     #[regex(r"[0-9]+(\.[0-9]*)?([eE][+-]?[0-9]+)?", number_with_unit)]

@@ -7,16 +7,22 @@
 
 pub mod analysis;
 pub mod compare;
+pub mod conductivity;
 pub mod diagnostic;
 pub mod elaborate;
 pub mod elements;
 pub mod eval;
+pub mod expand;
 pub mod format;
+pub mod laws;
 pub mod lexer;
 pub mod limits;
 pub mod network;
+pub mod nonlinear;
 pub mod parser;
 pub mod query;
+pub mod radial;
+pub mod region;
 pub mod render;
 pub mod results;
 pub mod solve;

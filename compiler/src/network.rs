@@ -25,6 +25,15 @@ pub struct Node {
 pub enum LinkLaw {
     /// Q = G·(T_from − T_to) with a constant conductance G in W/K.
     Linear { conductance: f64 },
+    /// Q = σ·A_x·(T_from⁴ − T_to⁴) with temperatures in kelvin and the radiative exchange area
+    /// A_x in m² (grey surfaces; see `crate::laws`).
+    Radiation { exchange_area: f64 },
+    /// Q = S·∫ k(T) dT from T_to to T_from: conduction with a temperature-dependent
+    /// conductivity through a body whose geometry gives the conduction shape S in m.
+    Conduction {
+        shape: f64,
+        conductivity: crate::conductivity::Conductivity,
+    },
 }
 
 #[derive(Clone, Debug, Serialize)]
@@ -45,10 +54,12 @@ pub struct Link {
 }
 
 impl Link {
-    /// Conductance in W/K.
+    /// Conductance in W/K of a linear link; NaN for a nonlinear one, whose conductance depends
+    /// on its end temperatures (use `conductance_at` with solved temperatures).
     pub fn conductance(&self) -> f64 {
         match self.law {
             LinkLaw::Linear { conductance } => conductance,
+            _ => f64::NAN,
         }
     }
 }
@@ -72,6 +83,18 @@ pub struct Network {
     pub groups: Vec<Group>,
     /// Capacities, initial temperatures and schedules for transient runs (empty when steady).
     pub dynamics: crate::transient::model::Dynamics,
+    /// Named dimensionless figures of links (a fin's efficiency), for reports.
+    pub figures: Vec<LinkFigure>,
+    /// 2-D regions meshed into the network, for their temperature and flux fields.
+    pub regions: Vec<crate::region::Region>,
+}
+
+/// A named figure of one link, such as `fin_efficiency`.
+#[derive(Clone, Debug, Serialize)]
+pub struct LinkFigure {
+    pub link: LinkId,
+    pub name: &'static str,
+    pub value: f64,
 }
 
 impl Network {

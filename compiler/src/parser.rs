@@ -183,7 +183,9 @@ impl<'a> Parser<'a> {
             self.pos += 1;
         }
         while let Some(k) = self.peek() {
-            if k.starts_item() || (self.at_declaration_word(self.pos) && self.starts_line(self.pos))
+            if k.starts_item()
+                || (self.at_declaration_word(self.pos) && self.starts_line(self.pos))
+                || self.at_contextual_item()
             {
                 break;
             }
@@ -271,10 +273,11 @@ impl<'a> Parser<'a> {
                 ItemKind::Limit { name, measure, subject, op, value }
             }
             Tok::Ident if self.at_declaration_word(self.pos) => self.declaration()?,
+            Tok::Ident if self.at_contextual_item() => self.contextual_item()?,
             _ => {
                 return Err(self.unexpected(
                     t,
-                    "a declaration (`param`, `material`, `node`, `link`, `buildup`, `limit`, `title` or `import`)",
+                    "a declaration (`param`, `material`, `node`, `link`, `buildup`, `limit`, `repeat`, `network`, `use`, `title` or `import`)",
                 ))
             }
         };
@@ -690,6 +693,144 @@ impl<'a> Parser<'a> {
                 })
             }
             _ => Err(self.unexpected(t, "a value (a number with its unit, a name or a bracket)")),
+        }
+    }
+}
+
+/// Words that start a declaration only where a declaration may start, followed by a name; they
+/// stay ordinary names everywhere else, so they need no tokens of their own.
+pub const CONTEXTUAL: &[&str] = &["repeat", "network", "use", "region"];
+
+impl Parser<'_> {
+    fn at_contextual_item(&self) -> bool {
+        match (self.tokens.get(self.pos), self.tokens.get(self.pos + 1)) {
+            (Some(t), Some(n)) => {
+                t.kind == Tok::Ident
+                    && n.kind == Tok::Ident
+                    && CONTEXTUAL.contains(&self.slice(t.span))
+            }
+            _ => false,
+        }
+    }
+
+    /// `repeat NAME (ARGS) { ... }`, `network NAME (PORTS) { ... }`, `use NAME: NETWORK(ARGS)`.
+    fn contextual_item(&mut self) -> PResult<ItemKind> {
+        let keyword = self.bump();
+        match self.slice(keyword.span) {
+            "repeat" => {
+                let name = self.ident("the repetition's name")?;
+                let args = self.arg_list("`(count = N)` after the repetition's name")?;
+                let body = self.body("`{` to open the declarations to repeat")?;
+                Ok(ItemKind::Repeat { name, args, body })
+            }
+            "network" => {
+                let name = self.ident("the sub-network's name")?;
+                self.expect(
+                    Tok::LParen,
+                    "`(` and the sub-network's port nodes, e.g. `(inside, outside)`",
+                )?;
+                let mut ports = Vec::new();
+                if self.eat(Tok::RParen).is_none() {
+                    loop {
+                        ports.push(self.ident("a port node name")?);
+                        if self.eat(Tok::Comma).is_some() {
+                            continue;
+                        }
+                        self.expect(Tok::RParen, "`,` or `)` after a port name")?;
+                        break;
+                    }
+                }
+                let body = self.body("`{` to open the sub-network's declarations")?;
+                Ok(ItemKind::Network { name, ports, body })
+            }
+            "region" => {
+                let name = self.ident("the region's name")?;
+                let args = self.arg_list("`(` and the region's material, size and cell counts")?;
+                let open = self.expect(Tok::LBrace, "`{` to open the region's edge attachments")?;
+                let mut edges = Vec::new();
+                while self.eat(Tok::RBrace).is_none() {
+                    if self.at_end() {
+                        return Err(Diagnostic::error(
+                            "E002",
+                            "this region is not closed",
+                            open.span,
+                        )
+                        .with_label("`{` opened here")
+                        .with_help("add `}` after the last edge attachment"));
+                    }
+                    let side = self.ident(
+                        "an edge (`left`, `right`, `bottom`, `top`) or face (`front`, `back`)",
+                    )?;
+                    self.expect(Tok::Colon, "`:` after the edge, as in `left: hot_bar`")?;
+                    let node = self.ident("the node this edge is attached to")?;
+                    let element = if self.peek() == Some(Tok::Ident)
+                        && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::LParen)
+                    {
+                        Some(self.element_call("an element such as `film(h = 10 W/(m^2*K))`")?)
+                    } else {
+                        None
+                    };
+                    let span = side.span.to(self.prev_end());
+                    edges.push(RegionEdge {
+                        side,
+                        node,
+                        element,
+                        span,
+                    });
+                }
+                Ok(ItemKind::Region { name, args, edges })
+            }
+            _ => {
+                let name = self.ident("the name of this use")?;
+                self.expect(Tok::Colon, "`:` after the name, as in `use kitchen: room_wall(inside = kitchen, outside = garden)`")?;
+                let network = self.ident("the sub-network to use")?;
+                let args = self.arg_list("`(` and the ports and parameters of the use")?;
+                Ok(ItemKind::Use {
+                    name,
+                    network,
+                    args,
+                })
+            }
+        }
+    }
+
+    /// `{ declarations }`; a broken declaration inside is skipped up to the next one or `}`.
+    fn body(&mut self, expected: &str) -> PResult<Vec<Item>> {
+        let open = self.expect(Tok::LBrace, expected)?;
+        let mut items = Vec::new();
+        loop {
+            match self.peek() {
+                Some(Tok::RBrace) => {
+                    self.bump();
+                    return Ok(items);
+                }
+                None => {
+                    return Err(
+                        Diagnostic::error("E002", "this block is not closed", open.span)
+                            .with_label("`{` opened here")
+                            .with_help("add `}` after the block's last declaration"),
+                    )
+                }
+                Some(_) => {
+                    let start = self.pos;
+                    match self.item() {
+                        Ok(item) => items.push(item),
+                        Err(d) => {
+                            self.diags.push(d);
+                            if self.pos == start {
+                                self.pos += 1;
+                            }
+                            while let Some(k) = self.peek() {
+                                if k == Tok::RBrace || k.starts_item() || self.at_contextual_item()
+                                {
+                                    break;
+                                }
+                                self.pos += 1;
+                            }
+                        }
+                    }
+                }
+            }
         }
     }
 }

@@ -35,16 +35,14 @@ pub struct Solution {
     pub boundary_heat: Vec<(usize, f64)>,
     pub groups: Vec<GroupResult>,
     pub limits: Vec<LimitResult>,
+    /// How the nonlinear solve converged; `None` for a linear network (one direct solve).
+    pub convergence: Option<crate::nonlinear::Convergence>,
 }
 
 impl Solution {
     pub fn new(net: &Network, temps: Temperatures, limit_specs: &[LimitSpec]) -> Solution {
         let t = temps.0;
-        let flows: Vec<f64> = net
-            .links
-            .iter()
-            .map(|l| l.conductance() * (t[l.from] - t[l.to]))
-            .collect();
+        let flows: Vec<f64> = net.links.iter().map(|l| l.heat_flow(&t)).collect();
         let mut residuals: Vec<f64> = net.nodes.iter().map(|n| n.load).collect();
         for (l, q) in net.links.iter().zip(&flows) {
             residuals[l.from] -= q;
@@ -71,7 +69,7 @@ impl Solution {
                 let resistance: f64 = g
                     .links
                     .iter()
-                    .map(|&l| 1.0 / net.links[l].conductance())
+                    .map(|&l| 1.0 / net.links[l].conductance_at(&t))
                     .sum();
                 GroupResult {
                     name: g.name.clone(),
@@ -90,6 +88,7 @@ impl Solution {
             boundary_heat,
             groups,
             limits: Vec::new(),
+            convergence: None,
         };
         sol.limits = limit_specs
             .iter()
@@ -111,11 +110,13 @@ impl Solution {
                 self.groups[g].heat_flow / net.groups[g].area.unwrap_or(f64::NAN)
             }
             (Measure::UValue, Subject::Link(l)) => {
-                net.links[l].conductance() / net.links[l].area.unwrap_or(f64::NAN)
+                net.links[l].conductance_at(&self.temperatures)
+                    / net.links[l].area.unwrap_or(f64::NAN)
             }
             (Measure::UValue, Subject::Group(g)) => self.groups[g].u_value.unwrap_or(f64::NAN),
             (Measure::RValue, Subject::Link(l)) => {
-                net.links[l].area.unwrap_or(f64::NAN) / net.links[l].conductance()
+                net.links[l].area.unwrap_or(f64::NAN)
+                    / net.links[l].conductance_at(&self.temperatures)
             }
             (Measure::RValue, Subject::Group(g)) => self.groups[g].r_value.unwrap_or(f64::NAN),
             _ => f64::NAN,

@@ -425,6 +425,7 @@ fn point(
         &Options {
             check_only: transient,
             overrides,
+            ..Options::default()
         },
     );
     if a.has_errors() {

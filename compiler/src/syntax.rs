@@ -143,6 +143,34 @@ pub enum ItemKind {
         args: Vec<Arg>,
         rows: Option<Vec<Row>>,
     },
+    /// `repeat NAME (count = N, first = NODE) { declarations }`: N copies of the body, copy i's
+    /// names prefixed `NAME.i.` (see `crate::expand`).
+    Repeat {
+        name: Ident,
+        args: Vec<Arg>,
+        body: Vec<Item>,
+    },
+    /// `network NAME (PORT, ...) { declarations }`: a reusable sub-network; ports are the nodes
+    /// a use connects, `param`s in the body are defaults a use may replace.
+    Network {
+        name: Ident,
+        ports: Vec<Ident>,
+        body: Vec<Item>,
+    },
+    /// `use NAME: NETWORK(PORT = NODE, PARAM = VALUE, ...)`: one copy of a sub-network, its
+    /// names prefixed `NAME.`.
+    Use {
+        name: Ident,
+        network: Ident,
+        args: Vec<Arg>,
+    },
+    /// `region NAME (ARGS) { SIDE: NODE [ELEMENT(...)] ... }`: a rectangle meshed into cells
+    /// (see `crate::region`).
+    Region {
+        name: Ident,
+        args: Vec<Arg>,
+        edges: Vec<RegionEdge>,
+    },
 }
 
 /// Words that begin a declaration only at the start of a line and are otherwise ordinary names
@@ -154,6 +182,15 @@ pub const DECLARATION_WORDS: &[&str] = &["schedule", "case", "transient"];
 pub struct Row {
     pub key: Expr,
     pub value: Expr,
+    pub span: Span,
+}
+
+/// One attachment of a region: `right: air film(h = 10 W/(m^2*K))`, or `left: hot_bar`.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct RegionEdge {
+    pub side: Ident,
+    pub node: Ident,
+    pub element: Option<ElementCall>,
     pub span: Span,
 }
 
@@ -175,7 +212,11 @@ impl Item {
             | ItemKind::Link { name, .. }
             | ItemKind::Buildup { name, .. }
             | ItemKind::Limit { name, .. }
-            | ItemKind::Declaration { name, .. } => Some(name),
+            | ItemKind::Declaration { name, .. }
+            | ItemKind::Repeat { name, .. }
+            | ItemKind::Network { name, .. }
+            | ItemKind::Use { name, .. }
+            | ItemKind::Region { name, .. } => Some(name),
         }
     }
 }

@@ -217,7 +217,11 @@ fn link(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
         let _ = write!(out, "\n\n{}", kind.summary());
     }
     let _ = write!(out, "\n\n```text\n{}\n```", link.formula);
-    let g = link.conductance();
+    // Nonlinear links (radiation, k(T)) have a conductance only at solved temperatures.
+    let g = match &snap.analysis.solution {
+        Some(sol) => link.conductance_at(&sol.temperatures),
+        None => link.conductance(),
+    };
     let _ = write!(
         out,
         "\n\nResistance **{}** · conductance {}",

@@ -197,7 +197,7 @@ pub fn report(a: &Analysis, model: &str, figures: &Figures, system: UnitSystem) 
                 code(&net.nodes[l.to].name)
             ),
             l.kind.clone(),
-            plain(1.0 / l.conductance(), Dim::RESISTANCE),
+            plain(1.0 / l.conductance_at(&sol.temperatures), Dim::RESISTANCE),
             power(qf),
             flux,
         ]);
@@ -484,7 +484,10 @@ fn inputs(out: &mut String, a: &Analysis, system: UnitSystem) {
             let net = &a.network;
             let r = match (net.group_id(&name.name), net.link_id(&name.name)) {
                 (Some(g), _) => a.solution.as_ref().map(|s| s.groups[g].resistance),
-                (None, Some(l)) => Some(1.0 / net.links[l].conductance()),
+                (None, Some(l)) => a
+                    .solution
+                    .as_ref()
+                    .map(|s| 1.0 / net.links[l].conductance_at(&s.temperatures)),
                 _ => None,
             };
             let r = r

@@ -48,7 +48,8 @@ pub fn run(file: &PathBuf, dir: &Path, path: Option<&[String]>, system: UnitSyst
         },
         None => profile::default_path(net, sol),
     };
-    let prof = chosen.map(|(nodes, origin)| profile::profile(net, nodes, origin));
+    let prof =
+        chosen.map(|(nodes, origin)| profile::profile(net, &sol.temperatures, nodes, origin));
     let title = a.title.clone().unwrap_or_else(|| name.clone());
     let mut files: Vec<(&str, String)> = Vec::new();
     if let Some(p) = &prof {

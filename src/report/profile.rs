@@ -128,7 +128,7 @@ pub fn default_path(net: &Network, sol: &Solution) -> Option<(Vec<usize>, String
 
 /// Positions along the path: the resistance of the links joining each pair (in parallel when
 /// several do), summed from the start.
-pub fn profile(net: &Network, nodes: Vec<usize>, origin: String) -> Profile {
+pub fn profile(net: &Network, temps: &[f64], nodes: Vec<usize>, origin: String) -> Profile {
     let mut by_pair: std::collections::HashMap<(usize, usize), Vec<usize>> = Default::default();
     for (i, l) in net.links.iter().enumerate() {
         by_pair
@@ -143,7 +143,10 @@ pub fn profile(net: &Network, nodes: Vec<usize>, origin: String) -> Profile {
                 .get(&(w[0].min(w[1]), w[0].max(w[1])))
                 .cloned()
                 .unwrap_or_default();
-            let g: f64 = links.iter().map(|&l| net.links[l].conductance()).sum();
+            let g: f64 = links
+                .iter()
+                .map(|&l| net.links[l].conductance_at(temps))
+                .sum();
             let areas: Vec<Option<f64>> = links.iter().map(|&l| net.links[l].area).collect();
             let area = if areas.len() == 1 { areas[0] } else { None };
             (1.0 / g, area)

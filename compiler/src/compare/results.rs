@@ -196,7 +196,12 @@ pub(super) fn results(
         net.links
             .iter()
             .zip(&s.heat_flows)
-            .map(|(l, q)| (l.name.clone(), (1.0 / l.conductance(), *q)))
+            .map(|(l, q)| {
+                (
+                    l.name.clone(),
+                    (1.0 / l.conductance_at(&s.temperatures), *q),
+                )
+            })
             .collect()
     };
     for (name, (o, n)) in pair_up(links(no, so), links(nn, sn)) {

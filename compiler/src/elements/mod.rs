@@ -3,7 +3,12 @@
 //! Adding an element is adding one type that implements [`ElementKind`] and listing it in
 //! [`ALL`]; the parser, checker, language server and docs pick it up from here.
 
+pub mod fin;
+pub mod generation;
 mod plane;
+pub mod radiation;
+pub mod shape_factor;
+pub mod shell;
 
 use crate::diagnostic::Diagnostic;
 use crate::span::Span;
@@ -21,6 +26,9 @@ pub struct Material {
     pub density: Option<f64>,
     /// J/(kg·K)
     pub specific_heat: Option<f64>,
+    /// k(T) when the conductivity depends on temperature; `k` is then its value at the
+    /// reference temperature (`k_at`) or at the table's first point.
+    pub conductivity: Option<crate::conductivity::Conductivity>,
 }
 
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -144,6 +152,39 @@ pub trait ElementKind: Sync {
         self.params().iter().any(|p| p.name == "area")
     }
     fn build(&self, args: &Args) -> Result<Built, Diagnostic>;
+    /// How the link's heat flow depends on its end temperatures. Most elements are linear with
+    /// the conductance `build` gives; radiation and k(T) conduction override this.
+    #[allow(clippy::result_large_err)]
+    fn law(&self, args: &Args) -> Result<(crate::network::LinkLaw, Built), Diagnostic> {
+        let b = self.build(args)?;
+        Ok((
+            crate::network::LinkLaw::Linear {
+                conductance: b.conductance,
+            },
+            b,
+        ))
+    }
+    /// Nodes the element makes for itself, named `LINK.suffix` (a heated slab's midplane).
+    fn internal_nodes(&self) -> &'static [&'static str] {
+        &[]
+    }
+    /// False for elements that make nodes or put heat into nodes: they cannot sit in a build-up.
+    fn single_link(&self) -> bool {
+        true
+    }
+    /// For elements that become several links and put heat into nodes; `None` for one link.
+    #[allow(clippy::result_large_err)]
+    fn expand(&self, _args: &Args) -> Result<Option<generation::Expansion>, Diagnostic> {
+        Ok(None)
+    }
+    /// Named dimensionless figures of a use, for reports (a fin's efficiency, ...).
+    fn figures(&self, _args: &Args) -> Vec<(&'static str, f64)> {
+        Vec::new()
+    }
+    /// Warnings about a use whose arguments are valid but outside where the formula holds well.
+    fn warnings(&self, _args: &Args) -> Vec<Diagnostic> {
+        Vec::new()
+    }
 }
 
 /// Every element kind the language knows.
@@ -153,6 +194,15 @@ pub static ALL: &[&dyn ElementKind] = &[
     &plane::Contact,
     &plane::Resistance,
     &plane::Conductance,
+    &shell::Cylinder,
+    &shell::Sphere,
+    &radiation::Radiation,
+    &shape_factor::BuriedPipe,
+    &shape_factor::BuriedSphere,
+    &shape_factor::ParallelCylinders,
+    &fin::Fin,
+    &generation::HeatedSlab,
+    &generation::HeatedRod,
 ];
 
 pub fn lookup(name: &str) -> Option<&'static dyn ElementKind> {
@@ -167,4 +217,60 @@ pub fn show(value: f64, dim: Dim) -> String {
         TempKind::NotTemperature
     };
     format_quantity(Quantity { value, dim, kind }, UnitSystem::Si)
+}
+
+/// Add the links and loads of an element that expands into several links (see
+/// [`generation::Expansion`]). A load on a fixed FROM or TO node is E209.
+#[allow(clippy::too_many_arguments)]
+pub fn expand_into(
+    net: &mut crate::network::Network,
+    index: &HashMap<String, usize>,
+    name: &crate::syntax::Ident,
+    span: Span,
+    from: usize,
+    to: usize,
+    kind: &dyn ElementKind,
+    x: generation::Expansion,
+) -> Option<Diagnostic> {
+    use generation::End;
+    let node = |e: End| match e {
+        End::From => Some(from),
+        End::To => Some(to),
+        End::Internal(s) => index.get(&format!("{}.{s}", name.name)).copied(),
+    };
+    for (end, load) in &x.loads {
+        let Some(n) = node(*end) else { continue };
+        if net.nodes[n].fixed.is_some() {
+            return Some(
+                Diagnostic::error("E209", format!("`{}` puts its generated heat into `{}`, which is fixed", name.name, net.nodes[n].name), name.span)
+                    .with_label("generated heat on a fixed node")
+                    .with_help(format!("the FROM node of `{}` is the body's axis: make it a free node (its temperature is the centre temperature)", kind.name())),
+            );
+        }
+        net.nodes[n].load += load;
+    }
+    for p in x.parts {
+        let (Some(a), Some(b)) = (node(p.from), node(p.to)) else {
+            continue;
+        };
+        let link_name = if p.suffix.is_empty() {
+            name.name.clone()
+        } else {
+            format!("{}.{}", name.name, p.suffix)
+        };
+        net.links.push(crate::network::Link {
+            name: link_name,
+            span,
+            from: a,
+            to: b,
+            law: crate::network::LinkLaw::Linear {
+                conductance: p.conductance,
+            },
+            area: None,
+            kind: kind.name().to_string(),
+            formula: p.formula,
+            group: None,
+        });
+    }
+    None
 }

@@ -60,6 +60,13 @@ impl ElementKind for Layer {
             ),
         })
     }
+    fn law(&self, a: &Args) -> Result<(crate::network::LinkLaw, Built), Diagnostic> {
+        // A/L: with k(T) the heat flow is (A/L)·∫k dT, k at the mean temperature for linear k.
+        let b = self.build(a)?;
+        let shape =
+            a.require("area", "area = 2 m^2")? / a.require("thickness", "thickness = 100 mm")?;
+        Ok(super::shell::conduction_law(a, shape, b))
+    }
 }
 
 const FILM: &[ParamSpec] = &[

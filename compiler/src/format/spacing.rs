@@ -37,7 +37,9 @@ pub fn wants_space(j: &Join) -> bool {
             // The contextual words (`schedule`, `case`, `transient`) open declarations too.
             return j.before_prev.is_some_and(|b| {
                 b.starts_item()
-                    || (b.kind == Tok::Ident && DECLARATION_WORDS.contains(&b.text.as_str()))
+                    || (b.kind == Tok::Ident
+                        && (DECLARATION_WORDS.contains(&b.text.as_str())
+                            || crate::parser::CONTEXTUAL.contains(&b.text.as_str())))
             });
         }
         if p.is_closer() {

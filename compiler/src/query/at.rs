@@ -96,6 +96,28 @@ fn in_item(item: &Item, offset: u32) -> Option<Target<'_>> {
             .map(|a| &a.value)
             .chain(rows.iter().flatten().flat_map(|r| [&r.key, &r.value]))
             .find_map(|e| in_expr(e, offset)),
+        ItemKind::Repeat { args, body, .. } => args
+            .iter()
+            .find_map(|a| in_expr(&a.value, offset))
+            .or_else(|| {
+                body.iter()
+                    .find(|i| i.span.contains(offset))
+                    .and_then(|i| in_item(i, offset))
+            }),
+        ItemKind::Network { body, .. } => body
+            .iter()
+            .find(|i| i.span.contains(offset))
+            .and_then(|i| in_item(i, offset)),
+        ItemKind::Use { args, .. } => args.iter().find_map(|a| in_expr(&a.value, offset)),
+        ItemKind::Region { args, edges, .. } => args
+            .iter()
+            .find_map(|a| in_expr(&a.value, offset))
+            .or_else(|| {
+                edges
+                    .iter()
+                    .filter_map(|e| e.element.as_ref())
+                    .find_map(|c| in_call(c, offset))
+            }),
         ItemKind::Title { .. } | ItemKind::Import { .. } => None,
     }
 }

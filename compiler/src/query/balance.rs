@@ -106,6 +106,12 @@ pub fn preferred_system(a: &Analysis) -> crate::units::UnitSystem {
                 .map(|a| &a.value)
                 .chain(rows.iter().flatten().flat_map(|r| [&r.key, &r.value]))
                 .collect(),
+            ItemKind::Use { args, .. } | ItemKind::Region { args, .. } => {
+                args.iter().map(|a| &a.value).collect()
+            }
+            // Bodies of repetitions and sub-networks are counted through their expansion.
+            ItemKind::Repeat { args, .. } => args.iter().map(|a| &a.value).collect(),
+            ItemKind::Network { .. } => Vec::new(),
             ItemKind::Title { .. } | ItemKind::Import { .. } => Vec::new(),
         };
         for e in exprs {

@@ -1,0 +1,605 @@
+//! Repetitions and sub-networks: expanded into plain declarations before elaboration.
+//!
+//! `repeat seg (count = 8, first = base) { ... }` makes eight copies of its body; copy i's
+//! names become `seg.i.NAME`, `index` is i, `count` is 8, and `previous.NAME` is copy i−1's
+//! node (the `first` node for copy 1), so a rod or fin split into segments needs no copy-paste.
+//! `network NAME (PORTS) { ... }` declares a reusable sub-network and `use kitchen: NAME(...)`
+//! places one copy whose names become `kitchen.NAME`, its ports bound to the given nodes and
+//! its `param`s replaced by the given values. The generated names are ordinary names: results
+//! and limits refer to them like any other.
+// Diagnostics are returned by value throughout the compiler; boxing them here alone would
+// split the element API.
+#![allow(clippy::result_large_err)]
+
+use crate::diagnostic::{did_you_mean, Diagnostic};
+use crate::eval::{Evaluator, NameKinds};
+use crate::span::Span;
+use crate::syntax::*;
+use crate::units::{Dim, Quantity};
+use std::collections::{HashMap, HashSet};
+
+/// Most copies one repetition may make, so a typing slip cannot exhaust memory.
+pub const MAX_COPIES: usize = 100_000;
+/// Deepest nesting of repetitions and uses (a sub-network that uses itself stops here).
+pub const MAX_DEPTH: usize = 16;
+
+/// The expanded modules (same order as given), the diagnostics of expansion, and the spans of
+/// every repeated body, where one mistake would otherwise be reported once per copy.
+pub struct Expanded {
+    pub modules: Vec<Module>,
+    pub diags: Vec<Diagnostic>,
+    pub bodies: Vec<Span>,
+}
+
+struct NoKinds;
+impl NameKinds for NoKinds {
+    fn kind_of(&self, _: &str) -> Option<&'static str> {
+        None
+    }
+}
+
+/// Expand every `repeat` and `use` of the given modules (the root first, then imports).
+pub fn expand_modules(modules: &[&Module], overrides: &[(String, Quantity)]) -> Expanded {
+    let mut networks: HashMap<String, (&Item, &Vec<Ident>, &Vec<Item>)> = HashMap::new();
+    let mut params = Vec::new();
+    for m in modules {
+        for item in &m.items {
+            match &item.kind {
+                ItemKind::Network { name, ports, body } => {
+                    networks
+                        .entry(name.name.clone())
+                        .or_insert((item, ports, body));
+                }
+                ItemKind::Param { name, value } => params.push((name, value)),
+                _ => {}
+            }
+        }
+    }
+    let mut ev = Evaluator::new(params);
+    for (n, q) in overrides {
+        ev.set_override(n, *q);
+    }
+    let mut x = Expander {
+        networks,
+        ev,
+        diags: Vec::new(),
+        bodies: Vec::new(),
+    };
+    let out = modules
+        .iter()
+        .map(|m| Module {
+            items: x.items(&m.items, 0),
+            comments: m.comments.clone(),
+        })
+        .collect();
+    let mut diags = x.diags;
+    diags.append(&mut x.ev.diags);
+    Expanded {
+        modules: out,
+        diags,
+        bodies: x.bodies,
+    }
+}
+
+/// Keep one of each diagnostic (same code, same place) raised inside a repeated body.
+pub fn dedup_copies(diags: &mut Vec<Diagnostic>, bodies: &[Span]) {
+    let mut seen = HashSet::new();
+    diags.retain(|d| {
+        let s = d.primary.span;
+        let inside = bodies
+            .iter()
+            .any(|b| b.file == s.file && b.start <= s.start && s.end <= b.end);
+        !inside || seen.insert((d.code, s.file, s.start, s.end))
+    });
+}
+
+struct Expander<'a> {
+    networks: HashMap<String, (&'a Item, &'a Vec<Ident>, &'a Vec<Item>)>,
+    ev: Evaluator<'a>,
+    diags: Vec<Diagnostic>,
+    bodies: Vec<Span>,
+}
+
+impl Expander<'_> {
+    fn items(&mut self, items: &[Item], depth: usize) -> Vec<Item> {
+        let mut out = Vec::new();
+        for item in items {
+            match &item.kind {
+                ItemKind::Network { .. } => {}
+                ItemKind::Repeat { .. } | ItemKind::Use { .. } if depth >= MAX_DEPTH => {
+                    self.diags.push(
+                        Diagnostic::error("E218", format!("repetitions and sub-networks nest more than {MAX_DEPTH} deep"), item.span)
+                            .with_label("nested too deep")
+                            .with_help("a sub-network that uses itself (directly or through another) never ends; break the cycle"),
+                    );
+                }
+                ItemKind::Repeat { name, args, body } => {
+                    self.bodies.push(item.span);
+                    if let Some((count, first)) = self.repeat_args(name, args, body) {
+                        let locals = declared(body);
+                        for i in 1..=count {
+                            let r = Renamer {
+                                prefix: format!("{}.{i}", name.name),
+                                locals: &locals,
+                                ports: HashMap::new(),
+                                index: Some((i as f64, count as f64)),
+                                previous: Some(if i == 1 {
+                                    first.clone()
+                                } else {
+                                    Some(format!("{}.{}", name.name, i - 1))
+                                }),
+                            };
+                            let copy: Vec<Item> =
+                                body.iter().map(|b| r.item(b, &mut self.diags)).collect();
+                            out.extend(self.items(&copy, depth + 1));
+                        }
+                    }
+                }
+                ItemKind::Use {
+                    name,
+                    network,
+                    args,
+                } => {
+                    self.bodies.push(item.span);
+                    if let Some(copy) = self.use_network(name, network, args) {
+                        out.extend(self.items(&copy, depth + 1));
+                    }
+                }
+                _ => out.push(item.clone()),
+            }
+        }
+        out
+    }
+
+    /// `count` (a whole number ≥ 1) and `first` (a node for `previous` in copy 1).
+    fn repeat_args(
+        &mut self,
+        name: &Ident,
+        args: &[Arg],
+        body: &[Item],
+    ) -> Option<(usize, Option<String>)> {
+        let mut count = None;
+        let mut first = None;
+        for (i, a) in args.iter().enumerate() {
+            let key = a
+                .name
+                .as_ref()
+                .map(|n| n.name.as_str())
+                .unwrap_or(if i == 0 { "count" } else { "" });
+            match key {
+                "count" => count = Some(a),
+                "first" => match &a.value.kind {
+                    ExprKind::Name(id) => first = Some(id.name.clone()),
+                    _ => self.diags.push(
+                        Diagnostic::error(
+                            "E105",
+                            "`first` names the node that copy 1's `previous` stands for",
+                            a.value.span,
+                        )
+                        .with_label("not a node name")
+                        .with_help("write e.g. `first = fin_base`"),
+                    ),
+                },
+                _ => {
+                    let span = a.name.as_ref().map(|n| n.span).unwrap_or(a.span);
+                    self.diags.push(
+                        Diagnostic::error(
+                            "E204",
+                            format!("`repeat` takes `count` and `first`, not `{key}`"),
+                            span,
+                        )
+                        .with_label("unknown argument")
+                        .with_help("write `repeat seg (count = 10, first = base) { ... }`"),
+                    );
+                }
+            }
+        }
+        let Some(c) = count else {
+            self.diags.push(
+                Diagnostic::error(
+                    "E203",
+                    format!("`repeat {}` needs a `count`", name.name),
+                    name.span,
+                )
+                .with_label("`count` missing")
+                .with_help(format!(
+                    "write `repeat {} (count = 10) {{ ... }}`",
+                    name.name
+                )),
+            );
+            return None;
+        };
+        let q = self.ev.eval(&c.value, &NoKinds)?;
+        let n = q.value;
+        if q.dim != Dim::NONE || n.fract() != 0.0 || !(1.0..=MAX_COPIES as f64).contains(&n) {
+            self.diags.push(
+                Diagnostic::error(
+                    "E216",
+                    format!("`count` must be a whole number from 1 to {MAX_COPIES}"),
+                    c.value.span,
+                )
+                .with_label("not a usable count")
+                .with_help(
+                    "give the number of copies, e.g. `count = 10`, or a dimensionless parameter",
+                ),
+            );
+            return None;
+        }
+        let uses_previous = body_mentions_previous(body);
+        if uses_previous && first.is_none() {
+            self.diags.push(
+                Diagnostic::error("E203", format!("`repeat {}` uses `previous`, which copy 1 does not have", name.name), name.span)
+                    .with_label("`first` missing")
+                    .with_help("say which node `previous` means in copy 1, e.g. `(count = 10, first = fin_base)`"),
+            );
+            return None;
+        }
+        Some((n as usize, first))
+    }
+
+    fn use_network(&mut self, name: &Ident, network: &Ident, args: &[Arg]) -> Option<Vec<Item>> {
+        let Some(&(_, ports, body)) = self.networks.get(&network.name) else {
+            let mut d = Diagnostic::error(
+                "E102",
+                format!("unknown sub-network `{}`", network.name),
+                network.span,
+            )
+            .with_label("no `network` has this name");
+            d = match did_you_mean(&network.name, self.networks.keys().map(|s| s.as_str())) {
+                Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
+                    format!("Replace with `{s}`"),
+                    network.span,
+                    s,
+                ),
+                None => d.with_help(
+                    "declare it with `network NAME (PORTS) { ... }`, or import the file that does",
+                ),
+            };
+            self.diags.push(d);
+            return None;
+        };
+        let params: HashSet<&str> = body
+            .iter()
+            .filter_map(|i| match &i.kind {
+                ItemKind::Param { name, .. } => Some(name.name.as_str()),
+                _ => None,
+            })
+            .collect();
+        let mut bound: HashMap<String, String> = HashMap::new();
+        let mut replaced: HashMap<String, Expr> = HashMap::new();
+        let mut ok = true;
+        for a in args {
+            let Some(key) = &a.name else {
+                self.diags.push(
+                    Diagnostic::error(
+                        "E204",
+                        "the ports and parameters of a use are written `name = value`",
+                        a.span,
+                    )
+                    .with_label("argument without a name")
+                    .with_help(format!(
+                        "`{}` has ports {}",
+                        network.name,
+                        list(ports.iter().map(|p| p.name.as_str()))
+                    )),
+                );
+                ok = false;
+                continue;
+            };
+            if ports.iter().any(|p| p.name == key.name) {
+                match &a.value.kind {
+                    ExprKind::Name(id) => {
+                        bound.insert(key.name.clone(), id.name.clone());
+                    }
+                    _ => {
+                        self.diags.push(
+                            Diagnostic::error(
+                                "E105",
+                                format!("port `{}` must be given a node", key.name),
+                                a.value.span,
+                            )
+                            .with_label("not a node name")
+                            .with_help(
+                                "write the name of a node of this model, e.g. `inside = kitchen`",
+                            ),
+                        );
+                        ok = false;
+                    }
+                }
+            } else if params.contains(key.name.as_str()) {
+                replaced.insert(key.name.clone(), a.value.clone());
+            } else {
+                let known: Vec<&str> = ports
+                    .iter()
+                    .map(|p| p.name.as_str())
+                    .chain(params.iter().copied())
+                    .collect();
+                let mut d = Diagnostic::error(
+                    "E204",
+                    format!(
+                        "sub-network `{}` has no port or parameter `{}`",
+                        network.name, key.name
+                    ),
+                    key.span,
+                )
+                .with_label("unknown argument");
+                d = match did_you_mean(&key.name, known.iter().copied()) {
+                    Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
+                        format!("Replace with `{s}`"),
+                        key.span,
+                        s,
+                    ),
+                    None => d.with_help(format!("it takes {}", list(known.iter().copied()))),
+                };
+                self.diags.push(d);
+                ok = false;
+            }
+        }
+        let missing: Vec<&str> = ports
+            .iter()
+            .map(|p| p.name.as_str())
+            .filter(|p| !bound.contains_key(*p))
+            .collect();
+        if !missing.is_empty() {
+            self.diags.push(
+                Diagnostic::error(
+                    "E203",
+                    format!(
+                        "use `{}` leaves port{} {} unconnected",
+                        name.name,
+                        if missing.len() == 1 { "" } else { "s" },
+                        list(missing.iter().copied())
+                    ),
+                    name.span,
+                )
+                .with_label("ports missing")
+                .with_help(format!(
+                    "connect every port to a node, e.g. `{} = some_node`",
+                    missing[0]
+                )),
+            );
+            ok = false;
+        }
+        if !ok {
+            return None;
+        }
+        let locals = declared(body);
+        let r = Renamer {
+            prefix: name.name.clone(),
+            locals: &locals,
+            ports: bound,
+            index: None,
+            previous: None,
+        };
+        Some(
+            body.iter()
+                .map(|b| match &b.kind {
+                    // A replaced parameter takes the use's value, written in the outer scope.
+                    ItemKind::Param { name: pn, .. } if replaced.contains_key(&pn.name) => Item {
+                        kind: ItemKind::Param {
+                            name: r.ident(pn),
+                            value: replaced[&pn.name].clone(),
+                        },
+                        span: b.span,
+                    },
+                    _ => r.item(b, &mut self.diags),
+                })
+                .collect(),
+        )
+    }
+}
+
+fn list<'a>(names: impl Iterator<Item = &'a str>) -> String {
+    let v: Vec<String> = names.map(|n| format!("`{n}`")).collect();
+    if v.is_empty() {
+        "none".into()
+    } else {
+        v.join(", ")
+    }
+}
+
+/// Names declared directly in a body.
+fn declared(body: &[Item]) -> HashSet<String> {
+    body.iter()
+        .filter_map(|i| i.name().map(|n| n.name.clone()))
+        .collect()
+}
+
+fn body_mentions_previous(body: &[Item]) -> bool {
+    // Cheap and sufficient: the serialised tree names `previous.` only where the analyst wrote it.
+    body.iter()
+        .any(|i| serde_json::to_string(i).is_ok_and(|s| s.contains("\"previous.")))
+}
+
+/// Renames one copy of a body.
+struct Renamer<'a> {
+    prefix: String,
+    locals: &'a HashSet<String>,
+    ports: HashMap<String, String>,
+    /// `index` and `count` of a repetition.
+    index: Option<(f64, f64)>,
+    /// What `previous.X` becomes: `Some(prefix_of_previous_copy)`, or for copy 1 the `first`
+    /// node (`Some(None)` when none was given).
+    previous: Option<Option<String>>,
+}
+
+impl Renamer<'_> {
+    fn name(&self, n: &str) -> String {
+        if let Some(bound) = self.ports.get(n) {
+            return bound.clone();
+        }
+        let head = n.split('.').next().unwrap_or(n);
+        if self.locals.contains(head) {
+            return format!("{}.{n}", self.prefix);
+        }
+        if let (Some(rest), Some(prev)) = (n.strip_prefix("previous."), &self.previous) {
+            return match prev {
+                Some(p) if self.index.is_some_and(|(i, _)| i > 1.0) => format!("{p}.{rest}"),
+                Some(first) => first.clone(),
+                None => n.to_string(),
+            };
+        }
+        n.to_string()
+    }
+
+    fn ident(&self, id: &Ident) -> Ident {
+        Ident {
+            name: self.name(&id.name),
+            span: id.span,
+        }
+    }
+
+    fn expr(&self, e: &Expr) -> Expr {
+        let kind = match &e.kind {
+            ExprKind::Name(id) => match (id.name.as_str(), self.index) {
+                (n @ ("index" | "count"), Some((i, c))) if !self.locals.contains(n) => {
+                    let value = if n == "index" { i } else { c };
+                    ExprKind::Number {
+                        value,
+                        text: format!("{value}"),
+                        unit: None,
+                    }
+                }
+                _ => ExprKind::Name(self.ident(id)),
+            },
+            ExprKind::Neg(x) => ExprKind::Neg(Box::new(self.expr(x))),
+            ExprKind::Binary { op, lhs, rhs } => ExprKind::Binary {
+                op: *op,
+                lhs: Box::new(self.expr(lhs)),
+                rhs: Box::new(self.expr(rhs)),
+            },
+            ExprKind::Call { func, args } => ExprKind::Call {
+                func: func.clone(),
+                args: args.iter().map(|a| self.expr(a)).collect(),
+            },
+            ExprKind::Paren(x) => ExprKind::Paren(Box::new(self.expr(x))),
+            other => other.clone(),
+        };
+        Expr { kind, span: e.span }
+    }
+
+    fn args(&self, args: &[Arg]) -> Vec<Arg> {
+        args.iter()
+            .map(|a| Arg {
+                name: a.name.clone(),
+                value: self.expr(&a.value),
+                span: a.span,
+            })
+            .collect()
+    }
+
+    fn call(&self, c: &ElementCall) -> ElementCall {
+        ElementCall {
+            kind: self.ident(&c.kind),
+            args: self.args(&c.args),
+            span: c.span,
+        }
+    }
+
+    fn item(&self, item: &Item, diags: &mut Vec<Diagnostic>) -> Item {
+        let kind = match &item.kind {
+            ItemKind::Param { name, value } => ItemKind::Param {
+                name: self.ident(name),
+                value: self.expr(value),
+            },
+            ItemKind::Material { name, args } => ItemKind::Material {
+                name: self.ident(name),
+                args: self.args(args),
+            },
+            ItemKind::Node { name, args } => ItemKind::Node {
+                name: self.ident(name),
+                args: self.args(args),
+            },
+            ItemKind::Link {
+                name,
+                from,
+                to,
+                element,
+            } => ItemKind::Link {
+                name: self.ident(name),
+                from: self.ident(from),
+                to: self.ident(to),
+                element: self.call(element),
+            },
+            ItemKind::Buildup { name, elements } => ItemKind::Buildup {
+                name: self.ident(name),
+                elements: elements
+                    .iter()
+                    .map(|e| BuildupElement {
+                        name: e.name.clone(),
+                        element: self.call(&e.element),
+                        span: e.span,
+                    })
+                    .collect(),
+            },
+            ItemKind::Limit {
+                name,
+                measure,
+                subject,
+                op,
+                value,
+            } => ItemKind::Limit {
+                name: self.ident(name),
+                measure: measure.clone(),
+                subject: self.ident(subject),
+                op: *op,
+                value: self.expr(value),
+            },
+            ItemKind::Repeat { name, args, body } => ItemKind::Repeat {
+                name: self.ident(name),
+                args: self.args(args),
+                body: body.iter().map(|b| self.item(b, diags)).collect(),
+            },
+            ItemKind::Use {
+                name,
+                network,
+                args,
+            } => ItemKind::Use {
+                name: self.ident(name),
+                network: network.clone(),
+                args: self.args(args),
+            },
+            ItemKind::Region { name, args, edges } => ItemKind::Region {
+                name: self.ident(name),
+                args: self.args(args),
+                edges: edges
+                    .iter()
+                    .map(|e| RegionEdge {
+                        side: e.side.clone(),
+                        node: self.ident(&e.node),
+                        element: e.element.as_ref().map(|c| self.call(c)),
+                        span: e.span,
+                    })
+                    .collect(),
+            },
+            ItemKind::Title { .. }
+            | ItemKind::Import { .. }
+            | ItemKind::Network { .. }
+            | ItemKind::Declaration { .. } => {
+                let what = match &item.kind {
+                    ItemKind::Network { .. } => "a sub-network",
+                    ItemKind::Declaration { word, .. } => match word.name.as_str() {
+                        "schedule" => "a schedule",
+                        "case" => "a case",
+                        _ => "a transient run",
+                    },
+                    _ => "a title or an import",
+                };
+                diags.push(
+                    Diagnostic::error(
+                        "E219",
+                        format!("{what} cannot be declared inside a block"),
+                        item.span,
+                    )
+                    .with_label("not allowed here")
+                    .with_help("move it to the top level of the file"),
+                );
+                item.kind.clone()
+            }
+        };
+        Item {
+            kind,
+            span: item.span,
+        }
+    }
+}

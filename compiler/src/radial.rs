@@ -1,0 +1,216 @@
+//! Radial build-ups: the bore a link gives, the radius each shell starts at, and the critical
+//! insulation radius check. Kept apart from elaboration so plane build-ups read as before.
+// Diagnostics are returned by value throughout the compiler; boxing them here alone would
+// split the element API.
+#![allow(clippy::result_large_err)]
+
+use crate::diagnostic::Diagnostic;
+use crate::elements::{self, shell, shell::Geometry, Args, Built, ElementKind};
+use crate::span::Span;
+use crate::syntax::{BuildupElement, ElementCall, Ident};
+use crate::units::Dim;
+use std::collections::HashMap;
+use std::f64::consts::PI;
+
+/// What the link using a build-up supplies to its elements.
+pub struct UseArgs {
+    pub area: Option<(f64, Span)>,
+    pub inner_radius: Option<(f64, Span)>,
+    pub length: Option<(f64, Span)>,
+}
+
+impl UseArgs {
+    /// Arguments supplied to the next element: the area, or the current radius (and length) of
+    /// a radial build-up with the matching surface area for films and contacts.
+    pub fn supplied(
+        &self,
+        geom: Geometry,
+        radius: Option<(f64, Span)>,
+    ) -> Vec<(&'static str, f64, Span)> {
+        let mut v = Vec::new();
+        match geom {
+            Geometry::Plane => v.extend(self.area.map(|(a, s)| ("area", a, s))),
+            Geometry::Cylinder => {
+                if let Some((l, ls)) = self.length {
+                    v.push(("length", l, ls));
+                    v.extend(radius.map(|(r, rs)| ("area", 2.0 * PI * r * l, rs)));
+                }
+                v.extend(radius.map(|(r, rs)| ("inner_radius", r, rs)));
+            }
+            Geometry::Sphere => {
+                if let Some((r, rs)) = radius {
+                    v.push(("inner_radius", r, rs));
+                    v.push(("area", 4.0 * PI * r * r, rs));
+                }
+            }
+        }
+        v
+    }
+}
+
+/// The arguments a link using a build-up of this geometry takes; the first may go unnamed.
+pub fn use_arg_names(geom: Geometry) -> &'static [&'static str] {
+    match geom {
+        Geometry::Plane => &["area"],
+        Geometry::Cylinder => &["inner_radius", "length"],
+        Geometry::Sphere => &["inner_radius"],
+    }
+}
+
+/// E203 when a use lacks the area (plane) or the bore (radial).
+pub fn missing_use_args(
+    call: &ElementCall,
+    geom: Geometry,
+    allowed: &[&str],
+    found: &HashMap<&'static str, (f64, Span)>,
+    needs_area: bool,
+) -> Option<Diagnostic> {
+    if geom == Geometry::Plane {
+        return (needs_area && call.args.is_empty()).then(|| {
+            Diagnostic::error(
+                "E203",
+                format!("build-up `{}` needs the `area` it covers", call.kind.name),
+                call.span,
+            )
+            .with_label("`area` missing")
+            .with_help(format!("add it, e.g. `{}(area = 10 m^2)`", call.kind.name))
+        });
+    }
+    // Only what is not written at all: an argument that failed its own check is reported already.
+    let _ = found;
+    let written = |k: &str| {
+        call.args.iter().enumerate().any(|(i, a)| {
+            a.name
+                .as_ref()
+                .map_or(i == 0 && k == allowed[0], |n| n.name == k)
+        })
+    };
+    let missing: Vec<&str> = allowed.iter().copied().filter(|k| !written(k)).collect();
+    if missing.is_empty() {
+        return None;
+    }
+    let example = if geom == Geometry::Cylinder {
+        "inner_radius = 27 mm, length = 12 m"
+    } else {
+        "inner_radius = 1.2 m"
+    };
+    let list = missing
+        .iter()
+        .map(|m| format!("`{m}`"))
+        .collect::<Vec<_>>()
+        .join(" and ");
+    Some(
+        Diagnostic::error(
+            "E203",
+            format!("build-up `{}` is radial and needs {list}", call.kind.name),
+            call.span,
+        )
+        .with_label(format!("{list} missing"))
+        .with_help(format!(
+            "give the bore where the build-up is used, e.g. `{}({example})`",
+            call.kind.name
+        )),
+    )
+}
+
+/// E210: an element states what the build-up's use supplies.
+pub fn supplied_inside(name: &str, span: Span) -> Diagnostic {
+    let help = if name == "area" {
+        "remove `area` here and give it where the build-up is used: `link name: a to b my_buildup(area = 10 m^2)`".to_string()
+    } else {
+        format!("remove `{name}` here; the link that uses the build-up gives the bore (`inner_radius`, and `length` for a pipe), and each shell starts where the one before it ends")
+    };
+    Diagnostic::error(
+        "E210",
+        format!("an element of a build-up takes its {name} from the link that uses the build-up"),
+        span,
+    )
+    .with_label(format!("{name} given inside a build-up"))
+    .with_help(help)
+}
+
+/// Walks a build-up from the bore outwards.
+pub struct Chain {
+    geom: Geometry,
+    /// The radius the next element starts at, with the span that set it.
+    pub radius: Option<(f64, Span)>,
+    /// The outermost shell so far: element index, k, outer radius.
+    last_shell: Option<(usize, f64, f64)>,
+    /// The film coefficient after the last shell.
+    outer_h: Option<f64>,
+}
+
+impl Chain {
+    pub fn new(geom: Geometry, bore: Option<(f64, Span)>) -> Chain {
+        Chain {
+            geom,
+            radius: bore,
+            last_shell: None,
+            outer_h: None,
+        }
+    }
+
+    pub fn advance(
+        &mut self,
+        i: usize,
+        kind: &dyn ElementKind,
+        span: Span,
+        args: Option<&Args>,
+        built: Option<&Built>,
+    ) {
+        let is_shell = matches!(kind.name(), "cylinder" | "sphere");
+        match (args, built) {
+            (Some(a), Some(_)) if is_shell => {
+                let r_out = shell::outer_radius(a);
+                if let (Some(r_out), Ok(k)) = (r_out, shell::conductivity(a, "")) {
+                    self.last_shell = Some((i, k, r_out));
+                }
+                self.radius = r_out.map(|r| (r, span));
+                self.outer_h = None;
+            }
+            (Some(_), Some(b)) if kind.name() == "film" => {
+                self.outer_h = b.area.map(|area| b.conductance / area)
+            }
+            _ if is_shell => self.radius = None,
+            _ => {}
+        }
+    }
+
+    /// W110 when the outermost shell, followed by a film, ends below the critical radius.
+    pub fn critical_radius_warning(
+        &self,
+        use_name: &Ident,
+        els: &[BuildupElement],
+    ) -> Option<Diagnostic> {
+        let ((i, k, r_out), h) = (self.last_shell?, self.outer_h?);
+        let spherical = self.geom == Geometry::Sphere;
+        let r_crit = shell::critical_radius(spherical, k, h);
+        if r_out >= r_crit {
+            return None;
+        }
+        let e = &els[i];
+        let formula = if spherical { "2k/h" } else { "k/h" };
+        let show = elements::show;
+        Some(
+            Diagnostic::warning(
+                "W110",
+                format!(
+                    "in `{}`, the outer radius of `{}` ({}) is below the critical insulation radius {formula} = {} (k = {}, h = {}): this insulation increases the heat loss",
+                    use_name.name,
+                    e.name.name,
+                    show(r_out, Dim::LENGTH),
+                    show(r_crit, Dim::LENGTH),
+                    show(k, Dim::CONDUCTIVITY),
+                    show(h, Dim::HEAT_TRANSFER_COEFF),
+                ),
+                e.element.span,
+            )
+            .with_label("insulation thinner than the critical radius")
+            .with_secondary(use_name.span, "used here")
+            .with_help(format!(
+                "below r = {formula} the growing outer surface sheds more heat than the layer holds back; to cut the heat loss, make the outer radius well above {}, or use a material with lower k",
+                show(r_crit, Dim::LENGTH)
+            )),
+        )
+    }
+}

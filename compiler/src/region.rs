@@ -1,0 +1,409 @@
+//! Two-dimensional rectangular regions (a plate, a wall section) meshed into the network.
+//!
+//! The rectangle is cut into nx × ny equal cells, one node per cell centre (`NAME.i.j`, i from
+//! the left edge, j from the bottom edge). Neighbouring cells are joined by conduction through
+//! their shared face, G = k·(t·Δy)/Δx across x and k·(t·Δx)/Δy across y (the standard
+//! finite-volume form of Fourier's law, second-order accurate). An edge attaches every edge
+//! cell to a node, either held at the node's temperature across half a cell
+//! (G = k·t·Δy/(Δx/2)) or through an element such as a film, via a surface node per edge cell
+//! (`NAME.left.j`). The faces (`front`, `back`) attach every cell through an element over its
+//! area Δx·Δy. A linear temperature field is reproduced exactly; the results include the field
+//! and the heat flux vector of every cell.
+// Diagnostics are returned by value throughout the compiler; boxing them here alone would
+// split the element API.
+#![allow(clippy::result_large_err)]
+
+use crate::diagnostic::Diagnostic;
+use crate::elements::shell::{conduction_law, conductivity};
+use crate::elements::{q, show, ArgType, Args, Built, ElementKind, ParamSpec};
+use crate::network::{Link, LinkId, LinkLaw, Network, Node, NodeId};
+use crate::span::Span;
+use crate::units::Dim;
+use serde::Serialize;
+
+/// Most cells a region may have (a typing slip must not exhaust memory).
+pub const MAX_CELLS: usize = 250_000;
+
+/// The region's own arguments, checked like an element's.
+pub struct RegionArgs;
+
+const REGION: &[ParamSpec] = &[
+    ParamSpec {
+        name: "material",
+        ty: ArgType::Material,
+        positive: false,
+        doc: "the region's material (gives k)",
+    },
+    q(
+        "k",
+        Dim::CONDUCTIVITY,
+        "conductivity, instead of a material",
+    ),
+    q(
+        "thickness",
+        Dim::LENGTH,
+        "thickness t of the plate (out of the plane)",
+    ),
+    q("width", Dim::LENGTH, "size along x (left to right)"),
+    q("height", Dim::LENGTH, "size along y (bottom to top)"),
+    q("cells_x", Dim::NONE, "number of cells along x"),
+    q("cells_y", Dim::NONE, "number of cells along y"),
+    q(
+        "load",
+        Dim::POWER,
+        "heat generated in the region, spread evenly over its cells",
+    ),
+];
+
+impl ElementKind for RegionArgs {
+    fn name(&self) -> &'static str {
+        "region"
+    }
+    fn summary(&self) -> &'static str {
+        "a rectangular plate or wall section meshed into cells"
+    }
+    fn params(&self) -> &'static [ParamSpec] {
+        REGION
+    }
+    fn build(&self, _: &Args) -> Result<Built, Diagnostic> {
+        Ok(Built {
+            conductance: 0.0,
+            area: None,
+            formula: String::new(),
+        })
+    }
+}
+
+/// The four edges and two faces an attachment may name.
+pub const SIDES: &[&str] = &["left", "right", "bottom", "top", "front", "back"];
+
+/// A region as meshed, kept in the network for results.
+#[derive(Clone, Debug, Serialize)]
+pub struct Region {
+    pub name: String,
+    pub span: Span,
+    pub nx: usize,
+    pub ny: usize,
+    pub width: f64,
+    pub height: f64,
+    pub thickness: f64,
+    /// Node id of cell (1, 1); cell (i, j) is `first_node + (j−1)·nx + (i−1)`.
+    pub first_node: NodeId,
+    /// Per cell, the links through its west, east, south and north faces, each with the sign
+    /// that turns the link's heat flow into a flow in +x (west, east) or +y (south, north).
+    pub faces: Vec<[Option<(LinkId, f64)>; 4]>,
+}
+
+/// One cell of a solved region.
+#[derive(Clone, Debug, Serialize)]
+pub struct CellResult {
+    pub i: usize,
+    pub j: usize,
+    pub x_m: f64,
+    pub y_m: f64,
+    pub temperature_k: f64,
+    /// Heat flux vector at the cell centre, W/m²: the mean of the flows through its two x faces
+    /// (two y faces) over the face area.
+    pub heat_flux_w_per_m2: [f64; 2],
+}
+
+impl Region {
+    pub fn cell(&self, i: usize, j: usize) -> NodeId {
+        self.first_node + (j - 1) * self.nx + (i - 1)
+    }
+    fn dx(&self) -> f64 {
+        self.width / self.nx as f64
+    }
+    fn dy(&self) -> f64 {
+        self.height / self.ny as f64
+    }
+
+    /// The temperature field and flux vectors for solved temperatures and link heat flows.
+    pub fn field(&self, temperatures: &[f64], heat_flows: &[f64]) -> Vec<CellResult> {
+        let (dx, dy) = (self.dx(), self.dy());
+        let flow = |f: Option<(LinkId, f64)>| f.map(|(l, s)| s * heat_flows[l]).unwrap_or(0.0);
+        let mut out = Vec::with_capacity(self.nx * self.ny);
+        for j in 1..=self.ny {
+            for i in 1..=self.nx {
+                let f = self.faces[(j - 1) * self.nx + (i - 1)];
+                let qx = 0.5 * (flow(f[0]) + flow(f[1])) / (self.thickness * dy);
+                let qy = 0.5 * (flow(f[2]) + flow(f[3])) / (self.thickness * dx);
+                out.push(CellResult {
+                    i,
+                    j,
+                    x_m: (i as f64 - 0.5) * dx,
+                    y_m: (j as f64 - 0.5) * dy,
+                    temperature_k: temperatures[self.cell(i, j)],
+                    heat_flux_w_per_m2: [qx, qy],
+                });
+            }
+        }
+        out
+    }
+}
+
+/// A region being built: its checked size and material, before edges are attached.
+pub struct Plan {
+    pub region: Region,
+    args: Args,
+    load: f64,
+}
+
+fn count(a: &Args, name: &str) -> Result<usize, Diagnostic> {
+    let v = a.require(name, "cells_x = 20")?;
+    if v.fract() != 0.0 {
+        return Err(Diagnostic::error(
+            "E216",
+            format!("`{name}` must be a whole number of cells; {v} is not"),
+            a.span(name),
+        )
+        .with_label("not a whole number")
+        .with_help("give the number of cells, e.g. `cells_x = 20`"));
+    }
+    Ok(v as usize)
+}
+
+impl Plan {
+    pub fn new(name: &str, span: Span, args: Args) -> Result<Plan, Diagnostic> {
+        let example = "region plate (aluminium, thickness = 2 mm, width = 100 mm, height = 60 mm, cells_x = 20, cells_y = 12) { ... }";
+        conductivity(&args, example)?;
+        let thickness = args.require("thickness", "thickness = 2 mm")?;
+        let width = args.require("width", "width = 100 mm")?;
+        let height = args.require("height", "height = 60 mm")?;
+        let (nx, ny) = (count(&args, "cells_x")?, count(&args, "cells_y")?);
+        if nx * ny > MAX_CELLS {
+            return Err(Diagnostic::error(
+                "E216",
+                format!("{nx} × {ny} cells is more than the {MAX_CELLS} a region may have"),
+                args.span("cells_x"),
+            )
+            .with_label("too many cells")
+            .with_help("use fewer cells; check the numbers for a slip"));
+        }
+        let load = args.get("load").unwrap_or(0.0);
+        let region = Region {
+            name: name.to_string(),
+            span,
+            nx,
+            ny,
+            width,
+            height,
+            thickness,
+            first_node: 0,
+            faces: vec![[None; 4]; nx * ny],
+        };
+        Ok(Plan { region, args, load })
+    }
+
+    /// Add the cell nodes (so links and limits can name `NAME.i.j`).
+    pub fn add_nodes(&mut self, net: &mut Network) -> Vec<String> {
+        let r = &mut self.region;
+        r.first_node = net.nodes.len();
+        let per_cell = self.load / (r.nx * r.ny) as f64;
+        let mut names = Vec::with_capacity(r.nx * r.ny);
+        for j in 1..=r.ny {
+            for i in 1..=r.nx {
+                let name = format!("{}.{i}.{j}", r.name);
+                net.nodes.push(Node {
+                    name: name.clone(),
+                    span: r.span,
+                    fixed: None,
+                    load: per_cell,
+                    generated: true,
+                });
+                names.push(name);
+            }
+        }
+        names
+    }
+
+    fn conduction(&self, shape: f64, formula: String) -> LinkLaw {
+        let k = conductivity(&self.args, "").unwrap_or(f64::NAN);
+        conduction_law(
+            &self.args,
+            shape,
+            Built {
+                conductance: k * shape,
+                area: None,
+                formula,
+            },
+        )
+        .0
+    }
+
+    /// Join neighbouring cells.
+    pub fn add_internal_links(&mut self, net: &mut Network) {
+        let (nx, ny, t) = (self.region.nx, self.region.ny, self.region.thickness);
+        let (dx, dy) = (self.region.dx(), self.region.dy());
+        let sx = t * dy / dx;
+        let sy = t * dx / dy;
+        let k = conductivity(&self.args, "").unwrap_or(f64::NAN);
+        for j in 1..=ny {
+            for i in 1..=nx {
+                let here = (j - 1) * nx + (i - 1);
+                if i < nx {
+                    let id = net.links.len();
+                    let law = self.conduction(
+                        sx,
+                        format!("G = k·t·Δy/Δx = {}", show(k * sx, Dim::CONDUCTANCE)),
+                    );
+                    self.push(
+                        net,
+                        format!("{}.x.{i}.{j}", self.region.name),
+                        self.region.cell(i, j),
+                        self.region.cell(i + 1, j),
+                        law,
+                        "region",
+                    );
+                    self.region.faces[here][1] = Some((id, 1.0));
+                    self.region.faces[here + 1][0] = Some((id, 1.0));
+                }
+                if j < ny {
+                    let id = net.links.len();
+                    let law = self.conduction(
+                        sy,
+                        format!("G = k·t·Δx/Δy = {}", show(k * sy, Dim::CONDUCTANCE)),
+                    );
+                    self.push(
+                        net,
+                        format!("{}.y.{i}.{j}", self.region.name),
+                        self.region.cell(i, j),
+                        self.region.cell(i, j + 1),
+                        law,
+                        "region",
+                    );
+                    self.region.faces[here][3] = Some((id, 1.0));
+                    self.region.faces[here + nx][2] = Some((id, 1.0));
+                }
+            }
+        }
+    }
+
+    fn push(
+        &self,
+        net: &mut Network,
+        name: String,
+        from: NodeId,
+        to: NodeId,
+        law: LinkLaw,
+        kind: &str,
+    ) {
+        let formula = match &law {
+            LinkLaw::Linear { conductance } => {
+                format!("R = {}", show(1.0 / conductance, Dim::RESISTANCE))
+            }
+            _ => "k(T) conduction between cells".to_string(),
+        };
+        net.links.push(Link {
+            name,
+            span: self.region.span,
+            from,
+            to,
+            law,
+            area: None,
+            kind: kind.to_string(),
+            formula,
+            group: None,
+        });
+    }
+
+    /// The area an element on this side covers per cell (edge cell face, or cell face).
+    pub fn cell_area(&self, side: &str) -> f64 {
+        let r = &self.region;
+        match side {
+            "left" | "right" => r.thickness * r.dy(),
+            "bottom" | "top" => r.thickness * r.dx(),
+            _ => r.dx() * r.dy(),
+        }
+    }
+
+    /// Attach a side to `node`: held across half a cell (no element), or through `element`
+    /// (its law per cell, built over `cell_area(side)`) via a surface node per cell.
+    pub fn attach(
+        &mut self,
+        net: &mut Network,
+        side: &str,
+        node: NodeId,
+        element: Option<(&str, LinkLaw)>,
+    ) {
+        let (nx, ny, t) = (self.region.nx, self.region.ny, self.region.thickness);
+        let (dx, dy) = (self.region.dx(), self.region.dy());
+        let name = self.region.name.clone();
+        // (cell index, face slot, sign of "out of the cell" in the face's axis, half-cell shape)
+        let cells: Vec<(usize, usize, Option<usize>, f64)> = match side {
+            "left" => (1..=ny)
+                .map(|j| (1, j, Some(0), t * dy / (dx / 2.0)))
+                .collect(),
+            "right" => (1..=ny)
+                .map(|j| (nx, j, Some(1), t * dy / (dx / 2.0)))
+                .collect(),
+            "bottom" => (1..=nx)
+                .map(|i| (i, 1, Some(2), t * dx / (dy / 2.0)))
+                .collect(),
+            "top" => (1..=nx)
+                .map(|i| (i, ny, Some(3), t * dx / (dy / 2.0)))
+                .collect(),
+            _ => (1..=ny)
+                .flat_map(|j| (1..=nx).map(move |i| (i, j, None, dx * dy / (t / 2.0))))
+                .collect(),
+        };
+        for (n, (i, j, slot, half)) in cells.into_iter().enumerate() {
+            let cell = self.region.cell(i, j);
+            let label = match side {
+                "left" | "right" => format!("{j}"),
+                "bottom" | "top" => format!("{i}"),
+                _ => format!("{i}.{j}"),
+            };
+            let _ = n;
+            // Heat leaving the cell through the west or south face flows in −x or −y.
+            let sign = match slot {
+                Some(0) | Some(2) => -1.0,
+                _ => 1.0,
+            };
+            let first_link = net.links.len();
+            match &element {
+                None => {
+                    let law = self.conduction(half, String::new());
+                    self.push(
+                        net,
+                        format!("{name}.{side}.{label}"),
+                        cell,
+                        node,
+                        law,
+                        "region edge",
+                    );
+                }
+                Some((kind, law)) => {
+                    let surface = net.nodes.len();
+                    net.nodes.push(Node {
+                        name: format!("{name}.{side}.{label}"),
+                        span: self.region.span,
+                        fixed: None,
+                        load: 0.0,
+                        generated: true,
+                    });
+                    let half_law = self.conduction(half, String::new());
+                    self.push(
+                        net,
+                        format!("{name}.{side}.{label}.in"),
+                        cell,
+                        surface,
+                        half_law,
+                        "region edge",
+                    );
+                    self.push(
+                        net,
+                        format!("{name}.{side}.{label}.out"),
+                        surface,
+                        node,
+                        law.clone(),
+                        kind,
+                    );
+                }
+            }
+            if let Some(s) = slot {
+                self.region.faces[(j - 1) * nx + (i - 1)][s] = Some((first_link, sign));
+            }
+        }
+    }
+}
