@@ -37,6 +37,8 @@ pub enum RunError {
     TooManySteps { time: f64 },
     /// The Newton iteration of a nonlinear network did not converge even with small steps.
     NoConvergence { time: f64 },
+    /// The steady solution a nonlinear network starts from could not be found.
+    SteadyStart(crate::nonlinear::NewtonError),
 }
 
 impl std::fmt::Display for RunError {
@@ -59,8 +61,24 @@ impl std::fmt::Display for RunError {
             ),
             RunError::NoConvergence { time } => write!(
                 f,
-                "the nonlinear iteration did not converge at t = {time:.6e} s"
+                "Newton's method for the radiation or k(T) links did not converge at t = {time:.6e} s"
             ),
+            RunError::SteadyStart(e) => match e {
+                crate::nonlinear::NewtonError::NoConvergence { iterations, residual, .. } => write!(
+                    f,
+                    "the steady state the run starts from was not found: after {iterations} Newton steps the worst heat balance is still {residual:.3e} W"
+                ),
+                crate::nonlinear::NewtonError::NonPhysicalConductivity { t_low, t_high, .. } => write!(
+                    f,
+                    "in the steady state the run starts from, a k(T) falls to zero or below between {:.2} °C and {:.2} °C",
+                    t_low - 273.15,
+                    t_high - 273.15
+                ),
+                crate::nonlinear::NewtonError::Linear(_) => write!(
+                    f,
+                    "the steady state the run starts from could not be solved (a linear solve inside Newton's method failed)"
+                ),
+            },
         }
     }
 }
