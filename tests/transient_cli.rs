@@ -286,3 +286,61 @@ fn ctrl_c_stops_a_run_and_keeps_what_was_computed() {
     assert!(stdout.contains("Energy over the run"), "{stdout}");
     assert!(stderr.contains("interrupted: results up to"), "{stderr}");
 }
+
+/// The oven door warming up as the oven is lit: radiation links in a transient run. Its final
+/// state must be the steady Newton solve of the same door with the oven at 250 °C
+/// (examples/bakery_oven_door.heat), and the run must close its energy account.
+#[test]
+fn run_with_radiation_links_ends_at_the_steady_door() {
+    let (code, stdout, stderr) = out(&[
+        "run",
+        "examples/bakery_oven_warmup.heat",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(code, 0, "{stderr}");
+    let run: serde_json::Value = serde_json::from_str(&stdout).expect("json");
+    let (code, stdout, stderr) = out(&[
+        "solve",
+        "examples/bakery_oven_door.heat",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(code, 0, "{stderr}");
+    let steady: serde_json::Value = serde_json::from_str(&stdout).expect("json");
+    let find = |v: &serde_json::Value, name: &str, key: &str| {
+        v["nodes"]
+            .as_array()
+            .expect("nodes")
+            .iter()
+            .find(|n| n["name"] == name)
+            .and_then(|n| n[key].as_f64())
+            .unwrap_or_else(|| panic!("{name} {key}"))
+    };
+    for node in [
+        "inner_pane_in",
+        "inner_pane_out",
+        "outer_pane_in",
+        "outer_pane_out",
+    ] {
+        let (end, settled) = (
+            find(&run, node, "final_K"),
+            find(&steady, node, "temperature_K"),
+        );
+        assert!(
+            (end - settled).abs() < 1e-3,
+            "{node}: {end} K vs {settled} K"
+        );
+    }
+    let e = &run["energy"];
+    assert!(
+        e["residual_J"].as_f64().expect("residual").abs()
+            < 1e-9 * e["stored_J"].as_f64().expect("stored").abs()
+    );
+    assert!(run["stats"]["newton_iterations"].as_u64().expect("newton") > 0);
+    // The table report names the first law and the run's limit verdict.
+    let (code, stdout, _) = out(&["run", "examples/bakery_oven_warmup.heat"]);
+    assert_eq!(code, 0);
+    assert!(stdout.contains("outer_pane_touch"), "{stdout}");
+    assert!(stdout.contains("balance residual"), "{stdout}");
+}
