@@ -344,3 +344,35 @@ fn run_with_radiation_links_ends_at_the_steady_door() {
     assert!(stdout.contains("outer_pane_touch"), "{stdout}");
     assert!(stdout.contains("balance residual"), "{stdout}");
 }
+
+/// A k(T) that falls to zero as the kiln heats up, and the same model starting hot: an error
+/// with a code, never temperatures from a conductivity that has no meaning.
+#[test]
+fn run_stops_with_e707_when_k_of_t_leaves_its_range() {
+    let model = "material odd (k = 0.08 W/(m*K), k_slope = -1e-4 W/(m*K^2), k_at = 20 °C)\n\
+schedule firing {\n  0 h: 20 °C\n  2 h: 900 °C\n}\n\
+node kiln (fixed = firing)\n\
+node room (fixed = 20 °C)\n\
+node face (capacity = 0.4 kJ/K)\n\
+link plug: kiln to face layer(odd, thickness = 40 mm, area = 0.01 m^2)\n\
+link cap: face to room film(h = 10 W/(m^2*K), area = 0.01 m^2)\n";
+    for (run, what) in [
+        (
+            "transient heat_up (duration = 3 h)\n",
+            "between its end temperatures at t =",
+        ),
+        (
+            "transient late (start = 2 h, duration = 1 h)\n",
+            "in the steady state the run starts from",
+        ),
+    ] {
+        let path = scratch("k_falls.heat");
+        std::fs::write(&path, format!("{model}{run}")).expect("write");
+        let (code, stdout, stderr) = out(&["run", path.to_str().expect("utf-8")]);
+        assert_eq!(code, 1, "{stdout}{stderr}");
+        assert!(stdout.is_empty(), "{stdout}");
+        assert!(stderr.contains("E707"), "{stderr}");
+        assert!(stderr.contains(what), "{stderr}");
+        assert!(stderr.contains("k_slope"), "{stderr}");
+    }
+}

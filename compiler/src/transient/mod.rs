@@ -39,6 +39,8 @@ pub enum RunError {
     NoConvergence { time: f64 },
     /// The steady solution a nonlinear network starts from could not be found.
     SteadyStart(crate::nonlinear::NewtonError),
+    /// The k(T) of this link fell to zero or below between its end temperatures at `time`.
+    NonPhysicalConductivity { time: f64, link: String },
 }
 
 impl std::fmt::Display for RunError {
@@ -62,6 +64,10 @@ impl std::fmt::Display for RunError {
             RunError::NoConvergence { time } => write!(
                 f,
                 "Newton's method for the radiation or k(T) links did not converge at t = {time:.6e} s"
+            ),
+            RunError::NonPhysicalConductivity { time, link } => write!(
+                f,
+                "the conductivity of `{link}` falls to zero or below between its end temperatures at t = {time:.6e} s"
             ),
             RunError::SteadyStart(e) => match e {
                 crate::nonlinear::NewtonError::NoConvergence { iterations, residual, .. } => write!(

@@ -291,6 +291,12 @@ pub fn run_transient(
     let (mut qg, mut q1) = (Vec::new(), Vec::new());
     let start_state = s0.clone();
     let capacity_all = net.dynamics.capacity_vector(n_all);
+    // Links with k(T): a conductivity that falls to zero between a link's end temperatures
+    // makes the run meaningless, so the run stops there with an error (as the steady solve does).
+    let kt_links: Vec<usize> = (0..net.links.len())
+        .filter(|&l| matches!(net.links[l].law, crate::network::LinkLaw::Conduction { .. }))
+        .collect();
+    let mut non_physical: Option<(f64, usize)> = None;
 
     let mut on_step = |v: &StepView| -> Control {
         let (t, h) = (v.t, v.h);
@@ -378,6 +384,16 @@ pub fn run_transient(
         if let Some(p) = hooks.progress.as_mut() {
             p(t1, duration);
         }
+        for &l in &kt_links {
+            let link = &net.links[l];
+            if let crate::network::LinkLaw::Conduction { conductivity, .. } = &link.law {
+                let (a, b) = (s0[link.from], s0[link.to]);
+                if conductivity.min_over(a.min(b), a.max(b)) <= 0.0 {
+                    non_physical = Some((t1, l));
+                    return Control::Stop;
+                }
+            }
+        }
         let stop = hooks.cancel.is_some_and(|c| c.load(Ordering::Relaxed));
         if stop {
             Control::Stop
@@ -399,6 +415,12 @@ pub fn run_transient(
         };
         integrate(&sys, &x0, &settings, &mut on_step)?
     };
+    if let Some((time, link)) = non_physical {
+        return Err(RunError::NonPhysicalConductivity {
+            time,
+            link: net.links[link].name.clone(),
+        });
+    }
     // `s0` holds the final state now.
     if stats.stopped {
         result.interrupted = true;
