@@ -26,7 +26,8 @@ enum Symbolic {
 
 enum Numeric {
     Llt(Llt<usize, f64>),
-    Lu(Lu<usize, f64>),
+    // Boxed: the LU holds its supernodal parts inline and would size every cache slot.
+    Lu(Box<Lu<usize, f64>>),
 }
 
 pub struct StepMatrices {
@@ -137,10 +138,10 @@ impl StepMatrices {
                 Llt::try_new_with_symbolic(s.clone(), a.as_ref(), Side::Lower)
                     .map_err(|_| SolveError::NotPositiveDefinite)?,
             ),
-            Symbolic::Lu(s) => Numeric::Lu(
+            Symbolic::Lu(s) => Numeric::Lu(Box::new(
                 Lu::try_new_with_symbolic(s.clone(), a.as_ref())
                     .map_err(|_| SolveError::NonFinite)?,
-            ),
+            )),
         };
         self.factorisations += 1;
         if self.cache.len() >= CACHE {

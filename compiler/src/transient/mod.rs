@@ -4,7 +4,8 @@
 //! The pieces: [`model`] (what the model states), [`schedule`] (piecewise-linear inputs),
 //! [`system`] (the one interface between network and integrator: assemble G and the right-hand
 //! side for the current temperatures), [`factor`] (sparse Cholesky factorisations of
-//! C/(d·h) + G, one per step size, reused while the step stays the same), [`integrate`] (the
+//! C/(d·h) + G, one per step size, reused while the step stays the same; sparse LU for the
+//! non-symmetric Jacobian of radiation and k(T) links), [`integrate`] (the
 //! stepping and its error control), [`run`] (outputs, events, limits over time, energy balance)
 //! and [`summary`] (final and peak values for the language server). The method and its error
 //! control are described in docs/transient.md.
