@@ -352,9 +352,31 @@ pub fn run(args: RunCli) -> u8 {
     let r = match outcome {
         Ok(r) => r,
         Err(e) => {
-            let d = Diagnostic::error("E706", format!("transient run `{}` failed: {e}", spec.name), spec.span)
-                .with_label("this run")
-                .with_help("check for extreme capacity or conductance values; a fixed `step` that is very short or long can also be the cause");
+            let d = match e {
+                // Radiation and k(T) links: Newton's method at a step or at the start failed,
+                // or a k(T) left the range where it is positive.
+                caloris_compiler::transient::RunError::NoConvergence { .. }
+                | caloris_compiler::transient::RunError::SteadyStart(_)
+                | caloris_compiler::transient::RunError::NonPhysicalConductivity { .. } => {
+                    let help = if matches!(
+                        e,
+                        caloris_compiler::transient::RunError::NoConvergence { .. }
+                            | caloris_compiler::transient::RunError::SteadyStart(
+                                caloris_compiler::nonlinear::NewtonError::NoConvergence { .. }
+                            )
+                    ) {
+                        "no temperatures are reported; with a fixed `step`, shorten it or leave it out for the automatic step (which shortens steps until Newton's method converges); otherwise check the radiation and k(T) links for values far from the rest of the network"
+                    } else {
+                        "no temperatures are reported; the linear k(T) is extrapolated beyond where it holds: use a `table(...)` of measured points (it holds its end values) or a smaller `k_slope`"
+                    };
+                    Diagnostic::error("E707", format!("transient run `{}` failed: {e}", spec.name), spec.span)
+                        .with_label("this run")
+                        .with_help(help)
+                }
+                _ => Diagnostic::error("E706", format!("transient run `{}` failed: {e}", spec.name), spec.span)
+                    .with_label("this run")
+                    .with_help("check for extreme capacity or conductance values; a fixed `step` that is very short or long can also be the cause"),
+            };
             eprint!(
                 "{}",
                 render_diagnostics(&[d], &a.sources, colour_on(std::io::stderr().is_terminal()))

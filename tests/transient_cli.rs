@@ -286,3 +286,93 @@ fn ctrl_c_stops_a_run_and_keeps_what_was_computed() {
     assert!(stdout.contains("Energy over the run"), "{stdout}");
     assert!(stderr.contains("interrupted: results up to"), "{stderr}");
 }
+
+/// The oven door warming up as the oven is lit: radiation links in a transient run. Its final
+/// state must be the steady Newton solve of the same door with the oven at 250 °C
+/// (examples/bakery_oven_door.heat), and the run must close its energy account.
+#[test]
+fn run_with_radiation_links_ends_at_the_steady_door() {
+    let (code, stdout, stderr) = out(&[
+        "run",
+        "examples/bakery_oven_warmup.heat",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(code, 0, "{stderr}");
+    let run: serde_json::Value = serde_json::from_str(&stdout).expect("json");
+    let (code, stdout, stderr) = out(&[
+        "solve",
+        "examples/bakery_oven_door.heat",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(code, 0, "{stderr}");
+    let steady: serde_json::Value = serde_json::from_str(&stdout).expect("json");
+    let find = |v: &serde_json::Value, name: &str, key: &str| {
+        v["nodes"]
+            .as_array()
+            .expect("nodes")
+            .iter()
+            .find(|n| n["name"] == name)
+            .and_then(|n| n[key].as_f64())
+            .unwrap_or_else(|| panic!("{name} {key}"))
+    };
+    for node in [
+        "inner_pane_in",
+        "inner_pane_out",
+        "outer_pane_in",
+        "outer_pane_out",
+    ] {
+        let (end, settled) = (
+            find(&run, node, "final_K"),
+            find(&steady, node, "temperature_K"),
+        );
+        assert!(
+            (end - settled).abs() < 1e-3,
+            "{node}: {end} K vs {settled} K"
+        );
+    }
+    let e = &run["energy"];
+    assert!(
+        e["residual_J"].as_f64().expect("residual").abs()
+            < 1e-9 * e["stored_J"].as_f64().expect("stored").abs()
+    );
+    assert!(run["stats"]["newton_iterations"].as_u64().expect("newton") > 0);
+    // The table report names the first law and the run's limit verdict.
+    let (code, stdout, _) = out(&["run", "examples/bakery_oven_warmup.heat"]);
+    assert_eq!(code, 0);
+    assert!(stdout.contains("outer_pane_touch"), "{stdout}");
+    assert!(stdout.contains("balance residual"), "{stdout}");
+}
+
+/// A k(T) that falls to zero as the kiln heats up, and the same model starting hot: an error
+/// with a code, never temperatures from a conductivity that has no meaning.
+#[test]
+fn run_stops_with_e707_when_k_of_t_leaves_its_range() {
+    let model = "material odd (k = 0.08 W/(m*K), k_slope = -1e-4 W/(m*K^2), k_at = 20 °C)\n\
+schedule firing {\n  0 h: 20 °C\n  2 h: 900 °C\n}\n\
+node kiln (fixed = firing)\n\
+node room (fixed = 20 °C)\n\
+node face (capacity = 0.4 kJ/K)\n\
+link plug: kiln to face layer(odd, thickness = 40 mm, area = 0.01 m^2)\n\
+link cap: face to room film(h = 10 W/(m^2*K), area = 0.01 m^2)\n";
+    for (run, what) in [
+        (
+            "transient heat_up (duration = 3 h)\n",
+            "between its end temperatures at t =",
+        ),
+        (
+            "transient late (start = 2 h, duration = 1 h)\n",
+            "in the steady state the run starts from",
+        ),
+    ] {
+        let path = scratch("k_falls.heat");
+        std::fs::write(&path, format!("{model}{run}")).expect("write");
+        let (code, stdout, stderr) = out(&["run", path.to_str().expect("utf-8")]);
+        assert_eq!(code, 1, "{stdout}{stderr}");
+        assert!(stdout.is_empty(), "{stdout}");
+        assert!(stderr.contains("E707"), "{stderr}");
+        assert!(stderr.contains(what), "{stderr}");
+        assert!(stderr.contains("k_slope"), "{stderr}");
+    }
+}

@@ -772,10 +772,11 @@ impl Cx<'_> {
     }
 
     fn biot_warnings(&mut self, net: &Network) {
+        let temps = representative_temperatures(net, &self.timed.dynamics.initial);
         for c in &self.timed.dynamics.capacities {
             let Some(lump) = &c.lump else { continue };
             let Some(volume) = lump.volume else { continue };
-            let Some(biot) = biot_number(net, c.node, volume, lump.k) else {
+            let Some(biot) = biot_number_at(net, c.node, volume, lump.k, &temps) else {
                 continue;
             };
             if biot.number > BIOT_LUMPED {
@@ -814,18 +815,73 @@ pub struct Biot {
 }
 
 /// Bi = h·Lc/k with Lc = V/A, where A is the total area of the `film` links that touch the node
-/// and h their area-weighted mean coefficient (ΣG/ΣA). `None` when the node has no film link.
+/// and h their area-weighted mean coefficient (ΣG/ΣA). `None` when the node has neither a film
+/// nor a radiation link. Radiation links at the node add their linearised coefficient (see [`biot_number_at`]), at
+/// the fixed temperatures and stated initial ones (the mean fixed temperature elsewhere).
 pub fn biot_number(net: &Network, node: NodeId, volume: f64, k: f64) -> Option<Biot> {
-    let (mut g, mut a) = (0.0, 0.0);
-    for l in &net.links {
-        if l.kind == "film" && (l.from == node || l.to == node) {
-            if let Some(area) = l.area {
-                g += l.conductance();
-                a += area;
+    let temps = representative_temperatures(net, &net.dynamics.initial);
+    biot_number_at(net, node, volume, k, &temps)
+}
+
+/// Node temperatures to judge temperature-dependent links by before any solve: fixed values,
+/// stated initial temperatures, and the mean fixed temperature (20 °C without one) elsewhere.
+pub fn representative_temperatures(
+    net: &Network,
+    initial: &[(NodeId, f64, crate::span::Span)],
+) -> Vec<f64> {
+    let fixed: Vec<f64> = net.nodes.iter().filter_map(|n| n.fixed).collect();
+    let mean = if fixed.is_empty() {
+        293.15
+    } else {
+        fixed.iter().sum::<f64>() / fixed.len() as f64
+    };
+    let mut t: Vec<f64> = net.nodes.iter().map(|n| n.fixed.unwrap_or(mean)).collect();
+    for &(node, v, _) in initial {
+        if let Some(slot) = t.get_mut(node) {
+            if net.nodes[node].fixed.is_none() {
+                *slot = v;
             }
         }
     }
-    if a <= 0.0 || k <= 0.0 {
+    t
+}
+
+/// [`biot_number`] with the links' conductances taken at node temperatures `temps` (K). The
+/// surface coefficient combines convection (`film` links) and radiation, h = h_c + h_r with
+/// h_r = ΔQ/ΔT per area of the radiating surface, as the lumped-capacitance criterion asks
+/// (common practice); the surface is the film links' area, or the radiating area when the body
+/// has no film link.
+pub fn biot_number_at(
+    net: &Network,
+    node: NodeId,
+    volume: f64,
+    k: f64,
+    temps: &[f64],
+) -> Option<Biot> {
+    let (mut g, mut a) = (0.0, 0.0);
+    let (mut g_rad, mut a_rad) = (0.0, 0.0);
+    for l in &net.links {
+        if l.from != node && l.to != node {
+            continue;
+        }
+        if l.kind == "film" {
+            if let Some(area) = l.area {
+                g += l.conductance_at(temps);
+                a += area;
+            }
+        } else if matches!(l.law, crate::network::LinkLaw::Radiation { .. }) {
+            g_rad += l.conductance_at(temps);
+            // The link's area is its FROM surface's.
+            if l.from == node {
+                a_rad += l.area.unwrap_or(0.0);
+            }
+        }
+    }
+    if a <= 0.0 {
+        a = a_rad;
+    }
+    g += g_rad;
+    if a <= 0.0 || k <= 0.0 || !g.is_finite() {
         return None;
     }
     let h = g / a;

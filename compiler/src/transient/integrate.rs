@@ -96,6 +96,7 @@ struct Stepper<'s> {
     sys: &'s dyn HeatSystem,
     mats: StepMatrices,
     linear: bool,
+    symmetric: bool,
     cap: Vec<f64>,
     entries: Vec<Entry>,
     rhs: Vec<f64>,
@@ -103,11 +104,11 @@ struct Stepper<'s> {
     newton: usize,
 }
 
-fn mul_entries(entries: &[Entry], x: &[f64], y: &mut [f64]) {
+fn mul_entries(entries: &[Entry], symmetric: bool, x: &[f64], y: &mut [f64]) {
     y.iter_mut().for_each(|v| *v = 0.0);
     for e in entries {
         y[e.row] += e.val * x[e.col];
-        if e.row != e.col {
+        if symmetric && e.row != e.col {
             y[e.col] += e.val * x[e.row];
         }
     }
@@ -129,7 +130,7 @@ impl Stepper<'_> {
         } else {
             self.sys
                 .assemble(t, x, Some(&mut self.entries), &mut self.rhs);
-            mul_entries(&self.entries, x, &mut self.tmp);
+            mul_entries(&self.entries, self.symmetric, x, &mut self.tmp);
         }
         for ((f, r), g) in f.iter_mut().zip(&self.rhs).zip(&self.tmp) {
             *f = r - g;
@@ -160,13 +161,20 @@ impl Stepper<'_> {
             self.newton += 1;
             let mut change = 0.0f64;
             let mut size = 1.0f64;
+            let mut above_zero = true;
             for (x, &new) in x.iter_mut().zip(&self.tmp) {
                 change = change.max((new - *x).abs());
                 size = size.max(new.abs());
+                above_zero &= new > 0.0;
                 *x = new;
             }
             if change.is_nan() {
                 return Err(RunError::NonFinite { time: t });
+            }
+            // An iterate at or below absolute zero has left the range where T⁴ and k(T) mean
+            // anything: the step is too long for the linearisation to hold.
+            if !above_zero {
+                return Err(RunError::NoConvergence { time: t });
             }
             if change <= 1e-11 * size {
                 return Ok(key);
@@ -194,11 +202,18 @@ pub fn integrate(
     let mut rhs = vec![0.0; n];
     sys.assemble(0.0, x0, Some(&mut entries), &mut rhs);
     let cap = sys.capacity().to_vec();
-    let mats = StepMatrices::new(n, &entries, &cap).map_err(|_| RunError::Singular)?;
+    let symmetric = sys.symmetric();
+    let mats = if symmetric {
+        StepMatrices::new(n, &entries, &cap)
+    } else {
+        StepMatrices::general(n, &entries, &cap)
+    }
+    .map_err(|_| RunError::Singular)?;
     let mut st = Stepper {
         sys,
         mats,
         linear: sys.is_linear(),
+        symmetric,
         cap,
         entries,
         rhs,
@@ -268,14 +283,38 @@ pub fn integrate(
             known[i] = c * st.cap[i] * x[i] + f[i];
         }
         xg.copy_from_slice(&x);
-        st.stage(t + GAMMA * h, c, &known, &mut xg)?;
-        st.balance(t + GAMMA * h, &xg, &mut fg);
-        // BDF2 stage to t + h.
-        for i in 0..n {
-            known[i] = c * st.cap[i] * (A1 * xg[i] - A0 * x[i]);
-            x1[i] = xg[i] + (xg[i] - x[i]) * (1.0 - GAMMA) / GAMMA;
+        let mut stages = st.stage(t + GAMMA * h, c, &known, &mut xg);
+        if stages.is_ok() {
+            st.balance(t + GAMMA * h, &xg, &mut fg);
+            // BDF2 stage to t + h.
+            for i in 0..n {
+                known[i] = c * st.cap[i] * (A1 * xg[i] - A0 * x[i]);
+                x1[i] = xg[i] + (xg[i] - x[i]) * (1.0 - GAMMA) / GAMMA;
+            }
+            stages = st.stage(target, c, &known, &mut x1);
         }
-        let key = st.stage(target, c, &known, &mut x1)?;
+        let key = match stages {
+            Ok(key) => key,
+            // Newton's method converges once the step is short enough (the capacity term
+            // c·C dominates the Jacobian), so the automatic step retries a quarter as long.
+            Err(e @ (RunError::NoConvergence { .. } | RunError::NonFinite { .. }))
+                if !st.linear && settings.mode == StepMode::Auto =>
+            {
+                stats.rejected += 1;
+                if h <= hmin {
+                    return Err(RunError::NoConvergence {
+                        time: match e {
+                            RunError::NoConvergence { time } | RunError::NonFinite { time } => time,
+                            _ => t,
+                        },
+                    });
+                }
+                let new_level = (h / 4.0 / h0).log2().floor() as i32;
+                level = new_level.min(level - 1);
+                continue;
+            }
+            Err(e) => return Err(e),
+        };
         st.balance(target, &x1, &mut f1);
         // Error estimate.
         for i in 0..n {

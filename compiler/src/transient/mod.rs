@@ -4,7 +4,8 @@
 //! The pieces: [`model`] (what the model states), [`schedule`] (piecewise-linear inputs),
 //! [`system`] (the one interface between network and integrator: assemble G and the right-hand
 //! side for the current temperatures), [`factor`] (sparse Cholesky factorisations of
-//! C/(d·h) + G, one per step size, reused while the step stays the same), [`integrate`] (the
+//! C/(d·h) + G, one per step size, reused while the step stays the same; sparse LU for the
+//! non-symmetric Jacobian of radiation and k(T) links), [`integrate`] (the
 //! stepping and its error control), [`run`] (outputs, events, limits over time, energy balance)
 //! and [`summary`] (final and peak values for the language server). The method and its error
 //! control are described in docs/transient.md.
@@ -37,6 +38,10 @@ pub enum RunError {
     TooManySteps { time: f64 },
     /// The Newton iteration of a nonlinear network did not converge even with small steps.
     NoConvergence { time: f64 },
+    /// The steady solution a nonlinear network starts from could not be found.
+    SteadyStart(crate::nonlinear::NewtonError),
+    /// The k(T) of this link fell to zero or below between its end temperatures at `time`.
+    NonPhysicalConductivity { time: f64, link: String },
 }
 
 impl std::fmt::Display for RunError {
@@ -59,8 +64,28 @@ impl std::fmt::Display for RunError {
             ),
             RunError::NoConvergence { time } => write!(
                 f,
-                "the nonlinear iteration did not converge at t = {time:.6e} s"
+                "Newton's method for the radiation or k(T) links did not converge at t = {time:.6e} s"
             ),
+            RunError::NonPhysicalConductivity { time, link } => write!(
+                f,
+                "the conductivity of `{link}` falls to zero or below between its end temperatures at t = {time:.6e} s"
+            ),
+            RunError::SteadyStart(e) => match e {
+                crate::nonlinear::NewtonError::NoConvergence { iterations, residual, .. } => write!(
+                    f,
+                    "the steady state the run starts from was not found: after {iterations} Newton steps the worst heat balance is still {residual:.3e} W"
+                ),
+                crate::nonlinear::NewtonError::NonPhysicalConductivity { t_low, t_high, .. } => write!(
+                    f,
+                    "in the steady state the run starts from, a k(T) falls to zero or below between {:.2} °C and {:.2} °C",
+                    t_low - 273.15,
+                    t_high - 273.15
+                ),
+                crate::nonlinear::NewtonError::Linear(_) => write!(
+                    f,
+                    "the steady state the run starts from could not be solved (a linear solve inside Newton's method failed)"
+                ),
+            },
         }
     }
 }

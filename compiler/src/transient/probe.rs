@@ -14,8 +14,15 @@ pub enum Probe {
     LinkFlow(usize),
     /// Heat flow through a build-up use, W.
     GroupFlow(usize),
-    /// A value that does not change during the run (a U-value).
+    /// A value that does not change during the run (a U-value of linear links).
     Constant(f64),
+    /// The U-value (`u_value`) or R-value of links in series over `area`, from their
+    /// resistances ΔT/Q at the current temperatures (links with radiation or k(T)).
+    Series {
+        links: Vec<usize>,
+        area: f64,
+        u_value: bool,
+    },
     /// A heat flow divided by an area.
     PerArea(Box<Probe>, f64),
 }
@@ -34,6 +41,27 @@ impl Probe {
                 Box::new(Probe::GroupFlow(g)),
                 net.groups[g].area.unwrap_or(f64::NAN),
             ),
+            (Measure::UValue | Measure::RValue, Subject::Link(l))
+                if !net.links[l].law.is_linear() =>
+            {
+                Probe::Series {
+                    links: vec![l],
+                    area: net.links[l].area.unwrap_or(f64::NAN),
+                    u_value: m == Measure::UValue,
+                }
+            }
+            (Measure::UValue | Measure::RValue, Subject::Group(gi))
+                if net.groups[gi]
+                    .links
+                    .iter()
+                    .any(|&l| !net.links[l].law.is_linear()) =>
+            {
+                Probe::Series {
+                    links: net.groups[gi].links.clone(),
+                    area: net.groups[gi].area.unwrap_or(f64::NAN),
+                    u_value: m == Measure::UValue,
+                }
+            }
             (Measure::UValue | Measure::RValue, Subject::Link(l)) => {
                 let (g, a) = (
                     net.links[l].conductance(),
@@ -63,20 +91,34 @@ impl Probe {
     pub fn value(&self, net: &Network, t: &[f64]) -> f64 {
         match self {
             Probe::Temperature(n) => t[*n],
-            Probe::LinkFlow(l) => {
-                let link = &net.links[*l];
-                link.conductance() * (t[link.from] - t[link.to])
-            }
+            Probe::LinkFlow(l) => net.links[*l].heat_flow(t),
             Probe::GroupFlow(g) => {
+                // As the steady results do: the temperature difference over the series
+                // resistance, each link's ΔT/Q at these temperatures.
                 let group = &net.groups[*g];
                 let r: f64 = group
                     .links
                     .iter()
-                    .map(|&l| 1.0 / net.links[l].conductance())
+                    .map(|&l| 1.0 / net.links[l].conductance_at(t))
                     .sum();
                 (t[group.from] - t[group.to]) / r
             }
             Probe::Constant(v) => *v,
+            Probe::Series {
+                links,
+                area,
+                u_value,
+            } => {
+                let r: f64 = links
+                    .iter()
+                    .map(|&l| 1.0 / net.links[l].conductance_at(t))
+                    .sum();
+                if *u_value {
+                    1.0 / (r * area)
+                } else {
+                    r * area
+                }
+            }
             Probe::PerArea(p, a) => p.value(net, t) / a,
         }
     }

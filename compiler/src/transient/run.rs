@@ -204,7 +204,7 @@ pub fn run_transient(
         out.resize(fixed_nodes.len(), 0.0);
         for &l in &boundary_links {
             let link = &net.links[l];
-            let q = link.conductance() * (s[link.from] - s[link.to]);
+            let q = link.heat_flow(s);
             if fixed_slot[link.from] != usize::MAX {
                 out[fixed_slot[link.from]] += q;
             }
@@ -291,6 +291,12 @@ pub fn run_transient(
     let (mut qg, mut q1) = (Vec::new(), Vec::new());
     let start_state = s0.clone();
     let capacity_all = net.dynamics.capacity_vector(n_all);
+    // Links with k(T): a conductivity that falls to zero between a link's end temperatures
+    // makes the run meaningless, so the run stops there with an error (as the steady solve does).
+    let kt_links: Vec<usize> = (0..net.links.len())
+        .filter(|&l| matches!(net.links[l].law, crate::network::LinkLaw::Conduction { .. }))
+        .collect();
+    let mut non_physical: Option<(f64, usize)> = None;
 
     let mut on_step = |v: &StepView| -> Control {
         let (t, h) = (v.t, v.h);
@@ -378,6 +384,16 @@ pub fn run_transient(
         if let Some(p) = hooks.progress.as_mut() {
             p(t1, duration);
         }
+        for &l in &kt_links {
+            let link = &net.links[l];
+            if let crate::network::LinkLaw::Conduction { conductivity, .. } = &link.law {
+                let (a, b) = (s0[link.from], s0[link.to]);
+                if conductivity.min_over(a.min(b), a.max(b)) <= 0.0 {
+                    non_physical = Some((t1, l));
+                    return Control::Stop;
+                }
+            }
+        }
         let stop = hooks.cancel.is_some_and(|c| c.load(Ordering::Relaxed));
         if stop {
             Control::Stop
@@ -399,6 +415,12 @@ pub fn run_transient(
         };
         integrate(&sys, &x0, &settings, &mut on_step)?
     };
+    if let Some((time, link)) = non_physical {
+        return Err(RunError::NonPhysicalConductivity {
+            time,
+            link: net.links[link].name.clone(),
+        });
+    }
     // `s0` holds the final state now.
     if stats.stopped {
         result.interrupted = true;
@@ -477,6 +499,9 @@ fn initial_state(sys: &NetworkSystem, net: &Network) -> Result<Vec<f64>, RunErro
     if n == 0 {
         return Ok(Vec::new());
     }
+    if !sys.is_linear() {
+        return initial_state_nonlinear(sys, net);
+    }
     let mut stated = vec![None; n];
     for &(node, t, _) in &net.dynamics.initial {
         if sys.index[node] != usize::MAX {
@@ -526,6 +551,89 @@ fn initial_state(sys: &NetworkSystem, net: &Network) -> Result<Vec<f64>, RunErro
             crate::solve::solve_spd(algebraic.len(), &sub, &b).map_err(|_| RunError::Singular)?;
         for (a, &k) in algebraic.iter().enumerate() {
             x[k] = xa[a];
+        }
+    }
+    if x.iter().any(|v| !v.is_finite()) {
+        return Err(RunError::NonFinite { time: 0.0 });
+    }
+    Ok(x)
+}
+
+/// The initial state of a network with nonlinear links: the steady solution at the start by the
+/// steady solver's damped Newton method (schedules at their start values), the stated `initial`
+/// temperatures over it, then the nodes without capacity made consistent by Newton's method on
+/// their own balances.
+fn initial_state_nonlinear(sys: &NetworkSystem, net: &Network) -> Result<Vec<f64>, RunError> {
+    let n = sys.len();
+    let mut stated = vec![None; n];
+    for &(node, t, _) in &net.dynamics.initial {
+        if sys.index[node] != usize::MAX {
+            stated[sys.index[node]] = Some(t);
+        }
+    }
+    let mut x = vec![0.0; n];
+    if stated.iter().any(|s| s.is_none()) {
+        let mut at_start = net.clone();
+        for (i, node) in at_start.nodes.iter_mut().enumerate() {
+            if node.fixed.is_some() {
+                node.fixed = Some(sys.fixed_temperature(i, 0.0));
+            } else {
+                node.load = sys.load(i, 0.0);
+            }
+        }
+        let (temps, _) = crate::nonlinear::solve_nonlinear(
+            &at_start,
+            crate::nonlinear::NewtonSettings::default(),
+        )
+        .map_err(RunError::SteadyStart)?;
+        for (k, &i) in sys.free.iter().enumerate() {
+            x[k] = temps.0[i];
+        }
+    }
+    for (k, s) in stated.iter().enumerate() {
+        if let Some(t) = s {
+            x[k] = *t;
+        }
+    }
+    let cap = sys.capacity();
+    let algebraic: Vec<usize> = (0..n).filter(|&k| cap[k] == 0.0).collect();
+    if stated.iter().any(|s| s.is_some()) && !algebraic.is_empty() {
+        // Newton on G_aa·x_a = rhs_a − G_ad·x_d, G and rhs linearised about the current x.
+        let mut slot = vec![usize::MAX; n];
+        for (a, &k) in algebraic.iter().enumerate() {
+            slot[k] = a;
+        }
+        let (mut entries, mut rhs) = (Vec::new(), vec![0.0; n]);
+        let mut converged = false;
+        for _ in 0..60 {
+            sys.assemble(0.0, &x, Some(&mut entries), &mut rhs);
+            let mut sub = Vec::new();
+            let mut b: Vec<f64> = algebraic.iter().map(|&k| rhs[k]).collect();
+            for e in &entries {
+                match (slot[e.row], slot[e.col]) {
+                    (usize::MAX, _) => {}
+                    (r, usize::MAX) => b[r] -= e.val * x[e.col],
+                    (r, c) => sub.push(faer::sparse::Triplet::new(r, c, e.val)),
+                }
+            }
+            let xa = crate::transient::factor::solve_general(algebraic.len(), &sub, &b)
+                .map_err(|_| RunError::Singular)?;
+            let (mut change, mut size) = (0.0f64, 1.0f64);
+            for (a, &k) in algebraic.iter().enumerate() {
+                change = change.max((xa[a] - x[k]).abs());
+                size = size.max(xa[a].abs());
+                x[k] = xa[a];
+            }
+            if !change.is_finite() {
+                return Err(RunError::NonFinite { time: 0.0 });
+            }
+            if change <= 1e-11 * size {
+                converged = true;
+                break;
+            }
+        }
+        if !converged {
+            return Err(RunError::NoConvergence { time: 0.0 });
         }
     }
     if x.iter().any(|v| !v.is_finite()) {

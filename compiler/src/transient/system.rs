@@ -22,10 +22,16 @@ pub trait HeatSystem {
     fn capacity(&self) -> &[f64];
     /// True when G does not depend on time or temperature.
     fn is_linear(&self) -> bool;
-    /// For temperatures `x` (K) at time `t` (s from the run's start): the lower triangle of G
-    /// (W/K; duplicates are summed; every diagonal entry present, possibly zero) into `g` when
-    /// asked, always in the same order and count; and `rhs` (W), with f(x') ≈ rhs − G·x' near
-    /// `x` (exact for a linear system).
+    /// True when G is symmetric and [`HeatSystem::assemble`] gives its lower triangle; false
+    /// when it gives every entry of a general G (the Jacobian of a network with radiation or
+    /// k(T) links, whose slopes differ at a link's two ends).
+    fn symmetric(&self) -> bool {
+        true
+    }
+    /// For temperatures `x` (K) at time `t` (s from the run's start): the entries of G (W/K;
+    /// the lower triangle when [`HeatSystem::symmetric`], else all; duplicates are summed; every
+    /// diagonal entry present, possibly zero) into `g` when asked, always in the same order and
+    /// count; and `rhs` (W), with f(x') ≈ rhs − G·x' near `x` (exact for a linear system).
     fn assemble(&self, t: f64, x: &[f64], g: Option<&mut Vec<Entry>>, rhs: &mut [f64]);
     /// Times in `(t0, t1]` where an input has a corner; the automatic step lands on them.
     fn corners(&self, t0: f64, t1: f64, out: &mut Vec<f64>);
@@ -43,8 +49,11 @@ pub struct NetworkSystem<'a> {
     start: f64,
     fixed_schedules: Vec<Option<&'a Schedule>>,
     load_schedules: Vec<Option<&'a Schedule>>,
-    /// `(unknown, fixed node, G)` for every link between a free and a fixed node.
+    /// `(unknown, fixed node, G)` for every link between a free and a fixed node (used when
+    /// every link is linear).
     boundary_links: Vec<(usize, NodeId, f64)>,
+    /// True when every link is linear (constant conductance).
+    linear: bool,
 }
 
 impl<'a> NetworkSystem<'a> {
@@ -66,8 +75,9 @@ impl<'a> NetworkSystem<'a> {
         let load_schedules = (0..n_all)
             .map(|i| net.dynamics.schedule_of(i, Driven::Load))
             .collect();
+        let linear = net.links.iter().all(|l| l.law.is_linear());
         let mut boundary_links = Vec::new();
-        for l in &net.links {
+        for l in net.links.iter().filter(|_| linear) {
             match (index[l.from], index[l.to]) {
                 (usize::MAX, usize::MAX) => {}
                 (a, usize::MAX) => boundary_links.push((a, l.to, l.conductance())),
@@ -84,6 +94,63 @@ impl<'a> NetworkSystem<'a> {
             fixed_schedules,
             load_schedules,
             boundary_links,
+            linear,
+        }
+    }
+
+    /// Temperature of node `i` given the unknowns `x` at time `t`, K.
+    fn temperature(&self, i: NodeId, t: f64, x: &[f64]) -> f64 {
+        match self.index[i] {
+            usize::MAX => self.fixed_temperature(i, t),
+            k => x[k],
+        }
+    }
+
+    /// G and rhs of a network with nonlinear links, linearised about `x`: every link's flow
+    /// Q(T_from, T_to) and its two slopes (`LinkLaw::flow`) give the Jacobian of the heat
+    /// balances, G = −∂f/∂x, stored whole, and rhs = f(x) + G·x.
+    fn assemble_nonlinear(
+        &self,
+        t: f64,
+        x: &[f64],
+        mut g: Option<&mut Vec<Entry>>,
+        rhs: &mut [f64],
+    ) {
+        for (k, &i) in self.free.iter().enumerate() {
+            rhs[k] = self.load(i, t);
+        }
+        if let Some(out) = g.as_deref_mut() {
+            out.clear();
+            for k in 0..self.free.len() {
+                out.push(Triplet::new(k, k, 0.0));
+            }
+        }
+        for l in &self.net.links {
+            let (a, b) = (self.index[l.from], self.index[l.to]);
+            if a == usize::MAX && b == usize::MAX {
+                continue;
+            }
+            let (ta, tb) = (self.temperature(l.from, t, x), self.temperature(l.to, t, x));
+            let (q, d_from, d_to) = l.law.flow(ta, tb);
+            // Heat leaves `from` (balance −Q) and enters `to` (balance +Q).
+            if a != usize::MAX {
+                rhs[a] += -q + d_from * ta + if b != usize::MAX { d_to * tb } else { 0.0 };
+            }
+            if b != usize::MAX {
+                rhs[b] += q - d_to * tb - if a != usize::MAX { d_from * ta } else { 0.0 };
+            }
+            if let Some(out) = g.as_deref_mut() {
+                if a != usize::MAX {
+                    out.push(Triplet::new(a, a, d_from));
+                }
+                if b != usize::MAX {
+                    out.push(Triplet::new(b, b, -d_to));
+                }
+                if a != usize::MAX && b != usize::MAX {
+                    out.push(Triplet::new(a, b, d_to));
+                    out.push(Triplet::new(b, a, -d_from));
+                }
+            }
         }
     }
 
@@ -122,9 +189,15 @@ impl HeatSystem for NetworkSystem<'_> {
         &self.capacity
     }
     fn is_linear(&self) -> bool {
-        true
+        self.linear
     }
-    fn assemble(&self, t: f64, _x: &[f64], g: Option<&mut Vec<Entry>>, rhs: &mut [f64]) {
+    fn symmetric(&self) -> bool {
+        self.linear
+    }
+    fn assemble(&self, t: f64, x: &[f64], g: Option<&mut Vec<Entry>>, rhs: &mut [f64]) {
+        if !self.linear {
+            return self.assemble_nonlinear(t, x, g, rhs);
+        }
         for (k, &i) in self.free.iter().enumerate() {
             rhs[k] = self.load(i, t);
         }
