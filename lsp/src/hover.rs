@@ -3,6 +3,7 @@
 //! and margin on a limit.
 
 use crate::display::{both, point, q};
+use crate::hover_transient;
 use crate::proto::lsp;
 use crate::settings::Settings;
 use crate::snapshot::{Snapshot, Stage};
@@ -57,7 +58,11 @@ fn symbol_text(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
         SymbolKind::Limit => limit(snap, s, sys),
         SymbolKind::Schedule => declared(snap, s, "schedule"),
         SymbolKind::Case => declared(snap, s, "case"),
-        SymbolKind::Transient => declared(snap, s, "transient run"),
+        SymbolKind::Transient => format!(
+            "{}\n\n{}",
+            declared(snap, s, "transient run"),
+            hover_transient::declaration_paragraph(snap, &s.name, sys)
+        ),
     };
     if s.def.file != FileId(0) {
         let _ = write!(
@@ -88,6 +93,19 @@ fn unsolved(snap: &Snapshot) -> &'static str {
 }
 
 fn node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
+    let mut out = steady_node(snap, s, sys);
+    let run = snap
+        .analysis
+        .network
+        .node_id(&s.name)
+        .and_then(|id| hover_transient::node_paragraph(snap, id, sys));
+    if let Some(run) = run {
+        let _ = write!(out, "\n\n{run}");
+    }
+    out
+}
+
+fn steady_node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
     let a = &snap.analysis;
     let net = &a.network;
     let mut out = format!("**node** `{}`", s.name);

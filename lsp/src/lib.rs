@@ -13,6 +13,7 @@ pub mod display;
 pub mod documents;
 pub mod formatting;
 pub mod hover;
+pub mod hover_transient;
 pub mod inlay_hints;
 pub mod loader;
 pub mod navigation;
