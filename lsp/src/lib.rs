@@ -15,6 +15,7 @@ pub mod formatting;
 pub mod hover;
 pub mod hover_transient;
 pub mod inlay_hints;
+pub mod link_figures;
 pub mod loader;
 pub mod navigation;
 pub mod proto;
