@@ -279,3 +279,71 @@ fn closing_the_input_without_shutdown_ends_the_server() {
         "server still running after its input closed"
     );
 }
+
+/// The first number after `word ` in `text` (`lowest -5.44 °C` → -5.44).
+fn number_after(text: &str, word: &str) -> Option<f64> {
+    let rest = &text[text.find(word)? + word.len()..];
+    rest.split_whitespace().next()?.parse().ok()
+}
+
+#[test]
+fn hover_gets_the_transient_run_of_the_frost_example() {
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("examples/allotment_standpipe_frost.heat");
+    let text = std::fs::read_to_string(&path).expect("example");
+    let uri = format!("file://{}", path.display());
+    // The same run through the command line, as the reference for the figures.
+    let out = Command::new(env!("CARGO_BIN_EXE_caloris"))
+        .args(["run", "--format", "json"])
+        .arg(&path)
+        .output()
+        .expect("caloris run");
+    let report: Value = serde_json::from_slice(&out.stdout).expect("run json");
+    let water = report["nodes"]
+        .as_array()
+        .and_then(|n| n.iter().find(|n| n["name"] == "water"))
+        .expect("water in the run report");
+    let lowest_c = water["min_K"].as_f64().expect("min_K") - 273.15;
+    let final_c = water["final_K"].as_f64().expect("final_K") - 273.15;
+
+    let (mut child, mut c) = spawn();
+    c.initialize(&format!("file://{}", path.parent().expect("dir").display()));
+    c.open(&uri, 1, &text);
+    c.diagnostics(&uri, 1, T).expect("diagnostics");
+    let mut seen = Vec::new();
+    let hover = (0..600).find_map(|_| {
+        let h = c.request(
+            "textDocument/hover",
+            json!({"textDocument": {"uri": uri}, "position": at(&text, "water   (")}),
+        );
+        let v = h["contents"]["value"]
+            .as_str()
+            .unwrap_or_default()
+            .to_string();
+        if v.contains("Transient `overnight`: final") {
+            return Some(v);
+        }
+        // Until the run is done the hover answers at once and says so.
+        seen.push(v.contains("Transient `overnight`: _running…_"));
+        std::thread::sleep(Duration::from_millis(100));
+        None
+    });
+    let hover = hover.unwrap_or_else(|| panic!("no transient figures in hover after 60 s"));
+    assert!(seen.iter().all(|&running| running), "{seen:?}");
+    let shown_final = number_after(&hover, "final **").expect("final");
+    let shown_lowest = number_after(&hover, "lowest ").expect("lowest");
+    assert!((shown_final - final_c).abs() < 0.01, "{hover} vs {final_c}");
+    assert!(
+        (shown_lowest - lowest_c).abs() < 0.01,
+        "{hover} vs {lowest_c}"
+    );
+
+    let decl = c.request(
+        "textDocument/hover",
+        json!({"textDocument": {"uri": uri}, "position": at(&text, "overnight (")}),
+    );
+    let table = decl["contents"]["value"].as_str().unwrap_or_default();
+    assert!(table.contains("| `water` |"), "{table}");
+    c.shutdown();
+    assert_eq!(wait_exit(&mut child), Some(0));
+}

@@ -51,7 +51,9 @@ Read when Eglot loads; after changing it, evaluate
 (defconst caloris-builtin-functions
   '("sqrt" "ln" "exp" "abs" "min" "max"
     "temperature" "heat_flow" "heat_flux" "u_value" "r_value"
-    "layer" "film" "contact" "resistance" "conductance")
+    "layer" "film" "contact" "resistance" "conductance"
+    "cylinder" "sphere" "radiation" "buried_pipe" "buried_sphere"
+    "parallel_cylinders" "fin" "heated_slab" "heated_rod")
   "Functions, measures and element kinds that Caloris provides.")
 
 (defconst caloris--name-re "[[:alpha:]_][[:alnum:]_]*"
@@ -76,6 +78,10 @@ Read when Eglot loads; after changing it, evaluate
      (2 font-lock-variable-name-face))
     (,(concat "\\_<\\(material\\|buildup\\)\\_>[ \t]+\\(" caloris--name-re "\\)")
      (2 font-lock-type-face))
+    ;; contextual words: a declaration only at the start of a line before a name
+    (,(concat "^[ \t]*\\(schedule\\|case\\|transient\\|repeat\\|network\\|use\\|region\\)"
+              "[ \t]+\\(" caloris--name-re "\\)[ \t]*\\(?:[(:{]\\|$\\)")
+     (1 font-lock-keyword-face) (2 font-lock-type-face))
     ;; keywords
     (,(regexp-opt caloris-keywords 'symbols) . font-lock-keyword-face)
     ;; element label inside a build-up:  inside: film(...)

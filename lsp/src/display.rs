@@ -37,3 +37,22 @@ pub fn point(kelvin: f64) -> Quantity {
 pub fn q(value: f64, dim: Dim) -> Quantity {
     Quantity::new(value, dim)
 }
+
+/// A time from a run's start in the unit that suits it (`45 s`, `12.5 min`, `9.75 h`, `4 d`),
+/// chosen like the command line's run report.
+pub fn time(seconds: f64) -> String {
+    let a = seconds.abs();
+    let (unit, size) = if a < 120.0 {
+        ("s", 1.0)
+    } else if a < 7200.0 {
+        ("min", 60.0)
+    } else if a < 3.0 * 86400.0 {
+        ("h", 3600.0)
+    } else {
+        ("d", 86400.0)
+    };
+    format!(
+        "{} {unit}",
+        caloris_compiler::units::format_number(seconds / size)
+    )
+}

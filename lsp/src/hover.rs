@@ -3,11 +3,13 @@
 //! and margin on a limit.
 
 use crate::display::{both, point, q};
+use crate::hover_transient;
+use crate::link_figures;
 use crate::proto::lsp;
 use crate::settings::Settings;
 use crate::snapshot::{Snapshot, Stage};
 use caloris_compiler::elements::{self, ArgType, ElementKind, ParamSpec};
-use caloris_compiler::query::{format_significant, node_balance, target_at, Target};
+use caloris_compiler::query::{format_significant, network_at, node_balance, target_at, Target};
 use caloris_compiler::span::FileId;
 use caloris_compiler::symbols::{Symbol, SymbolKind};
 use caloris_compiler::syntax::ItemKind;
@@ -20,7 +22,9 @@ const CAUTION: &str = "_Engineering estimate from the stated model; where safety
 
 pub fn hover(snap: &Snapshot, pos: Position, settings: &Settings) -> Option<Hover> {
     let offset = snap.offset(pos);
-    let target = target_at(&snap.analysis, FileId(0), offset)?;
+    let Some(target) = target_at(&snap.analysis, FileId(0), offset) else {
+        return network_hover(snap, offset);
+    };
     let sys = snap.system(settings);
     let value = match target {
         Target::Symbol { symbol, .. } => symbol_text(snap, symbol, sys),
@@ -46,6 +50,39 @@ pub fn hover(snap: &Snapshot, pos: Position, settings: &Settings) -> Option<Hove
     })
 }
 
+/// A sub-network's name, at its declaration or in a `use`.
+fn network_hover(snap: &Snapshot, offset: u32) -> Option<Hover> {
+    let a = &snap.analysis;
+    let n = network_at(a, FileId(0), offset)?;
+    let span = std::iter::once(n.def)
+        .chain(n.uses.iter().copied())
+        .find(|s| s.file == FileId(0) && s.contains(offset))?;
+    let text = a.sources.text(n.decl.file);
+    let head = text
+        .get(n.decl.range())
+        .and_then(|d| d.lines().next())
+        .unwrap_or_default()
+        .trim_end_matches('{')
+        .trim_end();
+    let uses = n.uses.len();
+    let mut value = format!(
+        "**sub-network** `{}`\n\n```heat\n{head}\n```\n\nUsed {uses} time{}; each `use NAME: {}(...)` makes a copy whose names start with `NAME.`.",
+        n.name,
+        if uses == 1 { "" } else { "s" },
+        n.name
+    );
+    if n.decl.file != FileId(0) {
+        let _ = write!(value, "\n\nDeclared in `{}`.", a.sources.name(n.decl.file));
+    }
+    Some(Hover {
+        contents: HoverContents::Markup(MarkupContent {
+            kind: MarkupKind::Markdown,
+            value,
+        }),
+        range: Some(snap.range(span)),
+    })
+}
+
 fn symbol_text(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
     let mut out = match s.kind {
         SymbolKind::Node | SymbolKind::GeneratedNode => node(snap, s, sys),
@@ -57,7 +94,11 @@ fn symbol_text(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
         SymbolKind::Limit => limit(snap, s, sys),
         SymbolKind::Schedule => declared(snap, s, "schedule"),
         SymbolKind::Case => declared(snap, s, "case"),
-        SymbolKind::Transient => declared(snap, s, "transient run"),
+        SymbolKind::Transient => format!(
+            "{}\n\n{}",
+            declared(snap, s, "transient run"),
+            hover_transient::declaration_paragraph(snap, &s.name, sys)
+        ),
     };
     if s.def.file != FileId(0) {
         let _ = write!(
@@ -88,6 +129,19 @@ fn unsolved(snap: &Snapshot) -> &'static str {
 }
 
 fn node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
+    let mut out = steady_node(snap, s, sys);
+    let run = snap
+        .analysis
+        .network
+        .node_id(&s.name)
+        .and_then(|id| hover_transient::node_paragraph(snap, id, sys));
+    if let Some(run) = run {
+        let _ = write!(out, "\n\n{run}");
+    }
+    out
+}
+
+fn steady_node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
     let a = &snap.analysis;
     let net = &a.network;
     let mut out = format!("**node** `{}`", s.name);
@@ -204,6 +258,13 @@ fn link(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
         }
         return out;
     }
+    if let Some(r) = net.regions.iter().find(|r| r.name == s.name) {
+        let out = link_figures::region(r, sol, net, sys);
+        return match sol {
+            Some(_) => out,
+            None => format!("{out}\n\n{}", unsolved(snap)),
+        };
+    }
     let Some(l) = net.link_id(&s.name) else {
         return format!("**link** `{}`\n\n{}", s.name, unsolved(snap));
     };
@@ -217,17 +278,8 @@ fn link(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
         let _ = write!(out, "\n\n{}", kind.summary());
     }
     let _ = write!(out, "\n\n```text\n{}\n```", link.formula);
-    // Nonlinear links (radiation, k(T)) have a conductance only at solved temperatures.
-    let g = match &snap.analysis.solution {
-        Some(sol) => link.conductance_at(&sol.temperatures),
-        None => link.conductance(),
-    };
-    let _ = write!(
-        out,
-        "\n\nResistance **{}** · conductance {}",
-        both(q(1.0 / g, Dim::RESISTANCE), sys),
-        both(q(g, Dim::CONDUCTANCE), sys)
-    );
+    let _ = write!(out, "\n\n{}", link_figures::resistance_line(link, sol, sys));
+    out.push_str(&link_figures::figures(net, l));
     let Some(sol) = sol else {
         return format!("{out}\n\n{}", unsolved(snap));
     };

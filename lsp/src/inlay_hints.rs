@@ -3,6 +3,7 @@
 //! the server asks the editor to refresh them when a solve finishes.
 
 use crate::display::{both, one, point, q};
+use crate::link_figures;
 use crate::proto::{self, lsp};
 use crate::settings::Settings;
 use crate::snapshot::Snapshot;
@@ -61,10 +62,21 @@ pub fn inlay_hints(snap: &Snapshot, range: Range, settings: &Settings) -> Vec<In
                 } else {
                     net.link_id(&name.name).map(|l| {
                         let flow = sol.heat_flows[l];
-                        (
-                            flow_label(flow, sys),
-                            format!("heat flow {}", both(q(flow.abs(), Dim::POWER), sys)),
-                        )
+                        let mut label = flow_label(flow, sys);
+                        let mut tip = format!("heat flow {}", both(q(flow.abs(), Dim::POWER), sys));
+                        let link = &net.links[l];
+                        if let Some(reason) = link_figures::nonlinear_reason(link) {
+                            let r = q(
+                                1.0 / link.conductance_at(&sol.temperatures),
+                                Dim::RESISTANCE,
+                            );
+                            label.push_str(&format!(", R = {} at solved T", one(r, sys)));
+                            tip.push_str(&format!(
+                                "; resistance {} at the solved temperatures ({reason})",
+                                both(r, sys)
+                            ));
+                        }
+                        (label, tip)
                     })
                 }
             }
@@ -91,6 +103,19 @@ pub fn inlay_hints(snap: &Snapshot, range: Range, settings: &Settings) -> Vec<In
                             format!("fails: {} is {}", r.measure.name(), both(actual, sys)),
                         )
                     }
+                })
+            }
+            ItemKind::Region { name, .. } => {
+                net.regions.iter().find(|r| r.name == name.name).map(|r| {
+                    let (lo, hi) = link_figures::region_range(r, sol);
+                    (
+                        format!("{} … {}", one(point(lo), sys), one(point(hi), sys)),
+                        format!(
+                            "cell temperatures from {} to {}",
+                            both(point(lo), sys),
+                            both(point(hi), sys)
+                        ),
+                    )
                 })
             }
             _ => None,

@@ -3,7 +3,7 @@
 
 use crate::proto::lsp;
 use crate::snapshot::Snapshot;
-use caloris_compiler::query::{target_at, Target};
+use caloris_compiler::query::{network_at, target_at, NetworkRefs, Target};
 use caloris_compiler::span::FileId;
 use caloris_compiler::symbols::Symbol;
 use lsp::{Location, Position};
@@ -18,8 +18,32 @@ pub fn symbol_at(snap: &Snapshot, pos: Position) -> Option<&Symbol> {
 
 /// Where the name under the cursor is declared.
 pub fn definition(snap: &Snapshot, pos: Position) -> Option<Location> {
-    let s = symbol_at(snap, pos)?;
-    snap.location(s.def)
+    match symbol_at(snap, pos) {
+        Some(s) => snap.location(s.def),
+        None => snap.location(network(snap, pos)?.def),
+    }
+}
+
+/// The sub-network declared or named by a `use` under the cursor.
+pub fn network(snap: &Snapshot, pos: Position) -> Option<NetworkRefs> {
+    network_at(&snap.analysis, FileId(0), snap.offset(pos))
+}
+
+/// The declaration (if asked) and every `use` of the sub-network under the cursor, in the
+/// document and the files it imports.
+pub fn network_references(
+    snap: &Snapshot,
+    pos: Position,
+    include_declaration: bool,
+) -> Option<Vec<Location>> {
+    let n = network(snap, pos)?;
+    let decl = include_declaration.then_some(n.def);
+    Some(
+        decl.into_iter()
+            .chain(n.uses.iter().copied())
+            .filter_map(|span| snap.location(span))
+            .collect(),
+    )
 }
 
 /// A name's identity across analyses: the file it is declared in and where.

@@ -292,10 +292,12 @@ impl LanguageServer for Backend {
 
     async fn references(&self, params: ReferenceParams) -> Result<Option<Vec<Location>>> {
         let p = params.text_document_position;
-        let Some((snap, key)) = self.symbol_key(&p.text_document.uri, p.position).await else {
-            return Ok(None);
-        };
         let include = params.context.include_declaration;
+        let Some((snap, key)) = self.symbol_key(&p.text_document.uri, p.position).await else {
+            // Sub-network names are not symbols (uses expand before names resolve).
+            let snap = self.snapshot(&p.text_document.uri, Need::Checked).await;
+            return Ok(snap.and_then(|s| navigation::network_references(&s, p.position, include)));
+        };
         let mut out = navigation::references(&snap, &key, include);
         for other in self.related(&snap.uri, Some(key.file.clone())).await {
             for loc in navigation::references(&other, &key, include) {

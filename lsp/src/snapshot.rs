@@ -5,9 +5,12 @@ use crate::proto::{self, lsp, uri_path};
 use crate::settings::{Settings, Units};
 use caloris_compiler::query::preferred_system;
 use caloris_compiler::span::{FileId, LineIndex, Span};
+use caloris_compiler::transient::{summarize, RunError, RunSummary};
 use caloris_compiler::units::UnitSystem;
 use caloris_compiler::{analyze, Analysis, Options};
 use lsp::{Location, Position, Range, Uri};
+use std::sync::atomic::AtomicBool;
+use std::sync::OnceLock;
 
 /// How far the analysis of a version has gone.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -24,6 +27,20 @@ pub struct Snapshot {
     pub version: i32,
     pub stage: Stage,
     pub analysis: Analysis,
+    /// The first transient run's summary, filled in by the worker after the solve (it may take
+    /// seconds, so requests read it when it is there and never wait for it). Holds `None` when
+    /// the model declares no run or has errors.
+    pub transient: OnceLock<Option<Result<RunSummary, RunError>>>,
+}
+
+/// What is known about the transient run of a snapshot.
+pub enum TransientState<'a> {
+    /// The model declares no run (or cannot be run).
+    NotDeclared,
+    /// Declared; the run has not finished yet.
+    Running,
+    Failed(&'a RunError),
+    Done(&'a RunSummary),
 }
 
 impl Snapshot {
@@ -58,6 +75,37 @@ impl Snapshot {
             version,
             stage,
             analysis,
+            transient: OnceLock::new(),
+        }
+    }
+
+    /// True when the worker should run the model's transient run for this snapshot.
+    pub fn wants_transient(&self) -> bool {
+        self.stage == Stage::Final
+            && self.solved()
+            && !self.analysis.has_errors()
+            && !self.analysis.studies.runs.is_empty()
+    }
+
+    /// Run the first transient of the model and keep its summary; nothing is kept when `cancel`
+    /// stopped it (a newer edit made this snapshot stale). Blocks for the length of the run.
+    pub fn run_transient(&self, cancel: &AtomicBool) {
+        let summary = summarize(&self.analysis, cancel);
+        if matches!(&summary, Some(Ok(s)) if s.stopped_early) {
+            return;
+        }
+        let _ = self.transient.set(summary);
+    }
+
+    pub fn transient_state(&self) -> TransientState<'_> {
+        if self.analysis.studies.runs.is_empty() || self.analysis.has_errors() {
+            return TransientState::NotDeclared;
+        }
+        match self.transient.get() {
+            None => TransientState::Running,
+            Some(None) => TransientState::NotDeclared,
+            Some(Some(Err(e))) => TransientState::Failed(e),
+            Some(Some(Ok(s))) => TransientState::Done(s),
         }
     }
 

@@ -64,6 +64,10 @@ pub fn document_symbols(snap: &Snapshot, settings: &Settings) -> Vec<DocumentSym
             ));
             continue;
         }
+        if let Some(sym) = contextual(snap, item, text) {
+            out.push(sym);
+            continue;
+        }
         let Some(name) = item.name() else { continue };
         let Some(sym) = a.symbols.symbols.iter().find(|s| s.def == name.span) else {
             continue;
@@ -99,6 +103,76 @@ pub fn document_symbols(snap: &Snapshot, settings: &Settings) -> Vec<DocumentSym
     out
 }
 
+/// The LSP kind of a declaration by its syntax, for names the symbol table does not hold
+/// (the bodies of repetitions and sub-networks are templates, not declarations of the model).
+fn item_kind(item: &Item) -> SymbolKind {
+    match &item.kind {
+        ItemKind::Param { .. } => SymbolKind::CONSTANT,
+        ItemKind::Material { .. } => SymbolKind::STRUCT,
+        ItemKind::Node { .. } => SymbolKind::VARIABLE,
+        ItemKind::Link { .. } | ItemKind::Region { .. } => SymbolKind::FUNCTION,
+        ItemKind::Buildup { .. } => SymbolKind::CLASS,
+        ItemKind::Limit { .. } => SymbolKind::BOOLEAN,
+        ItemKind::Repeat { .. } => SymbolKind::ARRAY,
+        ItemKind::Network { .. } => SymbolKind::INTERFACE,
+        ItemKind::Use { .. } => SymbolKind::OBJECT,
+        _ => SymbolKind::MODULE,
+    }
+}
+
+/// `repeat`, `network` and `use` (with their bodies as children), which have no symbol of
+/// their own; `None` for other declarations.
+fn contextual(snap: &Snapshot, item: &Item, text: &str) -> Option<DocumentSymbol> {
+    let (name, detail, body) = match &item.kind {
+        ItemKind::Repeat { name, args, body } => {
+            let args = args
+                .first()
+                .zip(args.last())
+                .map(|(f, l)| text[f.span.start as usize..l.span.end as usize].to_string());
+            (name, args.map(|a| format!("repeat ({a})")), Some(body))
+        }
+        ItemKind::Network { name, ports, body } => {
+            let ports: Vec<&str> = ports.iter().map(|p| p.name.as_str()).collect();
+            (
+                name,
+                Some(format!("network ({})", ports.join(", "))),
+                Some(body),
+            )
+        }
+        ItemKind::Use { name, network, .. } => {
+            (name, Some(format!("use of {}", network.name)), None)
+        }
+        _ => return None,
+    };
+    let children = body.map(|items| {
+        items
+            .iter()
+            .filter_map(|i| {
+                if let Some(sym) = contextual(snap, i, text) {
+                    return Some(sym);
+                }
+                let n = i.name()?;
+                Some(doc_symbol(
+                    n.name.clone(),
+                    None,
+                    item_kind(i),
+                    snap.range(i.span),
+                    snap.range(n.span),
+                    None,
+                ))
+            })
+            .collect()
+    });
+    Some(doc_symbol(
+        name.name.clone(),
+        detail,
+        item_kind(item),
+        snap.range(item.span),
+        snap.range(name.span),
+        children,
+    ))
+}
+
 fn detail(
     snap: &Snapshot,
     item: &Item,
@@ -132,6 +206,11 @@ fn detail(
             .and_then(|p| p.1)
             .map(|v| one(v, sys)),
         ItemKind::Buildup { elements, .. } => Some(format!("{} elements", elements.len())),
+        ItemKind::Region { name, .. } => {
+            let r = a.network.regions.iter().find(|r| r.name == name.name)?;
+            Some(format!("region, {} × {} cells", r.nx, r.ny))
+        }
+        ItemKind::Declaration { word, .. } => Some(word.name.clone()),
         ItemKind::Limit { measure, .. } => {
             Some(text[measure.span.start as usize..item.span.end as usize].to_string())
         }

@@ -8,6 +8,7 @@ use crate::proto::lsp;
 use crate::server::State;
 use crate::snapshot::{Snapshot, Stage};
 use lsp::{MessageType, Uri};
+use std::sync::atomic::{AtomicBool, Ordering};
 use std::sync::Arc;
 use tokio::sync::watch;
 use tower_lsp_server::Client;
@@ -97,7 +98,7 @@ pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::R
             pending = true;
             continue;
         }
-        if !state.docs.install(full) {
+        if !state.docs.install(full.clone()) {
             continue;
         }
         if full_diags != diags {
@@ -111,6 +112,37 @@ pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::R
             tokio::spawn(async move {
                 let _ = c.inlay_hint_refresh().await;
             });
+        }
+        if full.wants_transient() {
+            match transient(&full, &mut jobs).await {
+                Ran::Finished => {}
+                Ran::Superseded => pending = true,
+                Ran::Closed => return,
+            }
+        }
+    }
+}
+
+enum Ran {
+    Finished,
+    /// Stopped because a newer job is waiting.
+    Superseded,
+    /// The document's channel is gone.
+    Closed,
+}
+
+/// Run the snapshot's transient on a blocking thread, stopping it when a newer job arrives.
+/// Hover reads the result from the snapshot whenever it is there, so nothing is published.
+async fn transient(snap: &Arc<Snapshot>, jobs: &mut watch::Receiver<Job>) -> Ran {
+    let cancel = Arc::new(AtomicBool::new(false));
+    let (snap2, cancel2) = (snap.clone(), cancel.clone());
+    let run = tokio::task::spawn_blocking(move || snap2.run_transient(&cancel2));
+    tokio::select! {
+        _ = run => Ran::Finished,
+        changed = jobs.changed() => {
+            // The run sees the flag between steps and ends soon; its result is dropped.
+            cancel.store(true, Ordering::Relaxed);
+            if changed.is_ok() { Ran::Superseded } else { Ran::Closed }
         }
     }
 }

@@ -12,6 +12,7 @@ mod balance;
 mod context;
 mod convert;
 mod highlight;
+mod networks;
 mod rename;
 
 pub use at::{target_at, Target};
@@ -19,6 +20,7 @@ pub use balance::{node_balance, preferred_system, NodeBalance};
 pub use context::{completion_context, expected_dim, ArgOwner, CallInfo, CompletionContext, Slot};
 pub use convert::{format_significant, unit_conversions, Conversion};
 pub use highlight::{highlights, Class, Highlight};
+pub use networks::{network_at, networks, NetworkRefs};
 pub use rename::{check_new_name, rename_edits};
 
 #[cfg(test)]

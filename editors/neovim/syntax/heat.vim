@@ -22,6 +22,11 @@ syn keyword heatInclude   import
 syn keyword heatKeyword   title to
 syn keyword heatKeyword   param node link limit nextgroup=heatDefName skipwhite
 syn keyword heatKeyword   material buildup nextgroup=heatTypeName skipwhite
+" Contextual words: declarations only at the start of a line before a name (a node may be
+" called `case`)
+syn match   heatKeyword   /^\s*\zs\%(schedule\|case\|transient\|repeat\|network\|use\|region\)\ze\s\+\h\w*\s*\%([(:{]\|$\)/ nextgroup=heatDefName skipwhite
+" A digit segment of a generated name (fin.3.t, plate.2.1) is part of the name, not a number
+syn match   heatNameDigits /\%(\w\.\)\@<=\d\+\>/
 syn match   heatDefName   contained /\<\h\w*\>/
 syn match   heatTypeName  contained /\<\h\w*\>/
 
@@ -31,7 +36,7 @@ syn match   heatElement   /^\s*\zs\h\w*\ze\s*:/
 " Built-in functions, measures and element kinds (only before a parenthesis)
 syn match   heatFunction  /\<\%(sqrt\|ln\|exp\|abs\|min\|max\)\ze\s*(/
 syn match   heatFunction  /\<\%(temperature\|heat_flow\|heat_flux\|u_value\|r_value\)\ze\s*(/
-syn match   heatFunction  /\<\%(layer\|film\|contact\|resistance\|conductance\)\ze\s*(/
+syn match   heatFunction  /\<\%(layer\|film\|contact\|resistance\|conductance\|cylinder\|sphere\|radiation\|buried_pipe\|buried_sphere\|parallel_cylinders\|fin\|heated_slab\|heated_rod\)\ze\s*(/
 syn keyword heatConstant  pi
 
 " Quantities: a number, then (directly or after one space) a unit with no spaces,
@@ -49,6 +54,7 @@ hi def link heatString    String
 hi def link heatEscape    SpecialChar
 hi def link heatInclude   Include
 hi def link heatKeyword   Keyword
+hi def link heatNameDigits Identifier
 hi def link heatDefName   Identifier
 hi def link heatTypeName  Type
 hi def link heatElement   Label

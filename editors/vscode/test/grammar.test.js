@@ -114,3 +114,20 @@ test("build-up elements and the sample file tokenize without invalid scopes", ()
   assert.deepEqual(bad, []);
   assertScope(all, "# LED downlight on a ceiling board".slice(1), "comment.line.number-sign.heat");
 });
+
+test("contextual declarations, new element kinds, digit segments of generated names", () => {
+  const toks = tokenize(grammar, [
+    "transient overnight (start = 17 h, duration = 15 h)",
+    "use north_wall: wall(inside = shed_air, outside = yard)",
+    "link glow: stove to panel radiation(emissivity = 0.9, area = pane)",
+    "limit tip: temperature(fin.12.t) > 50 °C",
+    "node case (fixed = 2 °C)",
+  ]);
+  assertScope(toks, "transient", "keyword.other.declaration.heat");
+  assertScope(toks, "overnight", "entity.name.type.declaration.heat");
+  assertScope(toks, "use", "keyword.other.declaration.heat");
+  assertScope(toks, "radiation", "support.function.element.heat");
+  assertScope(toks, "12", "variable.other.heat");
+  const caseTok = scopesOf(toks, "case");
+  assert.ok(!caseTok.includes("keyword.other.declaration.heat"), "a node named case is a name");
+});
