@@ -37,7 +37,21 @@ fn run_reports_the_frost_night() {
         "the water falls below 0 °C, so the limit fails: {stderr}"
     );
     assert!(stderr.contains("W701"), "{stderr}");
-    insta::assert_snapshot!(stdout);
+    // The residual is round-off (checked to be tiny in run_json_and_csv_carry_the_whole_series);
+    // its digits depend on the CPU's SIMD kernels, so the snapshot leaves them out.
+    let stable: String = stdout
+        .lines()
+        .map(|l| {
+            if l.contains("balance residual") {
+                let cut = l.trim_end().rfind("  ").map_or(l.len(), |i| i + 2);
+                format!("{}[round-off] J", &l[..cut])
+            } else {
+                l.to_string()
+            }
+        })
+        .collect::<Vec<_>>()
+        .join("\n");
+    insta::assert_snapshot!(stable);
 }
 
 #[test]

@@ -169,7 +169,15 @@ fn steady_node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
         both(point(b.temperature), sys)
     );
     out.push_str("\n\nHeat balance (into the node):\n");
+    // Flows far below the network's largest are solver round-off; their digits differ between
+    // machines (SIMD kernels), so they are shown as zero.
+    let scale = a.solution.as_ref().map_or(0.0, |s| {
+        s.heat_flows.iter().fold(0.0f64, |m, q| m.max(q.abs()))
+    });
+    let noise = 1e-9 * scale.max(1.0);
+    let clean = |w: f64| if w.abs() < noise { 0.0 } else { w };
     for &(l, into) in &b.links {
+        let into = clean(into);
         let link = &net.links[l];
         let far = if link.to == id { link.from } else { link.to };
         let dir = if into >= 0.0 { "in from" } else { "out to" };
@@ -191,11 +199,11 @@ fn steady_node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
             let _ = write!(out, "\n\nThe boundary {verb} **{power}**.");
         }
         None => {
-            let _ = write!(
-                out,
-                "\n- sum: {} W (closes to round-off)",
-                format_number(b.residual)
-            );
+            if b.residual.abs() < noise {
+                out.push_str("\n- sum: 0 W (closes to round-off)");
+            } else {
+                let _ = write!(out, "\n- sum: {} W", format_number(b.residual));
+            }
         }
     }
     out
