@@ -17,60 +17,44 @@ pub struct Cylinder;
 /// Conduction through a spherical shell: R = (1/r₁ − 1/r₂)/(4π·k).
 pub struct Sphere;
 
-const CYLINDER: &[ParamSpec] = &[
-    ParamSpec {
-        name: "material",
-        ty: ArgType::Material,
-        positive: false,
-        doc: "a declared material (gives k)",
-    },
-    q(
-        "k",
-        Dim::CONDUCTIVITY,
-        "thermal conductivity, instead of a material",
-    ),
-    q(
-        "inner_radius",
-        Dim::LENGTH,
-        "inner radius r₁ (supplied by the build-up inside one)",
-    ),
-    q("outer_radius", Dim::LENGTH, "outer radius r₂"),
-    q(
-        "thickness",
-        Dim::LENGTH,
-        "wall thickness r₂ − r₁, instead of the outer radius",
-    ),
-    q(
-        "length",
-        Dim::LENGTH,
-        "length of the pipe run L (supplied by the build-up inside one)",
-    ),
-];
+/// The arguments both shells take; a cylinder adds its length.
+macro_rules! shell_params {
+    ($($extra:expr),*) => {
+        &[
+            ParamSpec {
+                name: "material",
+                ty: ArgType::Material,
+                positive: false,
+                doc: "a declared material (gives k)",
+            },
+            q(
+                "k",
+                Dim::CONDUCTIVITY,
+                "thermal conductivity, instead of a material",
+            ),
+            q(
+                "inner_radius",
+                Dim::LENGTH,
+                "inner radius r₁ (supplied by the build-up inside one)",
+            ),
+            q("outer_radius", Dim::LENGTH, "outer radius r₂"),
+            q(
+                "thickness",
+                Dim::LENGTH,
+                "wall thickness r₂ − r₁, instead of the outer radius",
+            ),
+            $($extra),*
+        ]
+    };
+}
 
-const SPHERE: &[ParamSpec] = &[
-    ParamSpec {
-        name: "material",
-        ty: ArgType::Material,
-        positive: false,
-        doc: "a declared material (gives k)",
-    },
-    q(
-        "k",
-        Dim::CONDUCTIVITY,
-        "thermal conductivity, instead of a material",
-    ),
-    q(
-        "inner_radius",
-        Dim::LENGTH,
-        "inner radius r₁ (supplied by the build-up inside one)",
-    ),
-    q("outer_radius", Dim::LENGTH, "outer radius r₂"),
-    q(
-        "thickness",
-        Dim::LENGTH,
-        "wall thickness r₂ − r₁, instead of the outer radius",
-    ),
-];
+const CYLINDER: &[ParamSpec] = shell_params!(q(
+    "length",
+    Dim::LENGTH,
+    "length of the pipe run L (supplied by the build-up inside one)"
+));
+
+const SPHERE: &[ParamSpec] = shell_params!();
 
 /// The geometry both shells share: conductivity and the two radii, checked.
 pub struct Radii {
