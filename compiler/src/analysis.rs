@@ -71,9 +71,31 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     let module_refs: Vec<&Module> = modules.iter().map(|(_, m)| m).collect();
     // Repetitions and sub-network uses become plain declarations; the parsed modules stay as
     // written for the editor.
-    let expanded = crate::expand::expand_modules(&module_refs, &options.overrides);
+    // Most models have nothing to expand; copying their syntax trees would double the memory
+    // of large generated models for nothing.
+    let needs_expansion = module_refs.iter().any(|m| {
+        m.items.iter().any(|i| {
+            matches!(
+                i.kind,
+                ItemKind::Repeat { .. } | ItemKind::Use { .. } | ItemKind::Network { .. }
+            )
+        })
+    });
+    let expanded = if needs_expansion {
+        crate::expand::expand_modules(&module_refs, &options.overrides)
+    } else {
+        crate::expand::Expanded {
+            modules: Vec::new(),
+            diags: Vec::new(),
+            bodies: Vec::new(),
+        }
+    };
     diagnostics.extend(expanded.diags);
-    let module_refs: Vec<&Module> = expanded.modules.iter().collect();
+    let module_refs: Vec<&Module> = if needs_expansion {
+        expanded.modules.iter().collect()
+    } else {
+        module_refs
+    };
     for m in &module_refs {
         diagnostics.extend(check_buildup_kinds(m));
     }
