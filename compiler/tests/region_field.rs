@@ -48,7 +48,7 @@ fn linear_boundary_temperatures_give_an_exact_linear_field() {
     }
 }
 
-/// Incropera et al., eq. 4.19: square W × W, T = T₁ on the top edge and T₀ on the other three:
+/// Classical Fourier-series (separation of variables) solution of Laplace's equation: square W × W, T = T₁ on the top edge and T₀ on the other three:
 /// θ = (T − T₀)/(T₁ − T₀) = (2/π) Σ ((−1)ⁿ⁺¹ + 1)/n · sin(nπx/W) · sinh(nπy/W)/sinh(nπ).
 fn fourier_square(x: f64, y: f64) -> f64 {
     let pi = std::f64::consts::PI;

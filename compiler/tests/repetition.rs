@@ -41,7 +41,7 @@ fn discretised_fin(n: usize) -> f64 {
     sol.heat_flows[i]
 }
 
-/// Incropera et al., Table 3.4, case B (adiabatic tip): Q = √(hPkA_c)·tanh(mL)·θ_b.
+/// Fin equation, closed-form solution with an adiabatic tip: Q = √(hPkA_c)·tanh(mL)·θ_b.
 fn fin_formula() -> f64 {
     let (h, k, t, w, l) = (25.0f64, 200.0f64, 0.002f64, 0.040f64, 0.050f64);
     let (p, ac) = (2.0 * (w + t), t * w);

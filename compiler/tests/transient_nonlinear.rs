@@ -53,8 +53,8 @@ transient cool (duration = 3 h, output = 5 min)\n";
 /// Time for a lumped body to cool by radiation alone from `t0` to `t` (kelvin) with
 /// surroundings at `s`: the closed-form solution of C·dT/dt = −ε·σ·A·(T⁴ − s⁴),
 ///   time = C/(4εσA·s³) · [ln((s+T)/(T−s)) − ln((s+T0)/(T0−s)) + 2(atan(T/s) − atan(T0/s))]
-/// (lumped capacitance with radiation only; integrate 1/(T⁴ − s⁴) by partial fractions, as in
-/// Incropera & DeWitt, Fundamentals of Heat and Mass Transfer, eq. 5.18).
+/// (lumped capacitance with radiation only; integrate 1/(T⁴ − s⁴) by partial fractions:
+/// the closed form has ln and arctan terms).
 fn radiative_cooling_time(c: f64, eps_area: f64, s: f64, t0: f64, t: f64) -> f64 {
     c / (4.0 * eps_area * SIGMA * s.powi(3))
         * (((s + t) / (t - s)).ln() - ((s + t0) / (t0 - s)).ln()

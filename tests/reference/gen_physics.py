@@ -133,7 +133,7 @@ def shell_hot_water_tank():
         "Hot-water cylinder top dome: spherical insulation",
         "A spherical build-up (steel shell, foam, outer film) around a hot-water store, and a single `sphere` link stated with thickness.",
         [
-            "spherical shell R = (1/r1 − 1/r2)/(4πk) (Fourier's law in spherical coordinates; Incropera et al., Fundamentals of Heat and Mass Transfer, Table 3.3)",
+            "spherical shell R = (1/r1 − 1/r2)/(4πk) (Fourier's law in spherical coordinates)",
             f"scipy {scipy.__version__} scipy.integrate.quad of dr/(4πkr²) agrees to 1e-11 (checked by the generator)",
             "Newton's law of cooling on the outer surface, area 4πr²",
         ],
@@ -182,7 +182,7 @@ def shell_critical_radius_cable():
         "Extension cable: a PVC jacket below the critical radius",
         "A thin PVC jacket on a 1 mm conductor loses MORE heat than the bare conductor at the same temperature: warning W110 names the critical radius k/h.",
         [
-            "critical insulation radius r_c = k/h for a cylinder (Incropera et al., Fundamentals of Heat and Mass Transfer, Sec. 3.3.1)",
+            "critical insulation radius r_c = k/h for a cylinder",
             f"ht {ht.__version__} ht.conduction.R_cylinder(Di, Do, k, L) for the jacket; Newton's law of cooling for the films",
         ],
     )
@@ -222,7 +222,7 @@ def q_rad_exact(eps, t, t2):
 
 
 def grey_pair(e1, a1, e2, a2, f12):
-    """Exchange area of two grey diffuse surfaces (Incropera eq. 13.23, two-surface enclosure)."""
+    """Exchange area of two grey diffuse surfaces (two-surface enclosure)."""
     return 1.0 / ((1 - e1) / (e1 * a1) + 1 / (a1 * f12) + (1 - e2) / (e2 * a2))
 
 
@@ -233,7 +233,7 @@ def radiation_bakery_oven_door():
         "A glazed oven door: oven air and walls at 230 °C, kitchen at 24 °C; each glass face exchanges heat by a film and by grey radiation (to large surroundings inside, to a large room wall outside). Two free nodes, four nonlinear links, solved by Newton's method.",
         [
             f"ht {ht.__version__} ht.radiation.q_rad(ε, T, T2) = εσ(T⁴ − T2⁴), rescaled from ht's σ = 5.670367e-8 to the exact SI σ = 5.670374419e-8 W/(m²·K⁴)",
-            "grey two-surface exchange σ(T1⁴ − T2⁴)/[(1−ε1)/(ε1A1) + 1/(A1F12) + (1−ε2)/(ε2A2)] (Incropera et al., Fundamentals of Heat and Mass Transfer, Sec. 13.3)",
+            "grey two-surface exchange σ(T1⁴ − T2⁴)/[(1−ε1)/(ε1A1) + 1/(A1F12) + (1−ε2)/(ε2A2)]",
             f"scipy {scipy.__version__} scipy.optimize.root (hybr) solves the two node balances; the generator checks the balances close to 1e-10 W",
         ],
     )
@@ -283,8 +283,8 @@ def radiation_enclosures():
         "Closed forms between fixed temperatures: a surface in large surroundings, two large parallel plates, a sphere inside a concentric sphere, and two plates that see each other only in part.",
         [
             f"ht {ht.__version__} ht.radiation.q_rad(ε, T, T2) (rescaled to the exact SI σ) for the surface in large surroundings",
-            "large parallel planes q = σ(T1⁴ − T2⁴)/(1/ε1 + 1/ε2 − 1); concentric spheres Q = σA1(T1⁴ − T2⁴)/[1/ε1 + (1−ε2)/ε2·(r1/r2)²] (Incropera et al., Table 13.3)",
-            "two-surface enclosure with view factor (Incropera eq. 13.23); reciprocity A1F12 = A2F21",
+            "large parallel planes q = σ(T1⁴ − T2⁴)/(1/ε1 + 1/ε2 − 1); concentric spheres Q = σA1(T1⁴ − T2⁴)/[1/ε1 + (1−ε2)/ε2·(r1/r2)²]",
+            "two-surface enclosure with view factor; reciprocity A1F12 = A2F21",
         ],
     )
     t1, t2 = lit("450") + C0, lit("30") + C0
@@ -326,7 +326,7 @@ def kt_linear_slab():
         "Kiln wall with k rising linearly with temperature",
         "Slabs with k(T) = k_at + k_slope·(T − T_at): between fixed faces the heat flow is exactly the one at k(mean temperature); in series with a film the face temperature comes from a nonlinear balance.",
         [
-            "for linear k(T) a slab's heat flow is k at the mean face temperature × A·ΔT/L (Fourier's law with the Kirchhoff transform; Incropera et al., Sec. 3.1, variable conductivity)",
+            "for linear k(T) a slab's heat flow is k at the mean face temperature × A·ΔT/L (Fourier's law with the Kirchhoff transform)",
             f"scipy {scipy.__version__} scipy.integrate.quad of k(T) over the face temperatures, checked against the closed form to 1e-12",
             f"scipy {scipy.__version__} scipy.optimize.brentq for the face temperature of the slab in series with a film",
         ],
@@ -370,7 +370,7 @@ def kt_table_pipe_lagging():
         "A cylindrical lagging layer whose k is given as (T, k) points, between a fixed pipe surface and an outer film: heat flow and the outer surface temperature.",
         [
             f"scipy {scipy.__version__} scipy.integrate.solve_ivp (DOP853, rtol 1e-12) shooting on the radial conduction equation (1/r)·d/dr(r·k(T)·dT/dr) = 0 with T(r1) fixed and −k·dT/dr = h·(T − T_air) at r2; agrees with the Kirchhoff value to 1e-8",
-            "Kirchhoff transform for a cylinder: Q = 2πL/ln(r2/r1) · ∫k dT (Incropera et al., Sec. 3.3 with variable k), evaluated by scipy.optimize.brentq and checked against the ODE solution",
+            "Kirchhoff transform for a cylinder: Q = 2πL/ln(r2/r1) · ∫k dT, evaluated by scipy.optimize.brentq and checked against the ODE solution",
         ],
     )
     from scipy import optimize
@@ -462,9 +462,9 @@ def shape_factor_buried_services():
         "Buried services of a garden-centre greenhouse",
         "Conduction shape factors between fixed temperatures: a heating pipe under the lawn, a buried water tank, and flow and return pipes side by side in a concrete duct.",
         [
-            f"ht {ht.__version__} ht.conduction.S_isothermal_pipe_to_plane, S_isothermal_sphere_to_plane, S_isothermal_pipe_to_isothermal_pipe (Incropera et al., Table 4.1)",
+            f"ht {ht.__version__} ht.conduction.S_isothermal_pipe_to_plane, S_isothermal_sphere_to_plane, S_isothermal_pipe_to_isothermal_pipe",
             "method of images with numpy: line source and sink placed so the pipe circle (and the second pipe) are equipotentials, S = 2π/ΔΦ per metre; agrees with the arccosh forms to 1e-9 (checked by the generator)",
-            "sphere in an infinite medium S = 2πD (Incropera Table 4.1) as the deep limit of the buried sphere, checked by the generator",
+            "sphere in an infinite medium S = 2πD as the deep limit of the buried sphere, checked by the generator",
         ],
     )
     k_soil, k_conc = lit("1.3"), lit("1.4")
@@ -499,7 +499,7 @@ def shape_factor_buried_services():
 # --------------------------------------------------------------------------- (5) fins
 
 def fin_closed_form(k, h, ac, p, L, tip_h=None):
-    """Incropera et al., Table 3.4: fin heat rate per kelvin of base excess temperature."""
+    """Fin equation, closed forms: fin heat rate per kelvin of base excess temperature."""
     m = math.sqrt(h * p / (k * ac))
     M = math.sqrt(h * p * k * ac)
     if tip_h is None:
@@ -529,7 +529,7 @@ def fin_charger_heatsink():
         "Battery-box charger heat sink: straight and pin fins",
         "Fins from a fixed base to fixed air: straight rectangular and pin, adiabatic and convective tips, one link of 14 fins in parallel, and a fin on a loaded free node.",
         [
-            "fin heat rate, Incropera et al., Fundamentals of Heat and Mass Transfer, Table 3.4 (cases A: convective tip, B: adiabatic tip), m = √(hP/(kA_c))",
+            "fin heat rate, closed-form solutions of the fin equation (convective tip and adiabatic tip), m = √(hP/(kA_c))",
             f"scipy {scipy.__version__} scipy.integrate.solve_bvp of the fin equation k·A_c·θ'' = h·P·θ with each tip condition; agrees with Table 3.4 to 1e-7 (checked by the generator)",
             "energy balance: the charger's load leaves through the fins and the base plate's film",
         ],
@@ -581,7 +581,7 @@ def generation_curing_wall():
         "Curing concrete wall: hydration heat between two films",
         "A freshly cast wall with uniform hydration heat q̇, a warm heated enclosure on one side and winter air on the other: midplane temperature, both face temperatures and both face heat flows.",
         [
-            "plane wall with uniform generation, T(x) = T1 + (T2 − T1)x/L + q̇x(L − x)/(2k) (Incropera et al., Sec. 3.5.1, eq. 3.41 with unequal faces)",
+            "plane wall with uniform generation, T(x) = T1 + (T2 − T1)x/L + q̇x(L − x)/(2k) (plane wall with uniform generation and unequal faces)",
             f"scipy {scipy.__version__} scipy.integrate.solve_bvp of k·T'' = −q̇ with a film (Robin) condition at each face; agrees with the closed form to 1e-8 (checked by the generator)",
         ],
     )
@@ -630,7 +630,7 @@ def generation_heater_rod():
         "Immersion heater element: centre temperature of a solid rod",
         "A solid rod with uniform generation (given as total power) in water, and a second stated by q̇ between fixed axis-free and surface temperatures: the centre temperature.",
         [
-            "solid cylinder with uniform generation: T(0) − T(r0) = q̇r0²/(4k) (Incropera et al., Sec. 3.5.2, eq. 3.53)",
+            "solid cylinder with uniform generation: T(0) − T(r0) = q̇r0²/(4k)",
             f"scipy {scipy.__version__} scipy.integrate.quad of Fourier's law with the enclosed heat, dT/dr = −q̇r/(2k), from the axis to the surface (checked by the generator)",
             "Newton's law of cooling at the surface, area 2πr0L",
         ],
@@ -661,7 +661,7 @@ def generation_heater_rod():
 # --------------------------------------------------------------------------- (9) 2-D regions
 
 def fourier_square(x, y, terms=4000):
-    """Incropera et al. eq. 4.19: unit square, θ = 1 on the top edge, 0 on the others."""
+    """Fourier-series solution of Laplace's equation: unit square, θ = 1 on the top edge, 0 on the others."""
     n = np.arange(1, terms, 2, dtype=float)
     a, b = n * np.pi * y, n * np.pi
     ratio = (np.exp(a - b) - np.exp(-a - b)) / (1 - np.exp(-2 * b))
@@ -704,7 +704,7 @@ def region_laplace_square():
         "Square plate with one heated edge (Laplace's equation)",
         "A 2-D region 0.5 m square, 25 × 25 cells, top edge held at 100 °C and the other three at 0 °C: cell temperatures at nine points against an independent solve of the same finite-volume equations, which the generator checks against the classical Fourier series.",
         [
-            "Laplace's equation on a square with one heated edge, Fourier-series solution (Incropera et al., Sec. 4.2, eq. 4.19), summed over 2000 odd terms",
+            "Laplace's equation on a square with one heated edge, Fourier-series solution, summed over 2000 odd terms",
             f"scipy {scipy.__version__} scipy.sparse.linalg.spsolve of the cell-centred finite-volume equations assembled separately in Python; within 2.5e-3·ΔT of the series at every cell with 0.1 ≤ x, y ≤ 0.9 (checked by the generator)",
             "centre of the square: exactly 1/4 of the way from the cold to the hot temperature, by superposing the problem's four rotations",
         ],

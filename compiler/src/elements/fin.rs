@@ -1,6 +1,6 @@
 //! Extended surfaces: straight fins of rectangular section and pin fins of uniform section,
-//! with an adiabatic or a convective tip (Incropera, DeWitt, Bergman, Lavine, *Fundamentals of
-//! Heat and Mass Transfer*, Sec. 3.6 and Table 3.4).
+//! with an adiabatic or a convective tip (the classical closed-form solutions of the fin equation
+//! θ'' = m²θ).
 //!
 //! The fin is a link from its base node to the fluid node: G = Q/θ_b, with θ_b the base excess
 //! temperature. `count` identical fins act in parallel.
@@ -225,7 +225,7 @@ mod tests {
 
     const BASE: &str = "node b (fixed = 60 °C)\nnode air (fixed = 20 °C)\n";
 
-    /// Incropera eq. 3.94: an adiabatic-tip fin has η = tanh(mL)/(mL).
+    /// Fin efficiency of the adiabatic-tip solution: an adiabatic-tip fin has η = tanh(mL)/(mL).
     #[test]
     fn adiabatic_tip_efficiency_is_tanh_ml_over_ml() {
         let src = format!("{BASE}link f: b to air fin(k = 180 W/(m*K), length = 40 mm, thickness = 2 mm, width = 50 mm, h = 60 W/(m^2*K))\n");
@@ -235,7 +235,7 @@ mod tests {
         assert!((figure(&src, "fin_mL") - ml).abs() < 1e-12);
     }
 
-    /// Incropera eq. 3.95: a convective tip is close to an adiabatic one of corrected length
+    /// Corrected-length approximation: a convective tip is close to an adiabatic one of corrected length
     /// L_c = L + D/4 (pin); the approximation is within a few tenths of a percent here.
     #[test]
     fn convective_tip_matches_corrected_length_approximation() {

@@ -1,7 +1,7 @@
 //! Uniform internal heat generation: a plane slab between two faces and a solid rod.
 //!
 //! A slab with uniform generation q̇ between faces at T₁ and T₂ has the parabolic profile
-//! T(x) = T₁ + (T₂ − T₁)·x/L + q̇·x·(L − x)/(2k) (Incropera et al., Sec. 3.5.1). Its exact
+//! T(x) = T₁ + (T₂ − T₁)·x/L + q̇·x·(L − x)/(2k). Its exact
 //! network equivalent has a node at the midplane carrying the generated heat q̇·A·L, two half
 //! links of 4kA/L to the faces, and a link of −kA/L straight between the faces: these give the
 //! exact midplane temperature (mean + q̇L²/(8k)) and the exact heat flow at each face

@@ -1,7 +1,6 @@
 //! Conduction shape factors: two-dimensional and three-dimensional conduction between two
 //! isothermal surfaces in a medium of conductivity k, written R = 1/(k·S) with the shape
-//! factor S in metres (Incropera, DeWitt, Bergman, Lavine, *Fundamentals of Heat and Mass
-//! Transfer*, Table 4.1).
+//! factor S in metres.
 // Diagnostics are returned by value throughout the compiler; boxing them here alone would
 // split the element API.
 #![allow(clippy::result_large_err)]
