@@ -202,7 +202,7 @@ def plane_spreader_plate():
 def plane_kiln_wall_brick():
     c = Case(
         "plane_kiln_wall_brick",
-        "Kiln side wall: one insulating brick course",
+        "Kiln side wall: one layer of insulating brick",
         "Kiln side wall: one insulating brick layer between two fixed face temperatures (heat flows from TO to FROM).",
         [HT_LAYER, "sign convention: heat flow is positive from FROM to TO, so it is negative here"],
     )
