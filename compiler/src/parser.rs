@@ -182,15 +182,18 @@ impl<'a> Parser<'a> {
         if self.pos == start {
             self.pos += 1;
         }
-        while let Some(k) = self.peek() {
-            if k.starts_item()
-                || (self.at_declaration_word(self.pos) && self.starts_line(self.pos))
-                || self.at_contextual_item()
-            {
-                break;
-            }
+        while !self.at_end() && !self.at_declaration() {
             self.pos += 1;
         }
+    }
+
+    /// A declaration starts at the current token: a keyword, or a contextual word followed by
+    /// a name (`schedule`, `case` and `transient` only at the start of a line). Every recovery
+    /// loop stops here, so a broken declaration never swallows the next one.
+    fn at_declaration(&self) -> bool {
+        self.peek().is_some_and(|k| k.starts_item())
+            || (self.at_declaration_word(self.pos) && self.starts_line(self.pos))
+            || self.at_contextual_item()
     }
 
     fn item(&mut self) -> PResult<Item> {
@@ -277,7 +280,7 @@ impl<'a> Parser<'a> {
             _ => {
                 return Err(self.unexpected(
                     t,
-                    "a declaration (`param`, `material`, `node`, `link`, `buildup`, `limit`, `repeat`, `network`, `use`, `title` or `import`)",
+                    "a declaration (`param`, `material`, `node`, `link`, `buildup`, `limit`, `repeat`, `network`, `use`, `region`, `schedule`, `case`, `transient`, `title` or `import`)",
                 ))
             }
         };
@@ -338,10 +341,7 @@ impl<'a> Parser<'a> {
                     self.bump();
                     return Ok(out);
                 }
-                Some(t)
-                    if t.kind.starts_item()
-                        || (self.at_declaration_word(self.pos) && self.starts_line(self.pos)) =>
-                {
+                Some(t) if self.at_declaration() => {
                     return Err(
                         Diagnostic::error("E002", "this table is not closed", t.span)
                             .with_label("a new declaration starts before `}`")
@@ -456,7 +456,7 @@ impl<'a> Parser<'a> {
                     self.bump();
                     return Ok(out);
                 }
-                Some(t) if t.kind.starts_item() => {
+                Some(t) if self.at_declaration() => {
                     return Err(
                         Diagnostic::error("E002", "this build-up is not closed", t.span)
                             .with_label("a new declaration starts before `}`")
@@ -486,7 +486,7 @@ impl<'a> Parser<'a> {
                                 let next_is_colon = self.tokens.get(self.pos + 1).map(|n| n.kind)
                                     == Some(Tok::Colon);
                                 if t.kind == Tok::RBrace
-                                    || t.kind.starts_item()
+                                    || self.at_declaration()
                                     || (t.kind == Tok::Ident && next_is_colon)
                                 {
                                     break;
@@ -697,17 +697,13 @@ impl<'a> Parser<'a> {
     }
 }
 
-/// Words that start a declaration only where a declaration may start, followed by a name; they
-/// stay ordinary names everywhere else, so they need no tokens of their own.
-pub const CONTEXTUAL: &[&str] = &["repeat", "network", "use", "region"];
-
 impl Parser<'_> {
     fn at_contextual_item(&self) -> bool {
         match (self.tokens.get(self.pos), self.tokens.get(self.pos + 1)) {
             (Some(t), Some(n)) => {
                 t.kind == Tok::Ident
                     && n.kind == Tok::Ident
-                    && CONTEXTUAL.contains(&self.slice(t.span))
+                    && BLOCK_WORDS.contains(&self.slice(t.span))
             }
             _ => false,
         }
@@ -821,8 +817,7 @@ impl Parser<'_> {
                                 self.pos += 1;
                             }
                             while let Some(k) = self.peek() {
-                                if k == Tok::RBrace || k.starts_item() || self.at_contextual_item()
-                                {
+                                if k == Tok::RBrace || self.at_declaration() {
                                     break;
                                 }
                                 self.pos += 1;

@@ -177,6 +177,15 @@ pub enum ItemKind {
 /// (a node may still be called `case`), so adding them breaks no existing model.
 pub const DECLARATION_WORDS: &[&str] = &["schedule", "case", "transient"];
 
+/// Words that begin the block declarations of repetition, sub-networks and regions when a name
+/// follows; like [`DECLARATION_WORDS`] they stay ordinary names everywhere else.
+pub const BLOCK_WORDS: &[&str] = &["repeat", "network", "use", "region"];
+
+/// Whether `word` is one of the contextual words that may open a declaration.
+pub fn is_declaration_word(word: &str) -> bool {
+    DECLARATION_WORDS.contains(&word) || BLOCK_WORDS.contains(&word)
+}
+
 /// One row of a declaration's table, `6 h: -4 °C` (a time and a value in a schedule).
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Row {

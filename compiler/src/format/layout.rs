@@ -180,9 +180,8 @@ impl Emitter<'_> {
             }
             let next_is_colon = self.sig_piece(s + 1).is_some_and(|x| x.is(":"));
             // `use kitchen_wall: …`: the name after a contextual declaration word stays with it.
-            let after_word = lp.kind == crate::lexer::Tok::Ident
-                && (crate::syntax::DECLARATION_WORDS.contains(&lp.text.as_str())
-                    || crate::parser::CONTEXTUAL.contains(&lp.text.as_str()));
+            let after_word =
+                lp.kind == crate::lexer::Tok::Ident && crate::syntax::is_declaration_word(&lp.text);
             if n.kind == crate::lexer::Tok::Ident && next_is_colon && lp.ends_value() && !after_word
             {
                 return Break::Entry(base);

@@ -8,7 +8,7 @@
 use super::pieces::Piece;
 use crate::lexer::{lex, Tok};
 use crate::span::FileId;
-use crate::syntax::DECLARATION_WORDS;
+use crate::syntax::is_declaration_word;
 
 /// The context of a join: the token before `prev`, and whether `prev` is a sign.
 pub struct Join<'a> {
@@ -36,10 +36,7 @@ pub fn wants_space(j: &Join) -> bool {
             // its name; everywhere else a name and its `(` make one call: `layer(…)`.
             // The contextual words (`schedule`, `case`, `transient`) open declarations too.
             return j.before_prev.is_some_and(|b| {
-                b.starts_item()
-                    || (b.kind == Tok::Ident
-                        && (DECLARATION_WORDS.contains(&b.text.as_str())
-                            || crate::parser::CONTEXTUAL.contains(&b.text.as_str())))
+                b.starts_item() || (b.kind == Tok::Ident && is_declaration_word(&b.text))
             });
         }
         if p.is_closer() {
