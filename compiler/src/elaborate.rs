@@ -212,40 +212,19 @@ pub fn elaborate(
             if let Some(els) = buildups.get(element.kind.name.as_str()) {
                 for e in els.iter().take(els.len().saturating_sub(1)) {
                     let gen = format!("{}.{}", name.name, e.name.name);
-                    net.nodes.push(Node {
-                        name: gen.clone(),
-                        span: e.name.span,
-                        fixed: None,
-                        load: 0.0,
-                        generated: true,
-                    });
-                    cx.symbols.push(Symbol {
-                        name: gen,
-                        kind: SymbolKind::GeneratedNode,
-                        def: name.span,
-                        decl: item.span,
-                        refs: Vec::new(),
-                        parent: Some(name.name.clone()),
-                    });
+                    add_generated_node(
+                        &mut net,
+                        &mut cx.symbols,
+                        gen,
+                        e.name.span,
+                        name,
+                        item.span,
+                    );
                 }
             } else if let Some(kind) = elements::lookup(&element.kind.name) {
                 for suffix in kind.internal_nodes() {
                     let gen = format!("{}.{suffix}", name.name);
-                    net.nodes.push(Node {
-                        name: gen.clone(),
-                        span: name.span,
-                        fixed: None,
-                        load: 0.0,
-                        generated: true,
-                    });
-                    cx.symbols.push(Symbol {
-                        name: gen,
-                        kind: SymbolKind::GeneratedNode,
-                        def: name.span,
-                        decl: item.span,
-                        refs: Vec::new(),
-                        parent: Some(name.name.clone()),
-                    });
+                    add_generated_node(&mut net, &mut cx.symbols, gen, name.span, name, item.span);
                 }
             }
         }
@@ -1297,4 +1276,31 @@ pub fn check_buildup_kinds(module: &Module) -> Vec<Diagnostic> {
         }
     }
     out
+}
+
+/// A node made by a declaration (a build-up face, an element's internal node): in the network,
+/// and in the symbol table as a child of the declaration that made it, for navigation.
+fn add_generated_node(
+    net: &mut Network,
+    symbols: &mut SymbolTable,
+    name: String,
+    span: Span,
+    parent: &Ident,
+    decl: Span,
+) {
+    net.nodes.push(Node {
+        name: name.clone(),
+        span,
+        fixed: None,
+        load: 0.0,
+        generated: true,
+    });
+    symbols.push(Symbol {
+        name,
+        kind: SymbolKind::GeneratedNode,
+        def: parent.span,
+        decl,
+        refs: Vec::new(),
+        parent: Some(parent.name.clone()),
+    });
 }
