@@ -125,6 +125,22 @@ enum Units {
     Us,
 }
 
+/// A command line that cannot be used: the message on standard error, exit code 2.
+fn usage(msg: impl std::fmt::Display) -> u8 {
+    eprintln!("error: {msg}");
+    exit::USAGE
+}
+
+/// `--set NAME=VALUE` options, each read as a parameter override.
+fn parse_settings(
+    texts: &[String],
+) -> Result<Vec<(String, caloris_compiler::units::Quantity)>, String> {
+    texts
+        .iter()
+        .map(|s| caloris_compiler::study::parse_setting(s).map_err(|e| format!("--set {e}")))
+        .collect()
+}
+
 impl Units {
     fn system(self) -> UnitSystem {
         match self {
@@ -142,13 +158,7 @@ fn main() -> ExitCode {
             file,
             format,
             units,
-        } => {
-            let system = match units {
-                Units::Si => UnitSystem::Si,
-                Units::Us => UnitSystem::Us,
-            };
-            run(&file, false, format, system)
-        }
+        } => run(&file, false, format, units.system()),
         Command::Fmt { files, check } => fmt_cmd::run(&files, check),
         Command::Diff {
             files,

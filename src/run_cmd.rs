@@ -2,12 +2,14 @@
 //! declaration, adjustable from the command line, and a case or parameter values applied.
 
 use crate::progress::{catch_interrupt, stop_requested, Progress, STOP};
-use crate::{colour_on, exit, loader, plot, read_model, run_report, Format, Units};
+use crate::{
+    colour_on, exit, loader, parse_settings, plot, read_model, run_report, usage, Format, Units,
+};
 use caloris_compiler::render::render_diagnostics;
-use caloris_compiler::study::{parse_setting, parse_value};
+use caloris_compiler::study::parse_value;
 use caloris_compiler::transient::model::RunSpec;
 use caloris_compiler::transient::{run_transient, Hooks, Record, RunOptions};
-use caloris_compiler::units::{Dim, Quantity, TempKind, UnitSystem};
+use caloris_compiler::units::{Dim, Quantity, TempKind};
 use caloris_compiler::{analyze, Analysis, Diagnostic, Options};
 use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
@@ -58,19 +60,6 @@ pub struct RunCli {
     /// Also write a temperature–time chart as SVG.
     #[arg(long, value_name = "FILE.svg")]
     plot: Option<PathBuf>,
-}
-
-/// The report's unit system.
-pub fn unit_system(u: Units) -> UnitSystem {
-    match u {
-        Units::Si => UnitSystem::Si,
-        Units::Us => UnitSystem::Us,
-    }
-}
-
-fn usage(msg: impl std::fmt::Display) -> u8 {
-    eprintln!("error: {msg}");
-    exit::USAGE
 }
 
 /// Analyse with overrides; print diagnostics; `None` (after printing) when the model has errors.
@@ -240,18 +229,15 @@ pub fn default_nodes(a: &Analysis) -> Vec<usize> {
 }
 
 pub fn run(args: RunCli) -> u8 {
-    let units = unit_system(args.units);
+    let units = args.units.system();
     let (name, text) = match read_model(&args.file) {
         Ok(v) => v,
         Err(msg) => return usage(msg),
     };
-    let mut settings = Vec::new();
-    for s in &args.set {
-        match parse_setting(s) {
-            Ok(v) => settings.push(v),
-            Err(e) => return usage(format!("--set {e}")),
-        }
-    }
+    let settings = match parse_settings(&args.set) {
+        Ok(v) => v,
+        Err(e) => return usage(e),
+    };
     let Some(mut a) = analyse(&name, &text, &args.file, settings.clone(), false) else {
         return exit::MODEL_ERROR;
     };

@@ -2,12 +2,12 @@
 //! cases, steady or transient, with every limit evaluated at every point.
 
 use crate::progress::{catch_interrupt, stop_requested, Progress, STOP};
-use crate::run_cmd::{analyse, unit_system};
+use crate::run_cmd::analyse;
 use crate::study_report::{self, AxisUnits};
-use crate::{colour_on, exit, loader, plot, read_model, Format, Units};
+use crate::{colour_on, exit, loader, parse_settings, plot, read_model, usage, Format, Units};
 use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::study::{
-    parse_setting, parse_sweep, run_study, Mode, Outcome, Plan, StudyError, StudyHooks,
+    parse_sweep, run_study, Mode, Outcome, Plan, StudyError, StudyHooks,
 };
 use std::io::IsTerminal;
 use std::path::PathBuf;
@@ -45,13 +45,8 @@ pub struct StudyCli {
     plot: Option<PathBuf>,
 }
 
-fn usage(msg: impl std::fmt::Display) -> u8 {
-    eprintln!("error: {msg}");
-    exit::USAGE
-}
-
 pub fn study(args: StudyCli) -> u8 {
-    let units_system = unit_system(args.units);
+    let units_system = args.units.system();
     let (name, text) = match read_model(&args.file) {
         Ok(v) => v,
         Err(msg) => return usage(msg),
@@ -63,13 +58,10 @@ pub fn study(args: StudyCli) -> u8 {
             Err(e) => return usage(format!("--sweep {e}")),
         }
     }
-    let mut settings = Vec::new();
-    for s in &args.set {
-        match parse_setting(s) {
-            Ok(v) => settings.push(v),
-            Err(e) => return usage(format!("--set {e}")),
-        }
-    }
+    let settings = match parse_settings(&args.set) {
+        Ok(v) => v,
+        Err(e) => return usage(e),
+    };
     // The model as written: its diagnostics are shown once, and its cases and runs listed.
     let Some(base) = analyse(&name, &text, &args.file, Vec::new(), false) else {
         return exit::MODEL_ERROR;
