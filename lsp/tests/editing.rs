@@ -4,8 +4,8 @@
 mod support;
 
 use caloris_lsp::proto::lsp::{
-    CodeActionOrCommand, CompletionTextEdit, DiagnosticSeverity, DocumentSymbol, InlayHintLabel,
-    ParameterLabel, Position, Range,
+    CodeActionOrCommand, CompletionTextEdit, DiagnosticSeverity, InlayHintLabel, ParameterLabel,
+    Position, Range,
 };
 use caloris_lsp::settings::Settings;
 use caloris_lsp::snapshot::Snapshot;
@@ -223,31 +223,13 @@ fn a_failing_limit_shows_by_how_much() {
     insta::assert_snapshot!(line);
 }
 
-fn outline(list: &[DocumentSymbol], depth: usize, out: &mut String) {
-    for s in list {
-        out.push_str(&format!(
-            "{}{:?} {} — {}\n",
-            "  ".repeat(depth),
-            s.kind,
-            s.name,
-            s.detail.clone().unwrap_or_default()
-        ));
-        if let Some(c) = &s.children {
-            outline(c, depth + 1, out);
-        }
-    }
-}
-
 #[test]
 fn document_symbols_outline_the_model() {
     let (snap, _) = analyse(&format!("$0{CABIN}"));
-    let mut out = String::new();
-    outline(
-        &symbols::document_symbols(&snap, &Settings::default()),
-        0,
-        &mut out,
-    );
-    insta::assert_snapshot!(out);
+    insta::assert_snapshot!(outline(&symbols::document_symbols(
+        &snap,
+        &Settings::default()
+    )));
 }
 
 #[test]

@@ -4,7 +4,7 @@
 
 mod support;
 
-use caloris_lsp::proto::lsp::{DocumentSymbol, HoverContents, InlayHintLabel};
+use caloris_lsp::proto::lsp::{HoverContents, InlayHintLabel};
 use caloris_lsp::settings::Settings;
 use caloris_lsp::snapshot::Snapshot;
 use caloris_lsp::{hover, inlay_hints, navigation, symbols};
@@ -147,31 +147,13 @@ fn network_names_navigate_between_declaration_and_uses() {
     assert!(text.contains("Used 2 times"), "{text}");
 }
 
-fn outline(list: &[DocumentSymbol], depth: usize, out: &mut String) {
-    for s in list {
-        out.push_str(&format!(
-            "{}{:?} {} — {}\n",
-            "  ".repeat(depth),
-            s.kind,
-            s.name,
-            s.detail.clone().unwrap_or_default()
-        ));
-        if let Some(c) = &s.children {
-            outline(c, depth + 1, out);
-        }
-    }
-}
-
 #[test]
 fn outline_has_repetitions_networks_uses_regions_and_studies() {
     let (snap, _) = solved(&format!("$0{SHED}"));
-    let mut out = String::new();
-    outline(
-        &symbols::document_symbols(&snap, &Settings::default()),
-        0,
-        &mut out,
-    );
-    insta::assert_snapshot!(out);
+    insta::assert_snapshot!(outline(&symbols::document_symbols(
+        &snap,
+        &Settings::default()
+    )));
 }
 
 #[test]

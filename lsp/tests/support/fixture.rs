@@ -182,3 +182,24 @@ fn offset(text: &str, p: Position) -> usize {
     }
     text.len()
 }
+
+/// A document outline as indented lines: kind, name and detail, children below their parent.
+pub fn outline(list: &[lsp::DocumentSymbol]) -> String {
+    fn walk(list: &[lsp::DocumentSymbol], depth: usize, out: &mut String) {
+        for s in list {
+            out.push_str(&format!(
+                "{}{:?} {} — {}\n",
+                "  ".repeat(depth),
+                s.kind,
+                s.name,
+                s.detail.clone().unwrap_or_default()
+            ));
+            if let Some(c) = &s.children {
+                walk(c, depth + 1, out);
+            }
+        }
+    }
+    let mut out = String::new();
+    walk(list, 0, &mut out);
+    out
+}
