@@ -9,9 +9,7 @@ use crate::loader::FsLoader;
 use caloris_compiler::compare::compare;
 use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::source::SourceLoader;
-use caloris_compiler::units::UnitSystem;
 use caloris_compiler::{analyze, Analysis, Options};
-use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
 
 /// One side of the comparison: a name for people, the text and where its imports come from.
@@ -46,7 +44,7 @@ fn at_revision(file: &Path, rev: &str) -> Result<Version, String> {
 }
 
 /// Run the command; `files` are OLD and NEW, or with `rev` the one FILE.
-pub fn run(files: &[PathBuf], rev: Option<&str>, format: DiffFormat, system: UnitSystem) -> u8 {
+pub fn run(files: &[PathBuf], rev: Option<&str>, format: DiffFormat, units: crate::Units) -> u8 {
     let versions = match (rev, files) {
         (Some(rev), [file]) => {
             at_revision(file, rev).and_then(|old| Ok((old, working_copy(file)?)))
@@ -74,8 +72,8 @@ pub fn run(files: &[PathBuf], rev: Option<&str>, format: DiffFormat, system: Uni
         return exit::MODEL_ERROR;
     }
     let cmp = compare(&a_old, &a_new);
-    let colour = std::io::stdout().is_terminal()
-        && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty());
+    let system = units.system_for(&a_new);
+    let colour = crate::console::stdout_colour();
     let out = match format {
         DiffFormat::Table => diff_render::table(&cmp, &old.name, &new.name, system, colour),
         DiffFormat::Markdown => diff_render::markdown(&cmp, &old.name, &new.name, system),
@@ -100,8 +98,7 @@ fn report_errors(a: &Analysis) -> bool {
         .filter(|d| d.is_error())
         .cloned()
         .collect();
-    let colour = std::io::stderr().is_terminal()
-        && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty());
+    let colour = crate::console::stderr_colour();
     eprint!("{}", render_diagnostics(&errors, &a.sources, colour));
     eprintln!(
         "{}: {} error{} — cannot compare",

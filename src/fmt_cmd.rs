@@ -6,7 +6,7 @@ use crate::exit;
 use caloris_compiler::format::format_source;
 use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::source::Sources;
-use std::io::{IsTerminal, Read, Write};
+use std::io::{Read, Write};
 use std::path::{Path, PathBuf};
 
 /// Run `caloris fmt [--check] FILES...`; folders are searched for `*.heat` files.
@@ -18,14 +18,10 @@ pub fn run(inputs: &[PathBuf], check: bool) -> u8 {
         }
         return stdin(check);
     }
-    let mut files = Vec::new();
-    for input in inputs {
-        if input.is_dir() {
-            collect(input, &mut files);
-        } else {
-            files.push(input.clone());
-        }
-    }
+    let files = match crate::files::expand(inputs) {
+        Ok(f) => f,
+        Err(e) => return crate::usage(e),
+    };
     let mut code = exit::OK;
     let (mut changed, mut unchanged) = (0, 0);
     for file in &files {
@@ -63,10 +59,10 @@ pub fn run(inputs: &[PathBuf], check: bool) -> u8 {
     } else {
         "reformatted"
     };
-    eprintln!(
-        "{changed} file{} {verb}, {unchanged} already formatted",
-        if changed == 1 { "" } else { "s" }
-    );
+    crate::console::status(format!(
+        "{} {verb}, {unchanged} already formatted",
+        crate::console::plural(changed, "file", "files")
+    ));
     code
 }
 
@@ -106,28 +102,11 @@ fn stdin(check: bool) -> u8 {
 fn report_errors(name: &str, text: &str, diags: &[caloris_compiler::Diagnostic]) {
     let mut sources = Sources::default();
     sources.add(name, text);
-    let colour = std::io::stderr().is_terminal()
-        && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty());
-    eprint!("{}", render_diagnostics(diags, &sources, colour));
+    eprint!(
+        "{}",
+        render_diagnostics(diags, &sources, crate::console::stderr_colour())
+    );
     eprintln!("{name}: not formatted (fix the errors above first; the file was left as written)");
-}
-
-fn collect(dir: &Path, out: &mut Vec<PathBuf>) {
-    let Ok(entries) = std::fs::read_dir(dir) else {
-        return;
-    };
-    let mut paths: Vec<PathBuf> = entries.flatten().map(|e| e.path()).collect();
-    paths.sort();
-    for p in paths {
-        let hidden = p
-            .file_name()
-            .is_some_and(|n| n.to_string_lossy().starts_with('.'));
-        if p.is_dir() && !hidden && !p.ends_with("target") {
-            collect(&p, out);
-        } else if p.extension().is_some_and(|x| x == "heat") {
-            out.push(p);
-        }
-    }
 }
 
 /// Write through a temporary file in the same folder and rename it over the original, so an

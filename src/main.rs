@@ -1,7 +1,9 @@
 //! `caloris`: check and solve thermal network models from the command line.
 
+mod console;
 mod diff_cmd;
 mod diff_render;
+mod files;
 mod fmt_cmd;
 mod git_rev;
 mod loader;
@@ -11,14 +13,14 @@ mod progress;
 mod report;
 mod run_cmd;
 mod run_report;
+mod solve_cmd;
 mod study_cmd;
 mod study_report;
 
-use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::units::UnitSystem;
-use caloris_compiler::{analyze, Analysis, Options};
+use caloris_compiler::Analysis;
 use clap::{Parser, Subcommand, ValueEnum};
-use std::io::{IsTerminal, Read};
+use std::io::Read;
 use std::path::PathBuf;
 use std::process::ExitCode;
 
@@ -45,26 +47,23 @@ pub mod exit {
 struct Cli {
     #[command(subcommand)]
     command: Command,
+    /// When to colour the output (`auto`: on a terminal, unless NO_COLOR is set or TERM=dumb).
+    #[arg(long, global = true, value_enum, default_value_t = console::ColorChoice::Auto)]
+    color: console::ColorChoice,
+    /// Print only errors and failing limits: no warnings, progress or status lines.
+    #[arg(short, long, global = true)]
+    quiet: bool,
+    /// Fail (exit 1) when a model has warnings it does not accept.
+    #[arg(long, global = true)]
+    deny_warnings: bool,
 }
 
 #[derive(Subcommand)]
 enum Command {
     /// Check a model's syntax, units and connectivity without solving it.
-    Check {
-        /// Model file (`-` reads standard input).
-        file: PathBuf,
-    },
+    Check(solve_cmd::ModelArgs),
     /// Solve a model and report temperatures, heat flows and limit checks.
-    Solve {
-        /// Model file (`-` reads standard input).
-        file: PathBuf,
-        /// Output format.
-        #[arg(long, value_enum, default_value_t = Format::Table)]
-        format: Format,
-        /// Unit system of the report.
-        #[arg(long, value_enum, default_value_t = Units::Si)]
-        units: Units,
-    },
+    Solve(solve_cmd::SolveCli),
     /// Rewrite model files in the one canonical layout (comments and blank lines kept).
     Fmt {
         /// Model files or folders of them (`-` formats standard input to standard output).
@@ -121,8 +120,12 @@ enum Format {
 
 #[derive(Clone, Copy, ValueEnum)]
 enum Units {
+    /// SI units (°C, W, m).
     Si,
+    /// US customary units (°F, Btu/h, ft).
     Us,
+    /// The system most of the model's quantities are written in.
+    Auto,
 }
 
 /// A command line that cannot be used: the message on standard error, exit code 2.
@@ -142,36 +145,39 @@ fn parse_settings(
 }
 
 impl Units {
-    fn system(self) -> UnitSystem {
+    /// The system to report `a` in.
+    fn system_for(self, a: &Analysis) -> UnitSystem {
         match self {
             Units::Si => UnitSystem::Si,
             Units::Us => UnitSystem::Us,
+            Units::Auto => caloris_compiler::query::preferred_system(a),
         }
     }
 }
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
+    console::init(console::Console {
+        color: cli.color,
+        quiet: cli.quiet,
+        deny_warnings: cli.deny_warnings,
+    });
     let code = match cli.command {
-        Command::Check { file } => run(&file, true, Format::Table, UnitSystem::Si),
-        Command::Solve {
-            file,
-            format,
-            units,
-        } => run(&file, false, format, units.system()),
+        Command::Check(args) => solve_cmd::check(args),
+        Command::Solve(args) => solve_cmd::solve(args),
         Command::Fmt { files, check } => fmt_cmd::run(&files, check),
         Command::Diff {
             files,
             rev,
             format,
             units,
-        } => diff_cmd::run(&files, rev.as_deref(), format, units.system()),
+        } => diff_cmd::run(&files, rev.as_deref(), format, units),
         Command::Report {
             file,
             out,
             path,
             units,
-        } => report::run(&file, &out, path.as_deref(), units.system()),
+        } => report::run(&file, &out, path.as_deref(), units),
         Command::Lsp => match caloris_lsp::run_stdio() {
             Ok(()) => exit::OK,
             Err(e) => {
@@ -186,7 +192,7 @@ fn main() -> ExitCode {
 }
 
 fn colour_on(stream_is_terminal: bool) -> bool {
-    stream_is_terminal && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty())
+    console::colour_for(console::get().color, stream_is_terminal)
 }
 
 fn read_model(file: &PathBuf) -> Result<(String, String), String> {
@@ -200,68 +206,4 @@ fn read_model(file: &PathBuf) -> Result<(String, String), String> {
     let text = std::fs::read_to_string(file)
         .map_err(|e| format!("cannot read `{}`: {e}", file.display()))?;
     Ok((file.display().to_string(), text))
-}
-
-fn run(file: &PathBuf, check_only: bool, format: Format, system: UnitSystem) -> u8 {
-    let (name, text) = match read_model(file) {
-        Ok(v) => v,
-        Err(msg) => {
-            eprintln!("error: {msg}");
-            return exit::USAGE;
-        }
-    };
-    let loader = loader::FsLoader::for_model(file);
-    let analysis = analyze(
-        &name,
-        &text,
-        &loader,
-        &Options {
-            check_only,
-            ..Options::default()
-        },
-    );
-    let colour = colour_on(std::io::stderr().is_terminal());
-    let rendered = render_diagnostics(&analysis.diagnostics, &analysis.sources, colour);
-    eprint!("{rendered}");
-    if analysis.has_errors() {
-        let n = analysis.diagnostics.iter().filter(|d| d.is_error()).count();
-        eprintln!(
-            "{name}: {n} error{} — nothing was solved",
-            if n == 1 { "" } else { "s" }
-        );
-        if matches!(format, Format::Json) && !check_only {
-            println!("{}", output::json(&analysis));
-        }
-        return exit::MODEL_ERROR;
-    }
-    if check_only {
-        let net = &analysis.network;
-        eprintln!(
-            "{name}: ok — {} nodes, {} links, {} limits",
-            net.nodes.len(),
-            net.links.len(),
-            analysis.limits.len()
-        );
-        return exit::OK;
-    }
-    print_solution(&analysis, format, system)
-}
-
-fn print_solution(analysis: &Analysis, format: Format, system: UnitSystem) -> u8 {
-    let Some(sol) = &analysis.solution else {
-        return exit::MODEL_ERROR;
-    };
-    let out = match format {
-        Format::Table => {
-            output::table(analysis, system, colour_on(std::io::stdout().is_terminal()))
-        }
-        Format::Json => output::json(analysis),
-        Format::Csv => output::csv(analysis, system),
-    };
-    print!("{out}");
-    if sol.limits.iter().any(|l| !l.passed) {
-        exit::LIMIT_FAILED
-    } else {
-        exit::OK
-    }
 }

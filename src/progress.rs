@@ -40,7 +40,7 @@ impl Progress {
         Progress {
             bar: None,
             started: Instant::now(),
-            enabled: std::io::stderr().is_terminal(),
+            enabled: std::io::stderr().is_terminal() && !crate::console::quiet(),
             message: message.into(),
         }
     }

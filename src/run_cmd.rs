@@ -229,7 +229,6 @@ pub fn default_nodes(a: &Analysis) -> Vec<usize> {
 }
 
 pub fn run(args: RunCli) -> u8 {
-    let units = args.units.system();
     let (name, text) = match read_model(&args.file) {
         Ok(v) => v,
         Err(msg) => return usage(msg),
@@ -266,6 +265,7 @@ pub fn run(args: RunCli) -> u8 {
             None => return exit::MODEL_ERROR,
         };
     }
+    let units = args.units.system_for(&a);
     let spec = match run_spec(&a, &args) {
         Ok(s) => s,
         Err(e) => return usage(e),

@@ -46,7 +46,6 @@ pub struct StudyCli {
 }
 
 pub fn study(args: StudyCli) -> u8 {
-    let units_system = args.units.system();
     let (name, text) = match read_model(&args.file) {
         Ok(v) => v,
         Err(msg) => return usage(msg),
@@ -133,6 +132,7 @@ pub fn study(args: StudyCli) -> u8 {
             return exit::MODEL_ERROR;
         }
     };
+    let units_system = args.units.system_for(&base);
     let units = AxisUnits::from_specs(&r, &args.sweep, units_system);
     let title = base.title.as_deref();
     let out = match args.format {

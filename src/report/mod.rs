@@ -11,12 +11,10 @@ mod svg;
 use crate::exit;
 use crate::loader::FsLoader;
 use caloris_compiler::render::render_diagnostics;
-use caloris_compiler::units::UnitSystem;
 use caloris_compiler::{analyze, Options};
-use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
 
-pub fn run(file: &PathBuf, dir: &Path, path: Option<&[String]>, system: UnitSystem) -> u8 {
+pub fn run(file: &PathBuf, dir: &Path, path: Option<&[String]>, units: crate::Units) -> u8 {
     let (name, text) = match crate::read_model(file) {
         Ok(v) => v,
         Err(msg) => {
@@ -30,14 +28,14 @@ pub fn run(file: &PathBuf, dir: &Path, path: Option<&[String]>, system: UnitSyst
         &FsLoader::for_model(file),
         &Options::default(),
     );
-    let colour = std::io::stderr().is_terminal()
-        && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty());
+    let colour = crate::console::stderr_colour();
     eprint!("{}", render_diagnostics(&a.diagnostics, &a.sources, colour));
     let Some(sol) = &a.solution else {
         eprintln!("{name}: the model has errors — no report written");
         return exit::MODEL_ERROR;
     };
     let net = &a.network;
+    let system = units.system_for(&a);
     let chosen = match path {
         Some(names) => match profile::named_path(net, names) {
             Ok(p) => Some((p, "the path given with `--path`".to_string())),

@@ -1,0 +1,177 @@
+//! End-to-end tests of the options every command shares (`--color`, `-q`, `--deny-warnings`,
+//! `--units auto`) and of `check`/`solve` over folders with `--set` and `--case`.
+
+use assert_cmd::Command;
+
+fn caloris(args: &[&str], env: &[(&str, &str)]) -> (i32, String, String) {
+    let mut c = Command::cargo_bin("caloris").expect("binary built");
+    c.current_dir(env!("CARGO_MANIFEST_DIR"));
+    c.env_remove("NO_COLOR").env_remove("TERM");
+    for (k, v) in env {
+        c.env(k, v);
+    }
+    let out = c.args(args).output().expect("runs");
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into_owned(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+const ESC: char = '\u{1b}';
+
+#[test]
+fn color_always_colours_a_pipe_and_never_or_term_dumb_do_not() {
+    let bad = "tests/cases/errors/unknown_names.heat";
+    let (_, _, err) = caloris(&["check", bad, "--color", "always"], &[]);
+    assert!(err.contains(ESC), "--color always must colour: {err}");
+    let (_, _, err) = caloris(&["check", bad, "--color", "never"], &[]);
+    assert!(!err.contains(ESC), "{err}");
+    // Not a terminal, so auto never colours here; TERM=dumb must not switch it on either.
+    let (_, _, err) = caloris(&["check", bad], &[("TERM", "dumb")]);
+    assert!(!err.contains(ESC), "{err}");
+    let (code, _, _) = caloris(&["check", bad, "--color", "sometimes"], &[]);
+    assert_eq!(code, 2);
+}
+
+#[test]
+fn a_failing_limit_is_summarised_on_stderr_with_its_name() {
+    let (code, _, err) = caloris(
+        &["solve", "tests/cases/reference/limits_pass_fail.heat"],
+        &[],
+    );
+    assert_eq!(code, 3);
+    let line = err
+        .lines()
+        .find(|l| l.contains("design limit"))
+        .unwrap_or_else(|| panic!("no summary line: {err}"));
+    assert!(line.contains(" of "), "{line}");
+    assert!(line.contains("fail:"), "{line}");
+}
+
+#[test]
+fn quiet_hides_warnings_and_status_but_not_errors() {
+    let warn = "tests/cases/reference/shell_critical_radius_cable.heat";
+    let (code, _, err) = caloris(&["check", warn], &[]);
+    assert_eq!(code, 0);
+    assert!(err.contains("W110"), "{err}");
+    assert!(err.contains("ok —"), "{err}");
+    let (code, _, err) = caloris(&["check", "-q", warn], &[]);
+    assert_eq!(code, 0);
+    assert!(
+        err.is_empty(),
+        "quiet must print nothing for a sound model: {err}"
+    );
+    let (code, _, err) = caloris(
+        &["check", "-q", "tests/cases/errors/unknown_names.heat"],
+        &[],
+    );
+    assert_eq!(code, 1);
+    assert!(err.contains("error"), "{err}");
+}
+
+#[test]
+fn deny_warnings_fails_a_model_with_warnings_only() {
+    let warn = "tests/cases/reference/shell_critical_radius_cable.heat";
+    let (code, _, err) = caloris(&["check", "--deny-warnings", warn], &[]);
+    assert_eq!(code, 1, "{err}");
+    assert!(err.contains("1 warning denied"), "{err}");
+    let (code, _, _) = caloris(&["solve", "--deny-warnings", warn], &[]);
+    assert_eq!(code, 1);
+    let (code, _, _) = caloris(&["check", "--deny-warnings", "examples/led_lamp.heat"], &[]);
+    assert_eq!(code, 0);
+}
+
+#[test]
+fn check_takes_folders_and_reports_every_model() {
+    let (code, _, err) = caloris(&["check", "examples"], &[]);
+    assert_eq!(code, 0, "{err}");
+    let n_examples = std::fs::read_dir(concat!(env!("CARGO_MANIFEST_DIR"), "/examples"))
+        .expect("examples")
+        .flatten()
+        .filter(|e| e.path().extension().is_some_and(|x| x == "heat"))
+        .count();
+    assert_eq!(err.matches(": ok — ").count(), n_examples, "{err}");
+    // The worst outcome decides the exit code: a model with errors among sound ones gives 1.
+    let (code, _, _) = caloris(
+        &[
+            "check",
+            "examples/led_lamp.heat",
+            "tests/cases/errors/unknown_names.heat",
+        ],
+        &[],
+    );
+    assert_eq!(code, 1);
+}
+
+#[test]
+fn solve_applies_a_case_and_a_setting() {
+    let tank = "examples/hot_water_tank_jacket.heat";
+    let json = |args: &[&str]| -> serde_json::Value {
+        let mut all = vec!["solve", tank, "--format", "json"];
+        all.extend_from_slice(args);
+        let (code, out, err) = caloris(&all, &[]);
+        assert!(code == 0 || code == 3, "{err}");
+        serde_json::from_str(&out).expect("json")
+    };
+    let boundary = |v: &serde_json::Value| -> f64 {
+        v["nodes"]
+            .as_array()
+            .expect("nodes")
+            .iter()
+            .filter_map(|n| n["boundary_heat_W"].as_f64())
+            .map(f64::abs)
+            .fold(0.0, f64::max)
+    };
+    let base = boundary(&json(&[]));
+    let cold = boundary(&json(&["--case", "cold_cupboard"]));
+    let set = boundary(&json(&["--set", "cupboard=12°C"]));
+    // A colder cupboard draws more heat from the tank; the case and the setting are the same change.
+    assert!(cold > base, "{cold} vs {base}");
+    assert!((cold - set).abs() <= 1e-9 * cold, "{cold} vs {set}");
+    let (code, _, err) = caloris(&["solve", tank, "--case", "hot_attic"], &[]);
+    assert_eq!(code, 2);
+    assert!(err.contains("cold_cupboard"), "{err}");
+}
+
+#[test]
+fn several_models_as_json_give_one_array() {
+    let (code, out, err) = caloris(
+        &[
+            "solve",
+            "examples/led_lamp.heat",
+            "examples/garden_office_wall.heat",
+            "--format",
+            "json",
+        ],
+        &[],
+    );
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).expect("one JSON value");
+    assert_eq!(v.as_array().map(Vec::len), Some(2));
+}
+
+#[test]
+fn units_auto_follows_the_model() {
+    let (code, out, _) = caloris(
+        &[
+            "solve",
+            "tests/cases/reference/us_units.heat",
+            "--units",
+            "auto",
+        ],
+        &[],
+    );
+    assert!(code == 0 || code == 3);
+    assert!(out.contains("°F"), "{out}");
+    let (_, out, _) = caloris(
+        &[
+            "solve",
+            "examples/garden_office_wall.heat",
+            "--units",
+            "auto",
+        ],
+        &[],
+    );
+    assert!(out.contains("°C") && !out.contains("°F"), "{out}");
+}
