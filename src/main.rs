@@ -3,6 +3,7 @@
 mod console;
 mod diff_cmd;
 mod diff_render;
+mod explain_cmd;
 mod files;
 mod fmt_cmd;
 mod git_rev;
@@ -102,6 +103,11 @@ enum Command {
         #[arg(long, value_enum, default_value_t = Units::Si)]
         units: Units,
     },
+    /// Explain a diagnostic code (`caloris explain E202`): what it means and how to fix it.
+    Explain {
+        /// A code such as `E202` or `W110`.
+        code: String,
+    },
     /// Run the language server on standard input and output (for editors; see docs/lsp.md).
     Lsp,
     /// Run a model through time (node capacities, schedules) and report temperatures, crossings,
@@ -178,6 +184,7 @@ fn main() -> ExitCode {
             path,
             units,
         } => report::run(&file, &out, path.as_deref(), units),
+        Command::Explain { code } => explain_cmd::run(&code),
         Command::Lsp => match caloris_lsp::run_stdio() {
             Ok(()) => exit::OK,
             Err(e) => {

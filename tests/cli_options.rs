@@ -175,3 +175,54 @@ fn units_auto_follows_the_model() {
     );
     assert!(out.contains("°C") && !out.contains("°F"), "{out}");
 }
+
+/// Every code string in the compiler's source, e.g. `"E202"`.
+fn codes_in(dir: &std::path::Path, out: &mut Vec<String>) {
+    for e in std::fs::read_dir(dir).expect("source folder").flatten() {
+        let p = e.path();
+        if p.is_dir() {
+            codes_in(&p, out);
+        } else if p.extension().is_some_and(|x| x == "rs") {
+            let text = std::fs::read_to_string(&p).expect("source");
+            let b = text.as_bytes();
+            for i in 0..b.len().saturating_sub(5) {
+                let code = &b[i + 1..i + 5];
+                if b[i] == b'"'
+                    && b[i + 5] == b'"'
+                    && (code[0] == b'E' || code[0] == b'W')
+                    && code[1..].iter().all(u8::is_ascii_digit)
+                {
+                    out.push(String::from_utf8_lossy(code).into_owned());
+                }
+            }
+        }
+    }
+}
+
+#[test]
+fn explain_knows_every_code_the_compiler_emits() {
+    let mut codes = Vec::new();
+    codes_in(
+        &std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("compiler/src"),
+        &mut codes,
+    );
+    codes.sort();
+    codes.dedup();
+    assert!(codes.len() > 40, "{codes:?}");
+    for c in &codes {
+        let (code, out, err) = caloris(&["explain", c], &[]);
+        assert_eq!(
+            code, 0,
+            "`caloris explain {c}` failed (document it in docs/diagnostics.md): {err}"
+        );
+        assert!(
+            out.starts_with(c.as_str()) && out.contains("How to fix it:"),
+            "{out}"
+        );
+    }
+    let (code, _, err) = caloris(&["explain", "e2020"], &[]);
+    assert_eq!(code, 2);
+    assert!(err.contains("did you mean"), "{err}");
+    let (_, out, _) = caloris(&["explain", "e202"], &[]);
+    assert!(out.contains("not positive"), "{out}");
+}
