@@ -28,9 +28,9 @@ pub struct RunCli {
     /// Use a fixed step, e.g. `30s` (the default is the automatic step).
     #[arg(long)]
     step: Option<String>,
-    /// Interval between reported times, e.g. `15min`.
-    #[arg(long)]
-    output: Option<String>,
+    /// Report every so often, e.g. `--every 15min` (the model's `output` interval otherwise).
+    #[arg(long, value_name = "INTERVAL")]
+    every: Option<String>,
     /// Report at these times instead, e.g. `--at 30min,2h,5.5h` (the start and end are always
     /// reported).
     #[arg(long, value_name = "TIMES")]
@@ -153,7 +153,7 @@ fn run_spec(a: &Analysis, args: &RunCli) -> Result<RunSpec, String> {
     if let Some(s) = time_arg(&args.step, "step")? {
         spec.step = Some(s);
     }
-    if let Some(o) = time_arg(&args.output, "output")? {
+    if let Some(o) = time_arg(&args.every, "every")? {
         spec.output = Some(o);
     }
     if let Some(t) = &args.tolerance {

@@ -226,3 +226,24 @@ fn explain_knows_every_code_the_compiler_emits() {
     let (_, out, _) = caloris(&["explain", "e202"], &[]);
     assert!(out.contains("not positive"), "{out}");
 }
+
+#[test]
+fn run_reports_every_interval_and_the_old_option_is_gone() {
+    let model = "examples/allotment_standpipe_frost.heat";
+    let (code, out, err) = caloris(&["run", model, "--every", "1h", "--format", "json"], &[]);
+    assert!(code == 0 || code == 3, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).expect("json");
+    let times: Vec<f64> = v["times_s"]
+        .as_array()
+        .expect("a list of reported times")
+        .iter()
+        .filter_map(serde_json::Value::as_f64)
+        .collect();
+    assert!(times.len() >= 3, "{times:?}");
+    // Reported times sit on the hour (the end of the run may fall between).
+    for t in &times[..times.len() - 1] {
+        assert!((t / 3600.0 - (t / 3600.0).round()).abs() < 1e-9, "{t}");
+    }
+    let (code, _, _) = caloris(&["run", model, "--output", "1h"], &[]);
+    assert_eq!(code, 2);
+}
