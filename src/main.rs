@@ -62,10 +62,19 @@ struct Cli {
 #[derive(Subcommand)]
 enum Command {
     /// Check a model's syntax, units and connectivity without solving it.
+    #[command(
+        after_help = "Examples:\n  caloris check examples/garden_office_wall.heat\n  caloris check examples/                  # every model in a folder\n  caloris check model.heat --case winter --deny-warnings"
+    )]
     Check(solve_cmd::ModelArgs),
     /// Solve a model and report temperatures, heat flows and limit checks.
+    #[command(
+        after_help = "Examples:\n  caloris solve examples/garden_office_wall.heat\n  caloris solve model.heat --format json > results.json\n  caloris solve model.heat --set t_out=-12°C --units us"
+    )]
     Solve(solve_cmd::SolveCli),
     /// Rewrite model files in the one canonical layout (comments and blank lines kept).
+    #[command(
+        after_help = "Examples:\n  caloris fmt examples/\n  caloris fmt --check .                    # for CI: lists files that would change"
+    )]
     Fmt {
         /// Model files or folders of them (`-` formats standard input to standard output).
         #[arg(required = true)]
@@ -75,6 +84,9 @@ enum Command {
         check: bool,
     },
     /// Show how results move between two versions of a model: `diff OLD NEW` or `diff --rev REV FILE`.
+    #[command(
+        after_help = "Examples:\n  caloris diff old.heat new.heat\n  caloris diff --rev HEAD~1 model.heat --format markdown"
+    )]
     Diff {
         /// OLD and NEW model files, or with --rev the one model file.
         #[arg(required = true, num_args = 1..=2, value_name = "FILE")]
@@ -90,6 +102,9 @@ enum Command {
         units: Units,
     },
     /// Write a Markdown report with figures: DIR/report.md, DIR/profile.svg, DIR/network.svg.
+    #[command(
+        after_help = "Examples:\n  caloris report examples/garden_office_wall.heat -o report/"
+    )]
     Report {
         /// Model file (`-` reads standard input).
         file: PathBuf,
@@ -104,16 +119,30 @@ enum Command {
         units: Units,
     },
     /// Explain a diagnostic code (`caloris explain E202`): what it means and how to fix it.
+    #[command(after_help = "Examples:\n  caloris explain E202\n  caloris explain W110")]
     Explain {
         /// A code such as `E202` or `W110`.
         code: String,
     },
+    /// Print a shell completion script: `caloris completions bash > /etc/bash_completion.d/caloris`.
+    Completions {
+        /// The shell to complete in.
+        shell: clap_complete::Shell,
+    },
+    /// Print the manual page (roff): `caloris manpage > caloris.1 && man ./caloris.1`.
+    Manpage,
     /// Run the language server on standard input and output (for editors; see docs/lsp.md).
     Lsp,
     /// Run a model through time (node capacities, schedules) and report temperatures, crossings,
     /// limits over the run and the energy balance.
+    #[command(
+        after_help = "Examples:\n  caloris run examples/allotment_standpipe_frost.heat --plot frost.svg\n  caloris run model.heat --every 30min --cross water=0°C"
+    )]
     Run(Box<run_cmd::RunCli>),
     /// Solve a model over a sweep of parameters and/or its named cases, checking every limit.
+    #[command(
+        after_help = "Examples:\n  caloris study examples/hot_water_tank_jacket.heat\n  caloris study model.heat --sweep jacket=10mm..80mm:8"
+    )]
     Study(Box<study_cmd::StudyCli>),
 }
 
@@ -185,6 +214,19 @@ fn main() -> ExitCode {
             units,
         } => report::run(&file, &out, path.as_deref(), units),
         Command::Explain { code } => explain_cmd::run(&code),
+        Command::Completions { shell } => {
+            let mut cmd = <Cli as clap::CommandFactory>::command();
+            clap_complete::generate(shell, &mut cmd, "caloris", &mut std::io::stdout());
+            exit::OK
+        }
+        Command::Manpage => {
+            let cmd = <Cli as clap::CommandFactory>::command();
+            match clap_mangen::Man::new(cmd).render(&mut std::io::stdout()) {
+                Ok(()) => exit::OK,
+                Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => exit::OK,
+                Err(e) => usage(format!("cannot write the manual page: {e}")),
+            }
+        }
         Command::Lsp => match caloris_lsp::run_stdio() {
             Ok(()) => exit::OK,
             Err(e) => {

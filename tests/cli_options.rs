@@ -247,3 +247,38 @@ fn run_reports_every_interval_and_the_old_option_is_gone() {
     let (code, _, _) = caloris(&["run", model, "--output", "1h"], &[]);
     assert_eq!(code, 2);
 }
+
+#[test]
+fn completions_and_the_manual_page_come_from_the_command_definitions() {
+    let (code, out, err) = caloris(&["completions", "bash"], &[]);
+    assert_eq!(code, 0, "{err}");
+    for word in ["solve", "explain", "--deny-warnings", "--every"] {
+        assert!(out.contains(word), "bash completion lacks {word}");
+    }
+    let (code, out, _) = caloris(&["completions", "zsh"], &[]);
+    assert_eq!(code, 0);
+    assert!(out.contains("#compdef caloris"), "{out}");
+    let (code, out, _) = caloris(&["manpage"], &[]);
+    assert_eq!(code, 0);
+    assert!(
+        out.starts_with(".ie") || out.contains(".TH caloris"),
+        "{}",
+        &out[..200.min(out.len())]
+    );
+    assert!(out.contains("solve"), "the manual lists the commands");
+}
+
+#[test]
+fn every_command_help_ends_with_examples() {
+    for cmd in [
+        "check", "solve", "fmt", "diff", "report", "explain", "run", "study",
+    ] {
+        let (code, out, _) = caloris(&[cmd, "--help"], &[]);
+        assert_eq!(code, 0);
+        let tail = out
+            .split("Examples:")
+            .nth(1)
+            .unwrap_or_else(|| panic!("{cmd}: {out}"));
+        assert!(tail.contains(&format!("caloris {cmd} ")), "{cmd}: {tail}");
+    }
+}
