@@ -530,7 +530,7 @@ def fin_charger_heatsink():
         "Fins from a fixed base to fixed air: straight rectangular and pin, adiabatic and convective tips, one link of 14 fins in parallel, and a fin on a loaded free node.",
         [
             "fin heat rate, closed-form solutions of the fin equation (convective tip and adiabatic tip), m = √(hP/(kA_c))",
-            f"scipy {scipy.__version__} scipy.integrate.solve_bvp of the fin equation k·A_c·θ'' = h·P·θ with each tip condition; agrees with Table 3.4 to 1e-7 (checked by the generator)",
+            f"scipy {scipy.__version__} scipy.integrate.solve_bvp of the fin equation k·A_c·θ'' = h·P·θ with each tip condition; agrees with the closed-form fin solutions to 1e-7 (checked by the generator)",
             "energy balance: the charger's load leaves through the fins and the base plate's film",
         ],
     )
