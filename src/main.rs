@@ -7,6 +7,7 @@ mod explain_cmd;
 mod files;
 mod fmt_cmd;
 mod git_rev;
+mod init_cmd;
 mod loader;
 mod output;
 mod plot;
@@ -124,6 +125,17 @@ enum Command {
         /// A code such as `E202` or `W110`.
         code: String,
     },
+    /// Start a model from a template: `caloris init wall` writes wall.heat (`-` prints it).
+    #[command(
+        after_help = "Examples:\n  caloris init wall\n  caloris init pipe boiler_room/flow_pipe.heat\n  caloris init part - | less"
+    )]
+    Init {
+        /// Which template.
+        #[arg(value_enum)]
+        template: init_cmd::Template,
+        /// File to write (default: TEMPLATE.heat in the current folder); never overwritten.
+        file: Option<PathBuf>,
+    },
     /// Print a shell completion script: `caloris completions bash > /etc/bash_completion.d/caloris`.
     Completions {
         /// The shell to complete in.
@@ -214,6 +226,7 @@ fn main() -> ExitCode {
             units,
         } => report::run(&file, &out, path.as_deref(), units),
         Command::Explain { code } => explain_cmd::run(&code),
+        Command::Init { template, file } => init_cmd::run(template, file),
         Command::Completions { shell } => {
             let mut cmd = <Cli as clap::CommandFactory>::command();
             clap_complete::generate(shell, &mut cmd, "caloris", &mut std::io::stdout());

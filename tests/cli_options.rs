@@ -282,3 +282,30 @@ fn every_command_help_ends_with_examples() {
         assert!(tail.contains(&format!("caloris {cmd} ")), "{cmd}: {tail}");
     }
 }
+
+#[test]
+fn init_writes_each_template_once_and_it_checks_solves_and_is_formatted() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    for t in ["wall", "pipe", "part"] {
+        let path = dir.path().join(format!("{t}.heat"));
+        let p = path.to_str().expect("utf-8 path");
+        let (code, _, err) = caloris(&["init", t, p], &[]);
+        assert_eq!(code, 0, "{err}");
+        let text = std::fs::read_to_string(&path).expect("written");
+        assert!(text.contains("CAUTION"), "{t}: templates carry the caution");
+        let (code, out, err) = caloris(&["solve", p], &[]);
+        assert_eq!(
+            code, 0,
+            "{t} must solve with every limit passing: {out}{err}"
+        );
+        assert!(!err.contains("warning"), "{t}: {err}");
+        let (code, _, err) = caloris(&["fmt", "--check", p], &[]);
+        assert_eq!(code, 0, "{t} must be in canonical layout: {err}");
+        // A second init must not replace the analyst's file.
+        std::fs::write(&path, "# mine\n").expect("write");
+        let (code, _, err) = caloris(&["init", t, p], &[]);
+        assert_eq!(code, 2);
+        assert!(err.contains("already exists"), "{err}");
+        assert_eq!(std::fs::read_to_string(&path).expect("kept"), "# mine\n");
+    }
+}
