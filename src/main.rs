@@ -9,6 +9,7 @@ mod fmt_cmd;
 mod git_rev;
 mod init_cmd;
 mod loader;
+mod materials_cmd;
 mod output;
 mod plot;
 mod progress;
@@ -136,6 +137,12 @@ enum Command {
         /// File to write (default: TEMPLATE.heat in the current folder); never overwritten.
         file: Option<PathBuf>,
     },
+    /// List the built-in material library (`import "caloris:materials"`), or search it.
+    #[command(after_help = "Examples:\n  caloris materials\n  caloris materials wool")]
+    Materials {
+        /// Show only materials whose name or note contains this text.
+        search: Option<String>,
+    },
     /// Print a shell completion script: `caloris completions bash > /etc/bash_completion.d/caloris`.
     Completions {
         /// The shell to complete in.
@@ -227,6 +234,7 @@ fn main() -> ExitCode {
         } => report::run(&file, &out, path.as_deref(), units),
         Command::Explain { code } => explain_cmd::run(&code),
         Command::Init { template, file } => init_cmd::run(template, file),
+        Command::Materials { search } => materials_cmd::run(search.as_deref()),
         Command::Completions { shell } => {
             let mut cmd = <Cli as clap::CommandFactory>::command();
             clap_complete::generate(shell, &mut cmd, "caloris", &mut std::io::stdout());

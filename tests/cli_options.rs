@@ -309,3 +309,52 @@ fn init_writes_each_template_once_and_it_checks_solves_and_is_formatted() {
         assert_eq!(std::fs::read_to_string(&path).expect("kept"), "# mine\n");
     }
 }
+
+#[test]
+fn the_material_library_is_built_in_and_importable_from_any_folder() {
+    let (code, out, err) = caloris(&["materials"], &[]);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        out.contains("mineral_wool") && out.contains("not design values"),
+        "{out}"
+    );
+    let (code, out, _) = caloris(&["materials", "WOOL"], &[]);
+    assert_eq!(code, 0);
+    assert!(
+        out.contains("glass_wool") && !out.contains("softwood"),
+        "{out}"
+    );
+    let (code, _, _) = caloris(&["materials", "unobtainium"], &[]);
+    assert_eq!(code, 2);
+    // A model in a folder far from the repository imports it by name.
+    let dir = tempfile::tempdir().expect("temp dir");
+    let model = dir.path().join("shed.heat");
+    std::fs::write(
+        &model,
+        "import \"caloris:materials\"\nnode room (fixed = 20 °C)\nnode out (fixed = 0 °C)\n\
+         link wall: room to out layer(mineral_wool, thickness = 100 mm, area = 1 m^2)\n",
+    )
+    .expect("write");
+    let (code, out, err) = caloris(
+        &["solve", model.to_str().expect("utf-8"), "--format", "json"],
+        &[],
+    );
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).expect("json");
+    let q = v["links"][0]["heat_flow_W"].as_f64().expect("flow");
+    // Fourier's law: q = k·A·ΔT/L with the library's k = 0.037 W/(m·K) for mineral wool.
+    assert!((q - 0.037 * 1.0 * 20.0 / 0.1).abs() < 1e-9, "{q}");
+    std::fs::write(&model, "import \"caloris:metals\"\n").expect("write");
+    let (code, _, err) = caloris(&["check", model.to_str().expect("utf-8")], &[]);
+    assert_eq!(code, 1);
+    assert!(
+        err.contains("E601") && err.contains("caloris:materials"),
+        "{err}"
+    );
+}
+
+#[test]
+fn the_library_file_is_in_canonical_layout() {
+    let (code, out, err) = caloris(&["fmt", "--check", "library/materials.heat"], &[]);
+    assert_eq!(code, 0, "{out}{err}");
+}

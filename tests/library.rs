@@ -27,7 +27,7 @@ fn every_library_material_is_complete_and_marked() {
         );
         // The declaration's last line carries its mark.
         let decl_end = text[m.span.start as usize..]
-            .find(")  #")
+            .find(")  ")
             .map(|i| m.span.start as usize + i)
             .expect("a comment after the declaration");
         let line_end = text[decl_end..]

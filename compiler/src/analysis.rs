@@ -205,7 +205,9 @@ fn load_module(
     modules.push((id, module));
     let from = sources.name(id).to_string();
     for (path, span) in imports {
-        match loader.load(&from, &path) {
+        // Built-in libraries come from the compiler itself, the same for every caller.
+        let loaded = crate::library::resolve(&path).unwrap_or_else(|| loader.load(&from, &path));
+        match loaded {
             Ok((name, text)) => {
                 if stack.contains(&name) {
                     let chain = stack

@@ -16,6 +16,7 @@ pub mod expand;
 pub mod format;
 pub mod laws;
 pub mod lexer;
+pub mod library;
 pub mod limits;
 pub mod network;
 pub mod nonlinear;
