@@ -151,6 +151,15 @@ pub struct Plan {
 
 fn count(a: &Args, name: &str) -> Result<usize, Diagnostic> {
     let v = a.require(name, "cells_x = 20")?;
+    if !(1.0..=MAX_CELLS as f64).contains(&v) {
+        return Err(Diagnostic::error(
+            "E216",
+            format!("`{name}` must be a whole number from 1 to {MAX_CELLS}; {v} is not"),
+            a.span(name),
+        )
+        .with_label("not a usable number of cells")
+        .with_help("give the number of cells, e.g. `cells_x = 20`; check the number for a slip"));
+    }
     if v.fract() != 0.0 {
         return Err(Diagnostic::error(
             "E216",
