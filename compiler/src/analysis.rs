@@ -15,6 +15,8 @@ use crate::span::{FileId, Span};
 use crate::symbols::SymbolTable;
 use crate::syntax::{ItemKind, Module};
 use crate::units::Quantity;
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::Arc;
 
 /// Options of one analysis.
 #[derive(Clone, Debug, Default)]
@@ -25,6 +27,18 @@ pub struct Options {
     pub overrides: Vec<(String, Quantity)>,
     /// Most Newton steps a nonlinear solve may take (default 60).
     pub newton_max_iterations: Option<usize>,
+    /// Most declarations and region cells the model may make once expanded (default
+    /// [`crate::budget::MODEL_BUDGET`]; the editor may ask for less).
+    pub size_budget: Option<u64>,
+    /// Set by the caller to stop the analysis early (a newer edit supersedes it); a stopped
+    /// analysis has `cancelled` set and no solution.
+    pub cancel: Option<Arc<AtomicBool>>,
+}
+
+impl Options {
+    fn cancelled(&self) -> bool {
+        self.cancel.as_ref().is_some_and(|c| c.load(Ordering::Relaxed))
+    }
 }
 
 /// Everything known about a model after analysis.
@@ -43,6 +57,8 @@ pub struct Analysis {
     pub solution: Option<Solution>,
     /// Transient runs and cases the model declares.
     pub studies: crate::transient::model::Studies,
+    /// The caller stopped the analysis before it finished (see [`Options::cancel`]).
+    pub cancelled: bool,
 }
 
 impl Analysis {
@@ -81,8 +97,9 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
             )
         })
     });
+    let budget = options.size_budget.unwrap_or(crate::budget::MODEL_BUDGET);
     let expanded = if needs_expansion {
-        crate::expand::expand_modules(&module_refs, &options.overrides)
+        crate::expand::expand_modules(&module_refs, &options.overrides, budget, options.cancel.as_deref())
     } else {
         crate::expand::Expanded {
             modules: Vec::new(),
@@ -91,7 +108,15 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
         }
     };
     diagnostics.extend(expanded.diags);
-    let module_refs: Vec<&Module> = if needs_expansion {
+    if !needs_expansion {
+        diagnostics.extend(crate::expand::check_budget(&module_refs, &options.overrides, budget));
+    }
+    // A model past its size budget is not built at all: elaborating what was expanded before
+    // the refusal would only add echoes of the missing part.
+    let over_budget = diagnostics.iter().any(|d| d.code == "E220");
+    let module_refs: Vec<&Module> = if over_budget || options.cancelled() {
+        Vec::new()
+    } else if needs_expansion {
         expanded.modules.iter().collect()
     } else {
         module_refs
@@ -111,7 +136,7 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
             .filter(|d| !(expansion_failed && d.code == "W102")),
     );
     crate::expand::dedup_copies(&mut diagnostics, &expanded.bodies);
-    if has_syntax_errors {
+    if has_syntax_errors || over_budget {
         // A declaration lost to a syntax error leaves nodes unlinked; reporting them as floating
         // would bury the real mistake under its echoes.
         diagnostics.retain(|d| !matches!(d.code, "E301" | "E302" | "W102"));
@@ -130,7 +155,12 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
         params: el.params,
         solution: None,
         studies: el.studies,
+        cancelled: false,
     };
+    if options.cancelled() {
+        analysis.cancelled = true;
+        return analysis;
+    }
     if !analysis.has_errors()
         && !options.check_only
         && !analysis.network.links.iter().all(|l| l.law.is_linear())
@@ -182,6 +212,9 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     analysis
 }
 
+/// Longest chain of imports (model → file → file ...).
+pub const MAX_IMPORT_DEPTH: usize = 64;
+
 /// Parse a file and, depth first, the files it imports. `stack` holds the chain of files being
 /// imported, to report cycles.
 fn load_module(
@@ -205,6 +238,16 @@ fn load_module(
     modules.push((id, module));
     let from = sources.name(id).to_string();
     for (path, span) in imports {
+        if stack.len() > MAX_IMPORT_DEPTH {
+            // A chain this long is a cycle the names did not reveal (a folder linked into
+            // itself), or a mistake; either way it must end.
+            diags.push(
+                Diagnostic::error("E602", format!("imports nest more than {MAX_IMPORT_DEPTH} files deep"), span)
+                    .with_label("this import is one too many")
+                    .with_help("the chain probably leads back to itself through a linked folder; import the shared file once, from the model"),
+            );
+            break;
+        }
         // Built-in libraries come from the compiler itself, the same for every caller.
         let loaded = crate::library::resolve(&path).unwrap_or_else(|| loader.load(&from, &path));
         match loaded {

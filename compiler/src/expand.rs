@@ -11,12 +11,14 @@
 // split the element API.
 #![allow(clippy::result_large_err)]
 
+use crate::budget::{over_budget, Counter};
 use crate::diagnostic::{did_you_mean, Diagnostic};
 use crate::eval::{Evaluator, NameKinds};
 use crate::span::Span;
 use crate::syntax::*;
 use crate::units::{Dim, Quantity};
 use std::collections::{HashMap, HashSet};
+use std::sync::atomic::{AtomicBool, Ordering};
 
 /// Most copies one repetition may make, so a typing slip cannot exhaust memory.
 pub const MAX_COPIES: usize = 100_000;
@@ -39,7 +41,12 @@ impl NameKinds for NoKinds {
 }
 
 /// Expand every `repeat` and `use` of the given modules (the root first, then imports).
-pub fn expand_modules(modules: &[&Module], overrides: &[(String, Quantity)]) -> Expanded {
+pub fn expand_modules(
+    modules: &[&Module],
+    overrides: &[(String, Quantity)],
+    budget: u64,
+    cancel: Option<&AtomicBool>,
+) -> Expanded {
     let mut networks: HashMap<String, (&Item, &Vec<Ident>, &Vec<Item>)> = HashMap::new();
     let mut params = Vec::new();
     for m in modules {
@@ -59,11 +66,20 @@ pub fn expand_modules(modules: &[&Module], overrides: &[(String, Quantity)]) -> 
     for (n, q) in overrides {
         ev.set_override(n, *q);
     }
+    let bodies_of = networks
+        .iter()
+        .map(|(k, (_, _, body))| (k.clone(), body.as_slice()))
+        .collect();
     let mut x = Expander {
         networks,
+        bodies_of,
         ev,
         diags: Vec::new(),
         bodies: Vec::new(),
+        made: 0,
+        budget,
+        over: false,
+        cancel,
     };
     let out = modules
         .iter()
@@ -81,6 +97,41 @@ pub fn expand_modules(modules: &[&Module], overrides: &[(String, Quantity)]) -> 
     }
 }
 
+/// The budget check for a model with nothing to expand: its regions' cells and its plain
+/// declarations together must stay within [`MODEL_BUDGET`] (E220 at the region that crosses it).
+pub fn check_budget(
+    modules: &[&Module],
+    overrides: &[(String, Quantity)],
+    budget: u64,
+) -> Option<Diagnostic> {
+    let params = modules.iter().flat_map(|m| &m.items).filter_map(|i| match &i.kind {
+        ItemKind::Param { name, value } => Some((name, value)),
+        _ => None,
+    });
+    let mut ev = Evaluator::new(params);
+    for (n, q) in overrides {
+        ev.set_override(n, *q);
+    }
+    let mut count = |e: &Expr| {
+        let n = ev.diags.len();
+        let q = ev.eval(e, &NoKinds);
+        ev.diags.truncate(n);
+        q.filter(|q| q.dim == Dim::NONE).map(|q| q.value)
+    };
+    let networks = HashMap::new();
+    let mut counter = Counter::new(&networks, &mut count);
+    let mut made: u64 = 0;
+    for item in modules.iter().flat_map(|m| &m.items) {
+        let size = counter.item(item, MAX_DEPTH);
+        if made.saturating_add(size.total) > budget {
+            let span = item.name().map(|n| n.span).unwrap_or(item.span);
+            return Some(over_budget("region", span, &size, made, budget));
+        }
+        made += size.total;
+    }
+    None
+}
+
 /// Keep one of each diagnostic (same code, same place) raised inside a repeated body.
 pub fn dedup_copies(diags: &mut Vec<Diagnostic>, bodies: &[Span]) {
     let mut seen = HashSet::new();
@@ -95,15 +146,69 @@ pub fn dedup_copies(diags: &mut Vec<Diagnostic>, bodies: &[Span]) {
 
 struct Expander<'a> {
     networks: HashMap<String, (&'a Item, &'a Vec<Ident>, &'a Vec<Item>)>,
+    /// Each sub-network's body, for counting what a `use` would make.
+    bodies_of: HashMap<String, &'a [Item]>,
     ev: Evaluator<'a>,
     diags: Vec<Diagnostic>,
     bodies: Vec<Span>,
+    /// Declarations and region cells made so far, against [`MODEL_BUDGET`].
+    made: u64,
+    /// Most declarations and region cells the model may make.
+    budget: u64,
+    /// Set once the budget is refused (or the caller cancelled): nothing more is expanded.
+    over: bool,
+    cancel: Option<&'a AtomicBool>,
 }
 
 impl Expander<'_> {
+    /// Whether expanding `item` keeps the model within its budget; reports E220 when not. A
+    /// region's cells count as made at once (a repeat's and a use's as their copies are made).
+    fn within_budget(&mut self, item: &Item, depth: usize) -> bool {
+        let ev = &mut self.ev;
+        let mut count = |e: &Expr| {
+            // Counting must not report: a count that needs a copy's `index` is unknown here
+            // and is reported, if wrong, when the copy is expanded.
+            let n = ev.diags.len();
+            let q = ev.eval(e, &NoKinds);
+            ev.diags.truncate(n);
+            q.filter(|q| q.dim == Dim::NONE).map(|q| q.value)
+        };
+        let size = Counter::new(&self.bodies_of, &mut count).item(item, MAX_DEPTH - depth);
+        let fits = self.made.saturating_add(size.total) <= self.budget;
+        if !fits {
+            let (what, span) = match &item.kind {
+                ItemKind::Repeat { name, .. } => ("`repeat`", name.span),
+                ItemKind::Use { name, .. } => ("`use`", name.span),
+                ItemKind::Region { name, .. } => ("region", name.span),
+                _ => ("block", item.span),
+            };
+            self.diags
+                .push(over_budget(what, span, &size, self.made, self.budget));
+            self.over = true;
+        } else if matches!(item.kind, ItemKind::Region { .. }) {
+            self.made += size.total - 1;
+        }
+        fits
+    }
+
     fn items(&mut self, items: &[Item], depth: usize) -> Vec<Item> {
         let mut out = Vec::new();
         for item in items {
+            if self.over {
+                break;
+            }
+            if self.cancel.is_some_and(|c| c.load(Ordering::Relaxed)) {
+                self.over = true;
+                break;
+            }
+            if matches!(
+                item.kind,
+                ItemKind::Repeat { .. } | ItemKind::Use { .. } | ItemKind::Region { .. }
+            ) && depth < MAX_DEPTH
+                && !self.within_budget(item, depth)
+            {
+                break;
+            }
             match &item.kind {
                 ItemKind::Network { .. } => {}
                 ItemKind::Repeat { .. } | ItemKind::Use { .. } if depth >= MAX_DEPTH => {
@@ -145,7 +250,10 @@ impl Expander<'_> {
                         out.extend(self.items(&copy, depth + 1));
                     }
                 }
-                _ => out.push(item.clone()),
+                _ => {
+                    self.made += 1;
+                    out.push(item.clone());
+                }
             }
         }
         out

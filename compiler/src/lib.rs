@@ -6,6 +6,7 @@
 //! [`limits`]) → [`network`] → [`solve`] → [`results`]; [`analysis::analyze`] runs it all.
 
 pub mod analysis;
+pub mod budget;
 pub mod compare;
 pub mod conductivity;
 pub mod diagnostic;
@@ -21,6 +22,7 @@ pub mod limits;
 pub mod network;
 pub mod nonlinear;
 pub mod parser;
+pub mod project_files;
 pub mod query;
 pub mod radial;
 pub mod region;
