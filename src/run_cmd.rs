@@ -165,6 +165,14 @@ fn run_spec(a: &Analysis, args: &RunCli) -> Result<RunSpec, String> {
         }
         spec.tolerance = Some(q.value);
     }
+    if let Some(o) = spec.output {
+        if spec.duration / o > caloris_compiler::transient::MAX_OUTPUTS as f64 {
+            return Err(format!(
+                "reporting every {o} s would report the run more than {} times; give a longer --every",
+                caloris_compiler::transient::MAX_OUTPUTS
+            ));
+        }
+    }
     if let Some(h) = spec.step {
         if spec.duration / h > caloris_compiler::transient::MAX_STEPS as f64 {
             return Err(format!(

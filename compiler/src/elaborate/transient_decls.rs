@@ -766,6 +766,28 @@ impl Cx<'_> {
                 return;
             }
         }
+        if let Some(every) = spec.output {
+            if spec.duration / every > crate::transient::MAX_OUTPUTS as f64 {
+                let span = args
+                    .iter()
+                    .find(|a| a.name.as_ref().is_some_and(|n| n.name == "output"))
+                    .map(|a| a.value.span)
+                    .unwrap_or(name.span);
+                self.diags.push(
+                    Diagnostic::error(
+                        "E708",
+                        format!(
+                            "an `output` interval this short would report the run more than {} times",
+                            crate::transient::MAX_OUTPUTS
+                        ),
+                        span,
+                    )
+                    .with_label("too many reported times")
+                    .with_help("lengthen `output` (e.g. `output = 1 min` for a run of hours), or leave it out for 100 reports"),
+                );
+                return;
+            }
+        }
         if ok {
             self.timed.studies.runs.push(spec);
         }

@@ -25,6 +25,10 @@ pub use summary::{summarize, NodeSummary, RunSummary};
 /// Upper bound on the number of steps of one run, so that no input can make a run endless.
 pub const MAX_STEPS: usize = 10_000_000;
 
+/// Upper bound on the number of reported times of one run: each keeps every node's
+/// temperature, so an interval far shorter than the run would exhaust memory.
+pub const MAX_OUTPUTS: usize = 100_000;
+
 /// Why a transient run could not be completed.
 #[derive(Clone, Debug, PartialEq)]
 pub enum RunError {
@@ -36,6 +40,8 @@ pub enum RunError {
     StepTooSmall { time: f64, step: f64 },
     /// More than [`MAX_STEPS`] steps (or the caller's limit) would be needed.
     TooManySteps { time: f64 },
+    /// The output interval would report more than [`MAX_OUTPUTS`] times.
+    TooManyOutputs { interval: f64 },
     /// The Newton iteration of a nonlinear network did not converge even with small steps.
     NoConvergence { time: f64 },
     /// The steady solution a nonlinear network starts from could not be found.
@@ -61,6 +67,10 @@ impl std::fmt::Display for RunError {
             RunError::TooManySteps { time } => write!(
                 f,
                 "the run needs more steps than allowed (stopped at t = {time:.6e} s)"
+            ),
+            RunError::TooManyOutputs { interval } => write!(
+                f,
+                "an output interval of {interval:.3e} s would report more than {MAX_OUTPUTS} times"
             ),
             RunError::NoConvergence { time } => write!(
                 f,

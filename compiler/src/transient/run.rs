@@ -278,7 +278,13 @@ pub fn run_transient(
             v
         }
         None => {
-            let n = (duration / output_interval - 1e-9).ceil() as usize;
+            let n = (duration / output_interval - 1e-9).ceil();
+            if !(n <= super::MAX_OUTPUTS as f64) {
+                return Err(RunError::TooManyOutputs {
+                    interval: output_interval,
+                });
+            }
+            let n = n as usize;
             (1..=n)
                 .map(|k| (k as f64 * output_interval).min(duration))
                 .collect()
