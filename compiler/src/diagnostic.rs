@@ -102,13 +102,28 @@ impl Diagnostic {
     }
 }
 
+/// Names longer than this get no suggestion: a slip in a name that long is not what the
+/// edit-distance search is for, and it would cost time quadratic in the length.
+const SUGGEST_MAX_LEN: usize = 96;
+/// Most character pairs one suggestion compares (the searches cost about the product of the two
+/// lengths per candidate), so a model with millions of names and many unknown ones stays fast.
+const SUGGEST_MAX_WORK: usize = 4_000_000;
+
 /// "did you mean `x`?" for the closest candidate within a small edit distance.
 pub fn did_you_mean<'a>(
     name: &str,
     candidates: impl IntoIterator<Item = &'a str>,
 ) -> Option<&'a str> {
+    if name.len() > SUGGEST_MAX_LEN {
+        return None;
+    }
     let mut best: Option<(f64, &str)> = None;
-    for c in candidates {
+    let mut work = 0usize;
+    for c in candidates.into_iter().filter(|c| c.len() <= SUGGEST_MAX_LEN) {
+        work += name.len().max(1) * c.len().max(1);
+        if work > SUGGEST_MAX_WORK {
+            break;
+        }
         let score = strsim::jaro_winkler(name, c);
         let close = score > 0.8 || strsim::levenshtein(name, c) <= name.len().min(c.len()) / 3 + 1;
         if close && c != name && best.is_none_or(|(s, _)| score > s) {
