@@ -2,6 +2,7 @@
 //! outside the project root (the nearest folder above the model that holds `.git`, or the
 //! model's own folder).
 
+use caloris_compiler::project_files::{project_root, read_import};
 use caloris_compiler::source::SourceLoader;
 use std::path::{Path, PathBuf};
 
@@ -11,41 +12,15 @@ pub struct FsLoader {
 
 impl FsLoader {
     pub fn for_model(model: &Path) -> FsLoader {
-        let dir = model
-            .parent()
-            .filter(|p| !p.as_os_str().is_empty())
-            .map(Path::to_path_buf)
-            .unwrap_or_else(|| PathBuf::from("."));
-        let dir = dir.canonicalize().unwrap_or(dir);
-        let root = dir
-            .ancestors()
-            .find(|a| a.join(".git").exists())
-            .map(Path::to_path_buf)
-            .unwrap_or(dir);
-        FsLoader { root }
+        FsLoader {
+            root: project_root(model),
+        }
     }
 }
 
 impl SourceLoader for FsLoader {
     fn load(&self, from: &str, path: &str) -> Result<(String, String), String> {
-        let base = Path::new(from)
-            .parent()
-            .map(Path::to_path_buf)
-            .unwrap_or_default();
-        let joined = if base.as_os_str().is_empty() {
-            PathBuf::from(path)
-        } else {
-            base.join(path)
-        };
-        let canonical = joined.canonicalize().map_err(|e| format!("{e}"))?;
-        if !canonical.starts_with(&self.root) {
-            return Err(format!(
-                "it lies outside the project folder `{}`",
-                self.root.display()
-            ));
-        }
-        let text = std::fs::read_to_string(&canonical).map_err(|e| format!("{e}"))?;
-        Ok((joined.display().to_string(), text))
+        read_import(&self.root, from, path)
     }
 }
 
@@ -181,6 +156,93 @@ mod tests {
         let a = run(&root.join("model.heat"));
         assert!(
             a.diagnostics.iter().any(|d| d.code == "E601"),
+            "{:?}",
+            a.diagnostics
+        );
+        let _ = std::fs::remove_dir_all(scratch);
+    }
+
+    /// A pipe in the project must not be opened: reading one waits for a writer forever.
+    #[cfg(unix)]
+    #[test]
+    fn a_pipe_is_refused_without_waiting() {
+        let (scratch, root) = project("pipe");
+        let fifo = root.join("pipe.heat");
+        let made = std::process::Command::new("mkfifo").arg(&fifo).status();
+        if !made.is_ok_and(|s| s.success()) {
+            eprintln!("mkfifo is not available; skipped");
+            return;
+        }
+        write(
+            &root.join("model.heat"),
+            &format!("import \"pipe.heat\"\n{USES_WOOL}"),
+        );
+        let a = run(&root.join("model.heat"));
+        let d = a
+            .diagnostics
+            .iter()
+            .find(|d| d.code == "E601")
+            .expect("E601");
+        assert!(d.message.contains("not a regular file"), "{}", d.message);
+        let _ = std::fs::remove_dir_all(scratch);
+    }
+
+    /// A link to its own folder makes endless spellings of one file (`l/a.heat`,
+    /// `l/l/a.heat`, ...), and `../project/b.heat` is another spelling of `b.heat`: both end
+    /// with an error, as does a chain of imports deeper than the limit.
+    #[cfg(unix)]
+    #[test]
+    fn imports_through_a_folder_loop_end_at_the_depth_limit() {
+        let (scratch, root) = project("folder-loop");
+        std::os::unix::fs::symlink(".", root.join("l")).expect("symlink");
+        write(
+            &root.join("a.heat"),
+            "import \"l/a.heat\"\nmaterial wool (k = 0.04 W/(m*K))\n",
+        );
+        write(
+            &root.join("model.heat"),
+            &format!("import \"a.heat\"\n{USES_WOOL}"),
+        );
+        let a = run(&root.join("model.heat"));
+        // The system refuses a path with too many links (E601) before 64 files nest; either
+        // way the chain ends with an error at an import.
+        assert!(
+            a.diagnostics
+                .iter()
+                .any(|d| d.code == "E601" || d.code == "E602"),
+            "{:?}",
+            a.diagnostics
+        );
+
+        // Seventy distinct files each importing the next: the depth limit ends the chain.
+        for i in 0..70 {
+            write(&root.join(format!("chain{i}.heat")), &format!("import \"chain{}.heat\"\n", i + 1));
+        }
+        write(&root.join("chain70.heat"), "material wool (k = 0.04 W/(m*K))\n");
+        write(
+            &root.join("model3.heat"),
+            &format!("import \"chain0.heat\"\n{USES_WOOL}"),
+        );
+        let a = run(&root.join("model3.heat"));
+        assert!(
+            a.diagnostics
+                .iter()
+                .any(|d| d.code == "E602" && d.message.contains("more than 64 files deep")),
+            "{:?}",
+            a.diagnostics
+        );
+
+        write(
+            &root.join("b.heat"),
+            "import \"../project/b.heat\"\nmaterial wool (k = 0.04 W/(m*K))\n",
+        );
+        write(
+            &root.join("model2.heat"),
+            &format!("import \"b.heat\"\n{USES_WOOL}"),
+        );
+        let a = run(&root.join("model2.heat"));
+        assert!(
+            a.diagnostics.iter().any(|d| d.code == "E602"),
             "{:?}",
             a.diagnostics
         );
