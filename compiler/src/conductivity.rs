@@ -133,6 +133,8 @@ pub mod material_args {
         pub slope: Option<(f64, Span)>,
         pub at: Option<(f64, Span)>,
         pub table: Option<Vec<(f64, f64)>>,
+        /// A `k_slope` or `k_at` was written but failed its check (already reported).
+        pub failed: bool,
     }
 
     impl Parts {

@@ -497,6 +497,14 @@ impl<'a> Cx<'a> {
         Some(q)
     }
 
+    /// The checked material declared under `name`; `None` for an unknown one and for one that
+    /// failed its own checks.
+    fn material_named(&self, name: &str) -> Option<&Material> {
+        self.material_index
+            .get(name)
+            .and_then(|&i| self.materials.get(i))
+    }
+
     fn positive(&mut self, v: f64, e: &Expr, what: &str) -> bool {
         if v > 0.0 && v.is_finite() {
             return true;
@@ -558,7 +566,8 @@ impl<'a> Cx<'a> {
                 "k_slope" => {
                     k_of_t.slope = self
                         .quantity(&arg.value, kt::SLOPE_DIM, "k_slope")
-                        .map(|q| (q.value, arg.value.span))
+                        .map(|q| (q.value, arg.value.span));
+                    k_of_t.failed |= k_of_t.slope.is_none();
                 }
                 "k_at" => {
                     if let Some(q) = self.quantity(&arg.value, Dim::TEMPERATURE, "k_at") {
@@ -567,6 +576,7 @@ impl<'a> Cx<'a> {
                             Err(d) => self.diags.push(d),
                         }
                     }
+                    k_of_t.failed |= k_of_t.at.is_none();
                 }
                 "k" => {
                     if let Some(q) = self.quantity(&arg.value, Dim::CONDUCTIVITY, "k") {
@@ -609,8 +619,11 @@ impl<'a> Cx<'a> {
             }
             return;
         };
-        self.material_index
-            .insert(name.name.clone(), self.materials.len());
+        // A k_slope or k_at that failed its own check is reported there; saying the pair is
+        // incomplete as well would only confuse.
+        if k_of_t.failed {
+            return;
+        }
         let conductivity = match k_of_t.model(k, name) {
             Ok(c) => c,
             Err(d) => {
@@ -618,6 +631,10 @@ impl<'a> Cx<'a> {
                 return;
             }
         };
+        // Only a material that passed its checks gets a slot: a link naming a failed one finds
+        // no slot (and no error of its own), never the slot of the next material.
+        self.material_index
+            .insert(name.name.clone(), self.materials.len());
         self.materials.push(Material {
             name: name.name.clone(),
             span: name.span,
@@ -974,10 +991,11 @@ impl<'a> Cx<'a> {
             match spec.ty {
                 ArgType::Material => {
                     match &arg.value.kind {
-                        ExprKind::Name(id) if self.material_index.contains_key(&id.name) => {
+                        ExprKind::Name(id) if self.material_named(&id.name).is_some() => {
                             self.symbols.add_ref(&id.name, id.span);
-                            let m = self.materials[self.material_index[&id.name]].clone();
-                            values.insert(spec.name, (ArgValue::Material(m), arg.value.span));
+                            if let Some(m) = self.material_named(&id.name).cloned() {
+                                values.insert(spec.name, (ArgValue::Material(m), arg.value.span));
+                            }
                         }
                         ExprKind::Name(id)
                             if self
@@ -1076,7 +1094,6 @@ impl<'a> Cx<'a> {
         let Some(use_args) = self.buildup_use_args(call, els, geom) else {
             return;
         };
-        let group_id = net.groups.len();
         let mut links = Vec::new();
         let mut prev = from;
         let mut complete = true;
@@ -1136,7 +1153,9 @@ impl<'a> Cx<'a> {
                         area: built.area,
                         kind: kind.name().to_string(),
                         formula: built.formula,
-                        group: Some(group_id),
+                        // Set below, once the use is known to be complete: a link must never
+                        // name a group that was not pushed (or another use's group).
+                        group: None,
                     });
                 }
                 _ => complete = false,
@@ -1151,6 +1170,10 @@ impl<'a> Cx<'a> {
                 } else {
                     None
                 };
+                let group_id = net.groups.len();
+                for &l in &links {
+                    net.links[l].group = Some(group_id);
+                }
                 net.groups.push(Group {
                     name: name.name.clone(),
                     span: name.span,

@@ -538,9 +538,9 @@ impl Cx<'_> {
             );
             return None;
         };
-        if let Some(&i) = self.material_index.get(&id.name) {
+        if let Some(m) = self.material_named(&id.name).cloned() {
             self.symbols.add_ref(&id.name, id.span);
-            return Some(self.materials[i].clone());
+            return Some(m);
         }
         if self
             .symbols
