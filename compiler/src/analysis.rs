@@ -209,6 +209,15 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
             }
         }
     }
+    // A solution with a non-finite value or an open energy balance is never reported.
+    if let Some(d) = analysis
+        .solution
+        .as_ref()
+        .and_then(|s| s.unusable(&analysis.network))
+    {
+        analysis.solution = None;
+        analysis.diagnostics.push(d);
+    }
     analysis
 }
 

@@ -20,7 +20,9 @@ use crate::units::Dim;
 use std::collections::HashMap;
 
 mod transient_decls;
+mod value_range;
 pub use transient_decls::{biot_number, fits_parameter, Biot, BIOT_LUMPED};
+pub use value_range::range_error;
 
 /// Everything elaboration produces. `network` is complete only when `diags` has no error.
 pub struct Elaborated {
@@ -163,6 +165,7 @@ pub fn elaborate(
         materials: Vec::new(),
         material_index: HashMap::new(),
         timed: Default::default(),
+        owner: String::new(),
     };
 
     // 2. Parameters (all of them, so errors in unused ones are reported too).
@@ -178,15 +181,19 @@ pub fn elaborate(
     // 3. Materials.
     for item in &items {
         if let ItemKind::Material { name, args } = &item.kind {
+            cx.owner = format!("material `{}`", name.name);
             cx.material(name, args);
         }
     }
+    cx.owner.clear();
     cx.schedules(&items);
+    cx.owner.clear();
 
     // 4. Nodes.
     let mut net = Network::default();
     for item in &items {
         if let ItemKind::Node { name, args } = &item.kind {
+            cx.owner = format!("node `{}`", name.name);
             let (fixed, load) = cx.node_args(name, args);
             net.nodes.push(Node {
                 name: name.name.clone(),
@@ -232,6 +239,7 @@ pub fn elaborate(
     let mut plans = Vec::new();
     for item in &items {
         if let ItemKind::Region { name, args, .. } = &item.kind {
+            cx.owner = format!("region `{}`", name.name);
             let Some(checked) = cx.args(&region::RegionArgs, args, item.span, &[]) else {
                 continue;
             };
@@ -300,14 +308,9 @@ pub fn elaborate(
             cx.symbols.add_ref(&element.kind.name, element.kind.span);
             cx.buildup_link(&mut net, &node_index, name, a, b, element, els);
         } else if let Some(kind) = elements::lookup(&element.kind.name) {
+            cx.owner = format!("`{}` in link `{}`", kind.name(), name.name);
             let args = cx.args(kind, &element.args, element.span, &[]);
-            let built = args.as_ref().and_then(|args| match kind.law(args) {
-                Ok(b) => Some(b),
-                Err(d) => {
-                    cx.diags.push(d);
-                    None
-                }
-            });
+            let built = args.as_ref().and_then(|args| cx.checked_law(kind, args));
             if let (Some(a), Some(b), Some((law, built))) = (a, b, built) {
                 if let Some(args) = &args {
                     cx.diags.extend(kind.warnings(args));
@@ -360,6 +363,18 @@ pub fn elaborate(
     for l in &net.links {
         used[l.from] = true;
         used[l.to] = true;
+    }
+
+    cx.owner.clear();
+    // Links made without element arguments of their own (a region's cells, the parts an
+    // element generates) are checked here, once per declaration.
+    let mut reported = std::collections::HashSet::new();
+    for l in &net.links {
+        if let Some(d) = value_range::link_error(l) {
+            if reported.insert(l.span) {
+                cx.diags.push(d);
+            }
+        }
     }
 
     // 6. Limits.
@@ -478,6 +493,9 @@ struct Cx<'a> {
     materials: Vec<Material>,
     material_index: HashMap<String, usize>,
     timed: transient_decls::Timed,
+    /// What the arguments being checked belong to (`` `film` ``, ``node `room` ``), for
+    /// messages about values out of range; empty outside a declaration.
+    owner: String,
 }
 
 impl<'a> Cx<'a> {
@@ -494,7 +512,7 @@ impl<'a> Cx<'a> {
             self.diags.push(d);
             return None;
         }
-        Some(q)
+        self.in_range(q, what, e).then_some(q)
     }
 
     /// The checked material declared under `name`; `None` for an unknown one and for one that
@@ -806,17 +824,20 @@ impl<'a> Cx<'a> {
                         continue;
                     };
                     let area = plan.cell_area(&e.side.name);
+                    self.owner = format!(
+                        "`{}` on side `{}` of region `{}`",
+                        kind.name(),
+                        e.side.name,
+                        plan.region.name
+                    );
                     let Some(args) =
                         self.args(kind, &call.args, call.span, &[("area", area, e.side.span)])
                     else {
                         continue;
                     };
-                    match kind.law(&args) {
-                        Ok((law, _)) => Some((kind.name(), law)),
-                        Err(d) => {
-                            self.diags.push(d);
-                            continue;
-                        }
+                    match self.checked_law(kind, &args) {
+                        Some((law, _)) => Some((kind.name(), law)),
+                        None => continue,
                     }
                 }
             };
@@ -1091,6 +1112,7 @@ impl<'a> Cx<'a> {
         els: &[BuildupElement],
     ) {
         let geom = shell::geometry(els.iter().map(|e| e.element.kind.name.as_str()));
+        self.owner = format!("link `{}`", name.name);
         let Some(use_args) = self.buildup_use_args(call, els, geom) else {
             return;
         };
@@ -1112,19 +1134,27 @@ impl<'a> Cx<'a> {
                 complete = false;
                 continue;
             };
+            if geom != shell::Geometry::Plane && chain.radius.is_none() {
+                // A shell before this one failed its checks (reported there), so the radius
+                // this element starts at is unknown; a "missing area" here would only echo it.
+                complete = false;
+                prev = next;
+                continue;
+            }
+            self.owner = format!(
+                "`{}` (`{}` of build-up `{}`) in link `{}`",
+                kind.name(),
+                e.name.name,
+                call.kind.name,
+                name.name
+            );
             let args = self.args(
                 kind,
                 &e.element.args,
                 e.element.span,
                 &use_args.supplied(geom, chain.radius),
             );
-            let built = args.as_ref().and_then(|a| match kind.law(a) {
-                Ok(b) => Some(b),
-                Err(d) => {
-                    self.diags.push(d);
-                    None
-                }
-            });
+            let built = args.as_ref().and_then(|a| self.checked_law(kind, a));
             chain.advance(
                 i,
                 kind,

@@ -637,6 +637,7 @@ impl<'a> Parser<'a> {
                     Diagnostic::error("E004", format!("`{num_text}` is not a number"), t.span)
                         .with_help("write numbers like `12`, `0.5` or `1.2e-3`")
                 })?;
+                number_representable(num_text, value, t.span)?;
                 let rest = &full[num_len as usize..];
                 let unit_text = rest.trim_start();
                 let unit = if unit_text.is_empty() {
@@ -919,4 +920,31 @@ mod tests {
         assert_eq!(d.len(), 2, "{d:?}");
         assert_eq!(m.items.len(), 2);
     }
+}
+
+/// E004 for a literal that a double cannot hold: one that overflows to infinity, or one with
+/// non-zero digits that underflows to zero. Either would silently become a different number.
+fn number_representable(text: &str, value: f64, span: Span) -> PResult<()> {
+    let mantissa = text.split(['e', 'E']).next().unwrap_or(text);
+    let nonzero = mantissa.chars().any(|c| c.is_ascii_digit() && c != '0');
+    let (problem, help) = if value.is_infinite() {
+        (
+            "too large",
+            "numbers above about 1.8e308 cannot be read; check the exponent",
+        )
+    } else if value == 0.0 && nonzero {
+        (
+            "too small",
+            "numbers below about 5e-324 (other than 0) cannot be read; check the exponent",
+        )
+    } else {
+        return Ok(());
+    };
+    Err(Diagnostic::error(
+        "E004",
+        format!("`{text}` is a number {problem} to read"),
+        span,
+    )
+    .with_label(format!("number {problem}"))
+    .with_help(help))
 }

@@ -14,6 +14,7 @@
 mod dimension;
 mod display;
 mod parse;
+pub mod range;
 mod suggest;
 mod table;
 
