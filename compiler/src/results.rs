@@ -6,6 +6,9 @@ use crate::network::Network;
 use crate::solve::Temperatures;
 use serde::Serialize;
 
+mod solution_check;
+pub use solution_check::BALANCE_TOLERANCE;
+
 #[derive(Clone, Debug, Serialize)]
 pub struct GroupResult {
     pub name: String,
@@ -131,105 +134,5 @@ impl Solution {
             .map(|b| b.1)
             .filter(|q| *q > 0.0)
             .sum()
-    }
-}
-
-/// Relative imbalance above which a solved network is not trusted: far above the round-off of
-/// a sound solve (the case tests hold every model to 1e-9) and far below the imbalance of a
-/// solve ruined by conductances tens of orders of magnitude apart.
-pub const BALANCE_TOLERANCE: f64 = 1e-6;
-
-impl Solution {
-    /// E504 when the solution cannot be reported: a temperature or heat flow that is not a
-    /// finite number, or an energy balance that does not close at a free node. Printing such
-    /// a solution would show `inf` or `NaN`, or temperatures that no heat balance supports.
-    pub fn unusable(&self, net: &Network) -> Option<crate::Diagnostic> {
-        use crate::units::{format_quantity, Dim, Quantity, TempKind, UnitSystem};
-        let help = "check for conductances many orders of magnitude apart (a tiny area or coefficient beside ordinary ones) and for values with a wrong unit prefix";
-        let bad_node = net
-            .nodes
-            .iter()
-            .zip(&self.temperatures)
-            .find(|(_, t)| !t.is_finite());
-        if let Some((n, _)) = bad_node {
-            return Some(
-                crate::Diagnostic::error(
-                    "E504",
-                    format!(
-                        "the solve gave node `{}` a temperature that is not a finite number",
-                        n.name
-                    ),
-                    n.span,
-                )
-                .with_label("no finite temperature")
-                .with_help(help),
-            );
-        }
-        let bad_link = net
-            .links
-            .iter()
-            .zip(&self.heat_flows)
-            .find(|(_, q)| !q.is_finite());
-        let bad_group = net
-            .groups
-            .iter()
-            .zip(&self.groups)
-            .find(|(_, g)| {
-                ![g.resistance, g.heat_flow].iter().all(|v| v.is_finite())
-                    || ![g.u_value, g.r_value]
-                        .iter()
-                        .flatten()
-                        .all(|v| v.is_finite())
-            })
-            .map(|(g, _)| (&g.name, g.span));
-        if let Some((name, span)) = bad_link.map(|(l, _)| (&l.name, l.span)).or(bad_group) {
-            return Some(
-                crate::Diagnostic::error(
-                    "E504",
-                    format!("the solve gave link `{name}` a heat flow that is not a finite number"),
-                    span,
-                )
-                .with_label("no finite heat flow")
-                .with_help(help),
-            );
-        }
-        let scale = self
-            .heat_flows
-            .iter()
-            .chain(net.nodes.iter().map(|n| &n.load))
-            .fold(0.0f64, |m, q| m.max(q.abs()));
-        let worst = net
-            .nodes
-            .iter()
-            .zip(&self.residuals)
-            .filter(|(n, _)| n.fixed.is_none())
-            .max_by(|a, b| a.1.abs().total_cmp(&b.1.abs()))?;
-        if worst.1.abs() <= BALANCE_TOLERANCE * scale {
-            return None;
-        }
-        let power = |v: f64| {
-            format_quantity(
-                Quantity {
-                    value: v,
-                    dim: Dim::POWER,
-                    kind: TempKind::NotTemperature,
-                },
-                UnitSystem::Si,
-            )
-        };
-        Some(
-            crate::Diagnostic::error(
-                "E504",
-                format!(
-                    "the energy balance does not close: heat into and out of node `{}` differ by {}, against flows of up to {}",
-                    worst.0.name,
-                    power(worst.1.abs()),
-                    power(scale)
-                ),
-                worst.0.span,
-            )
-            .with_label("heat in and out do not balance here")
-            .with_help(help),
-        )
     }
 }

@@ -108,11 +108,7 @@ pub fn law_error(kind: &str, law: &LinkLaw, args: &Args) -> Option<Diagnostic> {
             _ => None,
         })
         .max_by(|a, b| a.1.total_cmp(&b.1).then_with(|| b.0.cmp(a.0)));
-    let shown = if v.is_nan() {
-        "not a number".to_string()
-    } else {
-        format_number(v)
-    };
+    let shown = shown(v);
     let mut d = Diagnostic::error(
         "E108",
         format!("`{kind}` gives a {what} of {shown}, which cannot be computed with"),
@@ -140,10 +136,9 @@ pub fn link_error(link: &Link) -> Option<Diagnostic> {
     if usable(v.abs()) {
         return None;
     }
-    let shown = if what == "conductance" {
-        elements::show(v, Dim::CONDUCTANCE)
-    } else {
-        format_number(v)
+    let shown = match what {
+        "conductance" if v.is_finite() => elements::show(v, Dim::CONDUCTANCE),
+        _ => shown(v),
     };
     Some(
         Diagnostic::error(
@@ -168,6 +163,17 @@ fn law_value(law: &LinkLaw) -> (&'static str, f64) {
         LinkLaw::Linear { conductance } => ("conductance", *conductance),
         LinkLaw::Radiation { exchange_area } => ("radiative exchange area", *exchange_area),
         LinkLaw::Conduction { shape, .. } => ("conduction shape factor", *shape),
+    }
+}
+
+/// A law's value as the message shows it: `infinity` and `not a number` spelled out.
+fn shown(v: f64) -> String {
+    if v.is_nan() {
+        "not a number".to_string()
+    } else if v.is_infinite() {
+        "infinity".to_string()
+    } else {
+        format_number(v)
     }
 }
 
