@@ -851,6 +851,33 @@ fn describe(kind: Tok, text: &str) -> String {
     }
 }
 
+/// E004 for a literal that a double cannot hold: one that overflows to infinity, or one with
+/// non-zero digits that underflows to zero. Either would silently become a different number.
+fn number_representable(text: &str, value: f64, span: Span) -> PResult<()> {
+    let mantissa = text.split(['e', 'E']).next().unwrap_or(text);
+    let nonzero = mantissa.chars().any(|c| c.is_ascii_digit() && c != '0');
+    let (problem, help) = if value.is_infinite() {
+        (
+            "too large",
+            "numbers above about 1.8e308 cannot be read; check the exponent",
+        )
+    } else if value == 0.0 && nonzero {
+        (
+            "too small",
+            "numbers below about 5e-324 (other than 0) cannot be read; check the exponent",
+        )
+    } else {
+        return Ok(());
+    };
+    Err(Diagnostic::error(
+        "E004",
+        format!("`{text}` is a number {problem} to read"),
+        span,
+    )
+    .with_label(format!("number {problem}"))
+    .with_help(help))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -920,31 +947,4 @@ mod tests {
         assert_eq!(d.len(), 2, "{d:?}");
         assert_eq!(m.items.len(), 2);
     }
-}
-
-/// E004 for a literal that a double cannot hold: one that overflows to infinity, or one with
-/// non-zero digits that underflows to zero. Either would silently become a different number.
-fn number_representable(text: &str, value: f64, span: Span) -> PResult<()> {
-    let mantissa = text.split(['e', 'E']).next().unwrap_or(text);
-    let nonzero = mantissa.chars().any(|c| c.is_ascii_digit() && c != '0');
-    let (problem, help) = if value.is_infinite() {
-        (
-            "too large",
-            "numbers above about 1.8e308 cannot be read; check the exponent",
-        )
-    } else if value == 0.0 && nonzero {
-        (
-            "too small",
-            "numbers below about 5e-324 (other than 0) cannot be read; check the exponent",
-        )
-    } else {
-        return Ok(());
-    };
-    Err(Diagnostic::error(
-        "E004",
-        format!("`{text}` is a number {problem} to read"),
-        span,
-    )
-    .with_label(format!("number {problem}"))
-    .with_help(help))
 }

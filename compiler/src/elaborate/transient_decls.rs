@@ -97,6 +97,7 @@ impl Cx<'_> {
     }
 
     fn schedule(&mut self, name: &Ident, args: &[Arg], rows: Option<&[Row]>) {
+        self.owner = format!("schedule `{}`", name.name);
         let mut repeat = None;
         for (an, arg) in self.named_args(args, "a schedule", "repeat = 24 h") {
             match an.name.as_str() {
@@ -129,6 +130,10 @@ impl Cx<'_> {
                 ok = false;
                 continue;
             };
+            if !self.in_range(v, "a schedule value", &row.value) {
+                ok = false;
+                continue;
+            }
             match first {
                 None => first = Some((v, row.value.span)),
                 Some((q0, s0)) if q0.dim != v.dim => {
@@ -244,7 +249,11 @@ impl Cx<'_> {
             return None;
         }
         self.symbols.add_ref(&id.name, id.span);
-        let &i = self.timed.schedule_index.get(&id.name)?;
+        // A schedule that failed its own checks (reported there) has no index: say nothing
+        // more here, rather than that a schedule is not a value.
+        let Some(&i) = self.timed.schedule_index.get(&id.name) else {
+            return Some(None);
+        };
         if self.fitting_schedule(&an.name, &arg.value).is_some() {
             return Some(Some(self.timed.dynamics.schedules[i].value(0.0)));
         }
@@ -680,6 +689,7 @@ impl Cx<'_> {
     }
 
     fn run(&mut self, name: &Ident, args: &[Arg]) {
+        self.owner = format!("transient run `{}`", name.name);
         let mut spec = RunSpec {
             name: name.name.clone(),
             span: name.span,

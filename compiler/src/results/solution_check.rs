@@ -123,7 +123,10 @@ impl Solution {
     /// answer to round-off.
     fn outside_boundaries(&self, net: &Network) -> Option<Diagnostic> {
         let t = &self.temperatures;
-        if net.links.iter().any(|l| !(l.conductance_at(t) > 0.0)) {
+        if net.links.iter().any(|l| {
+            let g = l.conductance_at(t);
+            g.is_nan() || g <= 0.0
+        }) {
             return None;
         }
         let fixed = || net.nodes.iter().filter_map(|n| n.fixed);
