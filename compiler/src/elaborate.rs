@@ -512,6 +512,10 @@ impl<'a> Cx<'a> {
             self.diags.push(d);
             return None;
         }
+        // A count has its own check (E216: a whole number within its limit), which says more.
+        if q.dim == Dim::NONE && value_range::COUNTS.contains(&what) {
+            return Some(q);
+        }
         self.in_range(q, what, e).then_some(q)
     }
 
