@@ -512,7 +512,7 @@ impl<'a> Cx<'a> {
             self.diags.push(d);
             return None;
         }
-        // A count has its own check (E216: a whole number within its limit), which says more.
+        // A region's cell counts have their own check (E216: whole numbers within a limit).
         if q.dim == Dim::NONE && value_range::COUNTS.contains(&what) {
             return Some(q);
         }
