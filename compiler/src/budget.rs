@@ -134,7 +134,7 @@ impl<'a> Counter<'a> {
         })?;
         let v = (self.count)(&a.value)?;
         // Anything above 2⁶³ is already far past every budget; saturate rather than wrap.
-        (v.is_finite() && v >= 1.0).then(|| if v >= 9.2e18 { u64::MAX } else { v as u64 })
+        (v.is_finite() && v >= 1.0).then_some(if v >= 9.2e18 { u64::MAX } else { v as u64 })
     }
 }
 
@@ -178,7 +178,7 @@ fn group(n: u64) -> String {
     let digits = n.to_string();
     let mut out = String::new();
     for (i, c) in digits.chars().enumerate() {
-        if i > 0 && (digits.len() - i) % 3 == 0 {
+        if i > 0 && (digits.len() - i).is_multiple_of(3) {
             out.push(' ');
         }
         out.push(c);

@@ -279,7 +279,8 @@ pub fn run_transient(
         }
         None => {
             let n = (duration / output_interval - 1e-9).ceil();
-            if !(n <= super::MAX_OUTPUTS as f64) {
+            // NaN (a zero or non-finite interval) is refused with the too-large counts.
+            if n.is_nan() || n > super::MAX_OUTPUTS as f64 {
                 return Err(RunError::TooManyOutputs {
                     interval: output_interval,
                 });
