@@ -127,7 +127,7 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     let el = elaborate(&module_refs, &sources, &options.overrides);
     let has_syntax_errors = diagnostics
         .iter()
-        .any(|d| d.is_error() && matches!(d.code, "E001" | "E002" | "E003" | "E004"));
+        .any(|d| d.is_error() && matches!(d.code, "E001" | "E002" | "E003" | "E004" | "E005"));
     let expansion_failed = diagnostics.iter().any(|d| d.is_error());
     // An unconnected boundary is expected when a repetition or use could not be expanded.
     diagnostics.extend(
