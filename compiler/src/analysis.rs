@@ -68,6 +68,27 @@ impl Analysis {
     pub fn root(&self) -> &Module {
         &self.modules[0].1
     }
+
+    /// The document `text` with nothing analysed: no declarations, no diagnostics. What a
+    /// caller reports when the analysis itself could not be completed (the language server
+    /// after an internal error), so every reader still finds the text and its line index.
+    pub fn unanalysed(name: &str, text: &str) -> Analysis {
+        let mut sources = Sources::default();
+        let root = sources.add(name, text);
+        Analysis {
+            sources,
+            modules: vec![(root, Module::default())],
+            diagnostics: Vec::new(),
+            symbols: SymbolTable::default(),
+            title: None,
+            network: Network::default(),
+            materials: Vec::new(),
+            limits: Vec::new(),
+            params: Vec::new(),
+            solution: None,
+            studies: Default::default(),
+        }
+    }
 }
 
 /// Analyse a model given its name and text. Imports are read through `loader`.
