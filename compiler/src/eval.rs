@@ -99,7 +99,8 @@ impl<'a> Evaluator<'a> {
     /// its members are given no value.
     fn evaluate_dependencies(&mut self, root: &'a str, others: &dyn NameKinds) {
         // The path from `root` down: each parameter, its dependencies, the next one to visit.
-        let mut path: Vec<(&'a str, Vec<&'a str>, usize)> = vec![(root, self.dependencies(root), 0)];
+        let mut path: Vec<(&'a str, Vec<&'a str>, usize)> =
+            vec![(root, self.dependencies(root), 0)];
         let mut on_path: HashMap<&'a str, usize> = HashMap::from([(root, 0)]);
         while let Some(top) = path.len().checked_sub(1) {
             let (name, deps, next) = &mut path[top];
@@ -468,7 +469,6 @@ impl<'a> Evaluator<'a> {
             dim,
             kind,
         })
-
     }
 
     fn call(

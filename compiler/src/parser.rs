@@ -11,8 +11,10 @@ use crate::syntax::*;
 
 /// Deepest nesting of brackets, function calls, signs and exponents in one expression. Far
 /// beyond anything written by hand or generated sensibly, yet every walk over the syntax tree
-/// (evaluation, expansion, editor queries, comparison, drop) stays well inside a 2 MB thread
-/// stack in an unoptimised build. Long chains of `+ - * /` do not nest: they are flat lists.
+/// (parsing itself, evaluation, expansion, editor queries, comparison, drop) stays well inside
+/// a 2 MB thread stack in an unoptimised build: parsing is the deepest, about 8 KB a level
+/// there, so under 1 MB at the limit (compiler/tests/nesting_limits.rs runs every stage at
+/// 2 MB). Long chains of `+ - * /` do not nest: they are flat lists.
 pub const MAX_EXPR_DEPTH: usize = 100;
 
 /// Deepest nesting of `repeat` and `network` blocks; the same as the expansion's limit, so the
@@ -46,7 +48,7 @@ pub fn parse(text: &str, file: FileId) -> (Module, Vec<Diagnostic>) {
         match p.item() {
             Ok(item) => items.push(item),
             Err(d) => {
-                p.diags.push(d);
+                p.diags.push(*d);
                 p.recover_to_item(start);
             }
         }
@@ -69,9 +71,9 @@ pub fn parse_expr(text: &str, file: FileId) -> Result<Expr, Diagnostic> {
         depth: 0,
         blocks: 0,
     };
-    let e = p.expr()?;
+    let e = p.expr().map_err(|d| *d)?;
     if let Some(t) = p.peek_token() {
-        return Err(p.unexpected(t, "the end of the expression"));
+        return Err(*p.unexpected(t, "the end of the expression"));
     }
     // A part nested too deep was skipped and reported; the expression is not whole.
     if let Some(d) = p.diags.into_iter().next() {
@@ -92,7 +94,9 @@ struct Parser<'a> {
     blocks: usize,
 }
 
-type PResult<T> = Result<T, Diagnostic>;
+/// The error is boxed: every level of expression nesting holds a few of these results on the
+/// stack, and a bare diagnostic would more than double each one.
+type PResult<T> = Result<T, Box<Diagnostic>>;
 
 impl<'a> Parser<'a> {
     fn at_end(&self) -> bool {
@@ -133,8 +137,10 @@ impl<'a> Parser<'a> {
         }
     }
 
-    fn unexpected(&self, t: Token, expected: &str) -> Diagnostic {
-        match t.kind {
+    #[cold]
+    #[inline(never)]
+    fn unexpected(&self, t: Token, expected: &str) -> Box<Diagnostic> {
+        Box::new(match t.kind {
             Tok::Unknown => {
                 let ch = self.slice(t.span);
                 Diagnostic::error("E001", format!("unexpected character `{ch}`"), t.span)
@@ -165,7 +171,7 @@ impl<'a> Parser<'a> {
                 t.span,
             )
             .with_label(format!("expected {expected}")),
-        }
+        })
     }
 
     fn on_later_line(&self, t: Token) -> bool {
@@ -182,13 +188,17 @@ impl<'a> Parser<'a> {
         }
     }
 
-    fn eof_error(&self, expected: &str) -> Diagnostic {
-        Diagnostic::error(
-            "E002",
-            format!("expected {expected}, found the end of the file"),
-            self.eof_span(),
+    #[cold]
+    #[inline(never)]
+    fn eof_error(&self, expected: &str) -> Box<Diagnostic> {
+        Box::new(
+            Diagnostic::error(
+                "E002",
+                format!("expected {expected}, found the end of the file"),
+                self.eof_span(),
+            )
+            .with_label(format!("expected {expected}")),
         )
-        .with_label(format!("expected {expected}"))
     }
 
     fn ident(&mut self, expected: &str) -> PResult<Ident> {
@@ -274,7 +284,8 @@ impl<'a> Parser<'a> {
     fn material_item(&mut self) -> PResult<ItemKind> {
         self.bump();
         let name = self.ident("the material's name")?;
-        let args = self.arg_list("the material's properties in parentheses, e.g. `(k = 0.04 W/(m*K))`")?;
+        let args =
+            self.arg_list("the material's properties in parentheses, e.g. `(k = 0.04 W/(m*K))`")?;
         Ok(ItemKind::Material { name, args })
     }
 
@@ -294,12 +305,20 @@ impl<'a> Parser<'a> {
     fn link_item(&mut self) -> PResult<ItemKind> {
         self.bump();
         let name = self.ident("the link's name")?;
-        self.expect(Tok::Colon, "`:` after the link's name, as in `link name: a to b layer(...)`")?;
+        self.expect(
+            Tok::Colon,
+            "`:` after the link's name, as in `link name: a to b layer(...)`",
+        )?;
         let from = self.ident("the node the link starts from")?;
         self.expect(Tok::To, "`to` between the link's two nodes")?;
         let to = self.ident("the node the link goes to")?;
         let element = self.element_call("the link's kind, e.g. `layer(...)`, `film(...)`")?;
-        Ok(ItemKind::Link { name, from, to, element })
+        Ok(ItemKind::Link {
+            name,
+            from,
+            to,
+            element,
+        })
     }
 
     fn buildup_item(&mut self) -> PResult<ItemKind> {
@@ -313,7 +332,10 @@ impl<'a> Parser<'a> {
     fn limit_item(&mut self) -> PResult<ItemKind> {
         self.bump();
         let name = self.ident("the limit's name")?;
-        self.expect(Tok::Colon, "`:` after the limit's name, as in `limit name: temperature(x) < 60 °C`")?;
+        self.expect(
+            Tok::Colon,
+            "`:` after the limit's name, as in `limit name: temperature(x) < 60 °C`",
+        )?;
         let measure = self.ident("a measure such as `temperature`, `heat_flow` or `u_value`")?;
         self.expect(Tok::LParen, "`(` and the node or link the limit is about")?;
         let subject = self.ident("the node or link the limit is about")?;
@@ -330,7 +352,13 @@ impl<'a> Parser<'a> {
         };
         self.bump();
         let value = self.expr()?;
-        Ok(ItemKind::Limit { name, measure, subject, op, value })
+        Ok(ItemKind::Limit {
+            name,
+            measure,
+            subject,
+            op,
+            value,
+        })
     }
 
     /// A contextual declaration word (`schedule`, `case`, `transient`) followed by a name.
@@ -385,20 +413,18 @@ impl<'a> Parser<'a> {
                     return Ok(out);
                 }
                 Some(t) if self.at_declaration() => {
-                    return Err(
+                    return Err(Box::new(
                         Diagnostic::error("E002", "this table is not closed", t.span)
                             .with_label("a new declaration starts before `}`")
                             .with_help("add `}` after the table's last row"),
-                    )
+                    ))
                 }
                 None => {
-                    return Err(Diagnostic::error(
-                        "E002",
-                        "this table is not closed",
-                        self.eof_span(),
-                    )
-                    .with_label("the file ends before `}`")
-                    .with_help("add `}` after the table's last row"))
+                    return Err(Box::new(
+                        Diagnostic::error("E002", "this table is not closed", self.eof_span())
+                            .with_label("the file ends before `}`")
+                            .with_help("add `}` after the table's last row"),
+                    ))
                 }
                 Some(_) => {
                     let start = self.pos;
@@ -416,7 +442,7 @@ impl<'a> Parser<'a> {
                                 value: missing,
                                 span: d.primary.span,
                             });
-                            self.diags.push(d);
+                            self.diags.push(*d);
                             if self.pos == start {
                                 self.pos += 1;
                             }
@@ -467,13 +493,15 @@ impl<'a> Parser<'a> {
                 Some(t) => {
                     self.unexpected(t, "`:` between the time and the value, as in `6 h: -4 °C`")
                 }
-                None => Diagnostic::error(
-                    "E002",
-                    "expected `:` and a value, found the end of the line",
-                    line_end,
-                )
-                .with_label("expected `:`")
-                .with_help("write each row as `TIME: VALUE`, e.g. `6 h: -4 °C`"),
+                None => Box::new(
+                    Diagnostic::error(
+                        "E002",
+                        "expected `:` and a value, found the end of the line",
+                        line_end,
+                    )
+                    .with_label("expected `:`")
+                    .with_help("write each row as `TIME: VALUE`, e.g. `6 h: -4 °C`"),
+                ),
             });
         }
         let value = self.expr()?;
@@ -500,20 +528,18 @@ impl<'a> Parser<'a> {
                     return Ok(out);
                 }
                 Some(t) if self.at_declaration() => {
-                    return Err(
+                    return Err(Box::new(
                         Diagnostic::error("E002", "this build-up is not closed", t.span)
                             .with_label("a new declaration starts before `}`")
                             .with_help("add `}` after the build-up's last element"),
-                    )
+                    ))
                 }
                 None => {
-                    return Err(Diagnostic::error(
-                        "E002",
-                        "this build-up is not closed",
-                        self.eof_span(),
-                    )
-                    .with_label("the file ends before `}`")
-                    .with_help("add `}` after the build-up's last element"))
+                    return Err(Box::new(
+                        Diagnostic::error("E002", "this build-up is not closed", self.eof_span())
+                            .with_label("the file ends before `}`")
+                            .with_help("add `}` after the build-up's last element"),
+                    ))
                 }
                 Some(_) => {
                     let start = self.pos;
@@ -521,7 +547,7 @@ impl<'a> Parser<'a> {
                         Ok(e) => out.push(e),
                         Err(d) => {
                             // Resume at the next element line, `}` or declaration.
-                            self.diags.push(d);
+                            self.diags.push(*d);
                             if self.pos == start {
                                 self.pos += 1;
                             }
@@ -734,7 +760,9 @@ impl<'a> Parser<'a> {
                 "level {} of brackets, calls, signs or powers starts here",
                 MAX_EXPR_DEPTH + 1
             ))
-            .with_help("split the expression: give an inner part its own `param` and use its name here"),
+            .with_help(
+                "split the expression: give an inner part its own `param` and use its name here",
+            ),
         );
         Expr {
             kind: ExprKind::Missing,
@@ -744,12 +772,14 @@ impl<'a> Parser<'a> {
 
     fn primary(&mut self) -> PResult<Expr> {
         let Some(t) = self.peek_token() else {
-            return Err(Diagnostic::error(
-                "E002",
-                "expected a value, found the end of the file",
-                self.eof_span(),
-            )
-            .with_label("expected a value"));
+            return Err(Box::new(
+                Diagnostic::error(
+                    "E002",
+                    "expected a value, found the end of the file",
+                    self.eof_span(),
+                )
+                .with_label("expected a value"),
+            ));
         };
         match t.kind {
             Tok::Number(num_len) => self.number(t, num_len as usize),
@@ -884,14 +914,14 @@ impl Parser<'_> {
         let mut edges = Vec::new();
         while self.eat(Tok::RBrace).is_none() {
             if self.at_end() {
-                return Err(
+                return Err(Box::new(
                     Diagnostic::error("E002", "this region is not closed", open.span)
                         .with_label("`{` opened here")
                         .with_help("add `}` after the last edge attachment"),
-                );
+                ));
             }
-            let side = self
-                .ident("an edge (`left`, `right`, `bottom`, `top`) or face (`front`, `back`)")?;
+            let side =
+                self.ident("an edge (`left`, `right`, `bottom`, `top`) or face (`front`, `back`)")?;
             self.expect(Tok::Colon, "`:` after the edge, as in `left: hot_bar`")?;
             let node = self.ident("the node this edge is attached to")?;
             let element = if self.peek() == Some(Tok::Ident)
@@ -940,7 +970,7 @@ impl Parser<'_> {
     /// reading what is inside (which is what would recurse), and reported once at its `{`.
     #[cold]
     #[inline(never)]
-    fn block_too_deep(&mut self, open: Token) -> Diagnostic {
+    fn block_too_deep(&mut self, open: Token) -> Box<Diagnostic> {
         let mut open_blocks = 1usize;
         while let Some(k) = self.peek() {
             self.bump();
@@ -951,15 +981,17 @@ impl Parser<'_> {
                 _ => {}
             }
         }
-        Diagnostic::error(
-            "E005",
-            format!("blocks nested more than {MAX_BLOCK_DEPTH} deep"),
-            open.span,
+        Box::new(
+            Diagnostic::error(
+                "E005",
+                format!("blocks nested more than {MAX_BLOCK_DEPTH} deep"),
+                open.span,
+            )
+            .with_label(format!("block level {} opens here", MAX_BLOCK_DEPTH + 1))
+            .with_help(format!(
+                "at most {MAX_BLOCK_DEPTH} levels of `repeat` and `network` blocks may nest; merge levels into one `repeat` with a larger count, or write a repetition of count 1 as its plain body"
+            )),
         )
-        .with_label(format!("block level {} opens here", MAX_BLOCK_DEPTH + 1))
-        .with_help(format!(
-            "at most {MAX_BLOCK_DEPTH} levels of `repeat` and `network` blocks may nest; merge levels into one `repeat` with a larger count, or write a repetition of count 1 as its plain body"
-        ))
     }
 
     fn body_items(&mut self, open: Token) -> PResult<Vec<Item>> {
@@ -971,18 +1003,18 @@ impl Parser<'_> {
                     return Ok(items);
                 }
                 None => {
-                    return Err(
+                    return Err(Box::new(
                         Diagnostic::error("E002", "this block is not closed", open.span)
                             .with_label("`{` opened here")
                             .with_help("add `}` after the block's last declaration"),
-                    )
+                    ))
                 }
                 Some(_) => {
                     let start = self.pos;
                     match self.item() {
                         Ok(item) => items.push(item),
                         Err(d) => {
-                            self.diags.push(d);
+                            self.diags.push(*d);
                             if self.pos == start {
                                 self.pos += 1;
                             }
