@@ -1,5 +1,6 @@
 //! One analysis of one document version: what every feature reads.
 
+use crate::isolate::{guarded, INTERNAL_ERROR};
 use crate::loader::DocLoader;
 use crate::proto::{self, lsp, uri_path};
 use crate::settings::{Settings, Units};
@@ -8,7 +9,6 @@ use caloris_compiler::span::{FileId, LineIndex, Span};
 use caloris_compiler::transient::{summarize, RunError, RunSummary};
 use caloris_compiler::units::UnitSystem;
 use caloris_compiler::{analyze, Analysis, Diagnostic, Options};
-use crate::isolate::{guarded, INTERNAL_ERROR};
 use lsp::{Location, Position, Range, Uri};
 use std::sync::atomic::AtomicBool;
 use std::sync::OnceLock;

@@ -74,9 +74,8 @@ pub fn analyze_files_with(
                     None => std::fs::read_to_string(p).ok()?,
                 };
                 let uri = path_uri(p)?;
-                let snap = Snapshot::analyze_with(uri, 0, &text, true, &|uri, _| {
-                    analyze(uri, &text)
-                });
+                let snap =
+                    Snapshot::analyze_with(uri, 0, &text, true, &|uri, _| analyze(uri, &text));
                 Some(Arc::new(snap))
             })
             .collect()
