@@ -130,7 +130,7 @@ pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::R
             });
         }
         if full.wants_transient() {
-            match transient(&full, &mut jobs).await {
+            match transient(&client, &full, &mut jobs).await {
                 Ran::Finished => {}
                 Ran::Superseded => pending = true,
                 Ran::Closed => return,
@@ -149,15 +149,33 @@ enum Ran {
 
 /// Run the snapshot's transient on a blocking thread, stopping it when a newer job arrives.
 /// Hover reads the result from the snapshot whenever it is there, so nothing is published.
-async fn transient(snap: &Arc<Snapshot>, jobs: &mut watch::Receiver<Job>) -> Ran {
+async fn transient(client: &Client, snap: &Arc<Snapshot>, jobs: &mut watch::Receiver<Job>) -> Ran {
     let cancel = Arc::new(AtomicBool::new(false));
     let (snap2, cancel2) = (snap.clone(), cancel.clone());
     let run = tokio::task::spawn_blocking(move || {
-        // A failure ends the run with no summary; hover then shows none.
-        on_analysis_thread(|| snap2.run_transient(&cancel2))
+        let failed = on_analysis_thread(|| snap2.run_transient(&cancel2)).err();
+        if failed.is_some() {
+            // No summary: hover then shows no run, rather than one running for ever.
+            let _ = snap2.transient.set(None);
+        }
+        failed
     });
     tokio::select! {
-        _ = run => Ran::Finished,
+        done = run => {
+            let failed = match done {
+                Ok(failed) => failed,
+                Err(e) => Some(e.to_string()),
+            };
+            if let Some(message) = failed {
+                client
+                    .log_message(
+                        MessageType::ERROR,
+                        format!("caloris: the transient run of {} failed: {message}", snap.uri.as_str()),
+                    )
+                    .await;
+            }
+            Ran::Finished
+        }
         changed = jobs.changed() => {
             // The run sees the flag between steps and ends soon; its result is dropped.
             cancel.store(true, Ordering::Relaxed);
