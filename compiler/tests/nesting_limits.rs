@@ -4,6 +4,7 @@
 //! thread has and with the 2 MB of a test thread or a default async worker; tests run
 //! unoptimised, where frames are largest.
 
+use caloris_compiler::analysis::MAX_IMPORT_DEPTH;
 use caloris_compiler::compare::compare;
 use caloris_compiler::format::format_source;
 use caloris_compiler::parser::{parse_expr, MAX_BLOCK_DEPTH, MAX_EXPR_DEPTH};
@@ -277,4 +278,92 @@ fn input_beyond_every_limit_passes_every_stage() {
     for text in [long_sum, deep, mixed, blocks] {
         every_stage(&text);
     }
+}
+
+/// Files `f0.heat`, `f1.heat`, ... each importing the next, up to `last`, which imports
+/// `back_to` (a cycle) or nothing.
+struct Chain {
+    last: usize,
+    back_to: Option<usize>,
+}
+
+impl caloris_compiler::source::SourceLoader for Chain {
+    fn load(&self, _from: &str, path: &str) -> Result<(String, String), String> {
+        let i: usize = path
+            .strip_prefix('f')
+            .and_then(|p| p.strip_suffix(".heat"))
+            .and_then(|n| n.parse().ok())
+            .ok_or("not in the chain")?;
+        let text = match (i == self.last, self.back_to) {
+            (false, _) => format!("import \"f{}.heat\"\nparam p{i} = {i} W\n", i + 1),
+            (true, Some(j)) => format!("import \"f{j}.heat\"\nparam p{i} = {i} W\n"),
+            (true, None) => format!("param p{i} = {i} W\n"),
+        };
+        Ok((path.to_string(), text))
+    }
+}
+
+#[test]
+fn a_chain_of_imports_loads_to_its_limit_and_stops_there_once() {
+    let root = "import \"f1.heat\"\nnode a (fixed = 1 °C)\n";
+    let chain = |last: usize| {
+        on_stack(SMALL_STACK, move || {
+            analyze(
+                "f0.heat",
+                root,
+                &Chain {
+                    last,
+                    back_to: None,
+                },
+                &Options::default(),
+            )
+        })
+    };
+    let n = MAX_IMPORT_DEPTH;
+    let a = chain(n);
+    assert_eq!(a.modules.len(), n + 1);
+    assert_eq!(param(&a, &format!("p{n}")).map(|q| q.value), Some(n as f64));
+    assert!(errors(&a).is_empty(), "{:?}", &a.diagnostics[..1]);
+
+    // Files f0 to f64 are read; the import in f64 is one too many, reported once.
+    let a = chain(3_000);
+    assert_eq!(a.modules.len(), MAX_IMPORT_DEPTH + 1);
+    let deep: Vec<&str> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.code == "E602")
+        .map(|d| d.message.as_str())
+        .collect();
+    assert_eq!(
+        deep,
+        [format!(
+            "imports nest more than {MAX_IMPORT_DEPTH} files deep"
+        )]
+    );
+
+    // A cycle at the far end is reported once, with the whole chain.
+    let a = on_stack(SMALL_STACK, || {
+        analyze(
+            "f0.heat",
+            root,
+            &Chain {
+                last: 50,
+                back_to: Some(7),
+            },
+            &Options::default(),
+        )
+    });
+    let cycles: Vec<&str> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.code == "E602")
+        .map(|d| d.message.as_str())
+        .collect();
+    assert_eq!(cycles.len(), 1, "{cycles:?}");
+    assert!(
+        cycles[0].starts_with("import cycle: f0.heat -> f1.heat")
+            && cycles[0].ends_with("f49.heat -> f50.heat -> f7.heat"),
+        "{}",
+        cycles[0]
+    );
 }
