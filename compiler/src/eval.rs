@@ -81,9 +81,7 @@ impl<'a> Evaluator<'a> {
     }
 
     fn evaluate_now(&mut self, name: &'a str, others: &dyn NameKinds) -> Option<Quantity> {
-        let Some(&(ident, expr)) = self.params.get(name) else {
-            return None;
-        };
+        let &(ident, expr) = self.params.get(name)?;
         self.state.insert(name.to_string(), State::Active);
         self.stack.push(ident);
         let v = self.eval(expr, others);
