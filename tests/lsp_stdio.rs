@@ -347,3 +347,76 @@ fn hover_gets_the_transient_run_of_the_frost_example() {
     c.shutdown();
     assert_eq!(wait_exit(&mut child), Some(0));
 }
+
+/// The binary itself on the inputs that once killed it (its worker thread overflowed its stack
+/// at about 950 nested brackets or a 3 700-term sum, and the process went with it): it reports
+/// them and goes on answering for another document.
+#[test]
+fn deep_and_long_documents_do_not_take_the_server_down() {
+    let dir = std::env::temp_dir().join(format!("caloris-stdio-deep-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(dir.join(".git")).expect("dir");
+    let _guard = Project(dir.clone());
+    std::fs::write(dir.join("materials.heat"), MATERIALS).expect("lib");
+    std::fs::write(dir.join("model.heat"), CABIN).expect("model");
+    let doc = |name: &str| format!("file://{}/{name}", dir.display());
+    let corpus = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("tests/cases/reliability/lsp_stack_overflow_parens_1000.heat");
+    let brackets = |n: usize| {
+        format!(
+            "node a (fixed = 20 °C)\nnode b (load = 1 W)\nparam p = {}1 W{}\nlink l: a to b resistance(1 K/W)\n",
+            "(".repeat(n),
+            ")".repeat(n)
+        )
+    };
+    let sum = format!(
+        "node a (fixed = 20 °C)\nnode b (load = p)\nparam p = {}1 mW\nlink l: a to b resistance(1 K/W)\n",
+        "1 mW + ".repeat(19_999)
+    );
+    let heavy = [
+        (
+            "corpus.heat",
+            std::fs::read_to_string(corpus).expect("corpus file"),
+            1,
+        ),
+        ("parens_1000.heat", brackets(1_000), 1),
+        ("parens_5000.heat", brackets(5_000), 1),
+        ("sum_20000.heat", sum, 0),
+    ];
+
+    let (mut child, mut c) = spawn();
+    c.initialize(&format!("file://{}", dir.display()));
+    for (name, text, errors) in &heavy {
+        let uri = doc(name);
+        c.open(&uri, 1, text);
+        let diags = c.diagnostics(&uri, 1, T).expect("diagnostics");
+        let codes: Vec<&str> = diags
+            .as_array()
+            .into_iter()
+            .flatten()
+            .filter_map(|d| d["code"].as_str())
+            .collect();
+        assert_eq!(codes, vec!["E005"; *errors], "{name}");
+        for method in [
+            "textDocument/semanticTokens/full",
+            "textDocument/documentSymbol",
+        ] {
+            c.request(method, json!({"textDocument": {"uri": uri}}));
+        }
+        c.request(
+            "textDocument/hover",
+            json!({"textDocument": {"uri": uri}, "position": at(text, "param p")}),
+        );
+    }
+    let model = doc("model.heat");
+    c.open(&model, 1, CABIN);
+    c.diagnostics(&model, 1, T).expect("the cabin is analysed");
+    let hover = c.request(
+        "textDocument/hover",
+        json!({"textDocument": {"uri": model}, "position": at(CABIN, "room    (load")}),
+    );
+    let shown = hover["contents"]["value"].as_str().unwrap_or_default();
+    assert!(shown.contains("Temperature **"), "{shown}");
+    c.shutdown();
+    assert_eq!(wait_exit(&mut child), Some(0));
+}

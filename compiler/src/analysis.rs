@@ -68,6 +68,28 @@ impl Analysis {
     pub fn root(&self) -> &Module {
         &self.modules[0].1
     }
+
+    /// The document `text` with nothing analysed: no declarations, no diagnostics. What a
+    /// caller reports when the analysis itself could not be completed (the language server
+    /// after an internal error), so every reader still finds the text and its line index.
+    pub fn unanalysed(name: &str, text: &str) -> Analysis {
+        let mut sources = Sources::default();
+        let root = sources.add(name, text);
+        Analysis {
+            sources,
+            modules: vec![(root, Module::default())],
+            diagnostics: Vec::new(),
+            symbols: SymbolTable::default(),
+            title: None,
+            network: Network::default(),
+            materials: Vec::new(),
+            limits: Vec::new(),
+            params: Vec::new(),
+            solution: None,
+            studies: Default::default(),
+            cancelled: false,
+        }
+    }
 }
 
 /// Analyse a model given its name and text. Imports are read through `loader`.
@@ -127,7 +149,7 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     let el = elaborate(&module_refs, &sources, &options.overrides);
     let has_syntax_errors = diagnostics
         .iter()
-        .any(|d| d.is_error() && matches!(d.code, "E001" | "E002" | "E003" | "E004"));
+        .any(|d| d.is_error() && matches!(d.code, "E001" | "E002" | "E003" | "E004" | "E005"));
     let expansion_failed = diagnostics.iter().any(|d| d.is_error());
     // An unconnected boundary is expected when a repetition or use could not be expanded.
     diagnostics.extend(
@@ -227,26 +249,25 @@ pub const MAX_IMPORT_DEPTH: usize = 64;
 /// Parse a file and, depth first, the files it imports. `stack` holds the chain of files being
 /// imported, to report cycles.
 fn load_module(
-    id: FileId,
+    root: FileId,
     sources: &mut Sources,
     loader: &dyn SourceLoader,
     modules: &mut Vec<(FileId, Module)>,
     diags: &mut Vec<Diagnostic>,
     stack: &mut Vec<String>,
 ) {
-    let (module, parse_diags) = parse(sources.text(id), id);
-    diags.extend(parse_diags);
-    let imports: Vec<(String, Span)> = module
-        .items
-        .iter()
-        .filter_map(|i| match &i.kind {
-            ItemKind::Import { path, path_span } => Some((path.clone(), *path_span)),
-            _ => None,
-        })
-        .collect();
-    modules.push((id, module));
-    let from = sources.name(id).to_string();
-    for (path, span) in imports {
+    // Depth first, in the order the imports are written, with the files being imported on an
+    // explicit stack: a chain of files, each importing the next, costs no recursion.
+    let mut frames = vec![open_module(root, sources, modules, diags)];
+    while let Some(frame) = frames.last_mut() {
+        let Some((path, span)) = frame.imports.next() else {
+            frames.pop();
+            // Every frame but the root's pushed its name when it was opened.
+            if !frames.is_empty() {
+                stack.pop();
+            }
+            continue;
+        };
         if stack.len() > MAX_IMPORT_DEPTH {
             // A chain this long is a cycle the names did not reveal (a folder linked into
             // itself), or a mistake; either way it must end.
@@ -255,8 +276,11 @@ fn load_module(
                     .with_label("this import is one too many")
                     .with_help("the chain probably leads back to itself through a linked folder; import the shared file once, from the model"),
             );
-            break;
+            // The file's other imports are as deep: leave them all.
+            frame.imports = Vec::new().into_iter();
+            continue;
         }
+        let from = frame.name.clone();
         // Built-in libraries come from the compiler itself, the same for every caller.
         let loaded = crate::library::resolve(&path).unwrap_or_else(|| loader.load(&from, &path));
         match loaded {
@@ -282,8 +306,7 @@ fn load_module(
                 }
                 let child = sources.add(name.clone(), text);
                 stack.push(name);
-                load_module(child, sources, loader, modules, diags, stack);
-                stack.pop();
+                frames.push(open_module(child, sources, modules, diags));
             }
             Err(msg) => diags.push(
                 Diagnostic::error("E601", format!("cannot import `{path}`: {msg}"), span)
@@ -293,5 +316,35 @@ fn load_module(
                     ),
             ),
         }
+    }
+}
+
+/// A file being imported: its name and the imports it has yet to load.
+struct ImportFrame {
+    name: String,
+    imports: std::vec::IntoIter<(String, Span)>,
+}
+
+/// Parse the file `id`, keep its module, and return what it imports.
+fn open_module(
+    id: FileId,
+    sources: &Sources,
+    modules: &mut Vec<(FileId, Module)>,
+    diags: &mut Vec<Diagnostic>,
+) -> ImportFrame {
+    let (module, parse_diags) = parse(sources.text(id), id);
+    diags.extend(parse_diags);
+    let imports: Vec<(String, Span)> = module
+        .items
+        .iter()
+        .filter_map(|i| match &i.kind {
+            ItemKind::Import { path, path_span } => Some((path.clone(), *path_span)),
+            _ => None,
+        })
+        .collect();
+    modules.push((id, module));
+    ImportFrame {
+        name: sources.name(id).to_string(),
+        imports: imports.into_iter(),
     }
 }

@@ -66,37 +66,116 @@ impl<'a> Evaluator<'a> {
         if let Some(v) = self.values.get(name) {
             return *v;
         }
-        let (ident, expr) = *self.params.get(name)?;
+        let (&key, &(ident, _)) = self.params.get_key_value(name)?;
         if self.state.get(name) == Some(&State::Active) {
             let start = self.stack.iter().position(|i| i.name == name).unwrap_or(0);
-            let chain: Vec<&str> = self.stack[start..]
-                .iter()
-                .map(|i| i.name.as_str())
-                .collect();
-            let mut d = Diagnostic::error(
-                "E104",
-                format!(
-                    "parameter `{name}` depends on itself: {} -> {name}",
-                    chain.join(" -> ")
-                ),
-                ident.span,
-            )
-            .with_label("defined in a cycle")
-            .with_help(
-                "give one of these parameters a value that does not refer back to the others",
-            );
-            for i in &self.stack[start + 1..] {
-                d = d.with_secondary(i.span, format!("`{}` is part of the cycle", i.name));
-            }
-            self.diags.push(d);
+            let chain: Vec<&'a Ident> = self.stack[start..].to_vec();
+            self.report_cycle(ident, &chain);
             return None;
         }
+        self.evaluate_dependencies(key, others);
+        if let Some(v) = self.values.get(name) {
+            return *v; // it closed a cycle, reported on the way
+        }
+        self.evaluate_now(key, others)
+    }
+
+    fn evaluate_now(&mut self, name: &'a str, others: &dyn NameKinds) -> Option<Quantity> {
+        let &(ident, expr) = self.params.get(name)?;
         self.state.insert(name.to_string(), State::Active);
         self.stack.push(ident);
         let v = self.eval(expr, others);
         self.stack.pop();
         self.values.insert(name.to_string(), v);
         v
+    }
+
+    /// Evaluate every parameter `root` depends on, deepest first, with an explicit stack
+    /// instead of recursion: a chain of thousands of parameters, written in any order, then
+    /// costs no stack depth, because each one's own evaluation finds its dependencies done.
+    /// A cycle met on the way is reported here (E104), at the parameter that closes it, and
+    /// its members are given no value.
+    fn evaluate_dependencies(&mut self, root: &'a str, others: &dyn NameKinds) {
+        // The path from `root` down: each parameter, its dependencies, the next one to visit.
+        let mut path: Vec<(&'a str, Vec<&'a str>, usize)> =
+            vec![(root, self.dependencies(root), 0)];
+        let mut on_path: HashMap<&'a str, usize> = HashMap::from([(root, 0)]);
+        while let Some(top) = path.len().checked_sub(1) {
+            let (name, deps, next) = &mut path[top];
+            let Some(&dep) = deps.get(*next) else {
+                let name = *name;
+                path.pop();
+                on_path.remove(name);
+                // The root itself is left to the caller.
+                if top > 0 && !self.values.contains_key(name) {
+                    self.evaluate_now(name, others);
+                }
+                continue;
+            };
+            *next += 1;
+            if self.values.contains_key(dep) || self.state.get(dep) == Some(&State::Active) {
+                // Done, or being evaluated further up (the ordinary check in `param` reports
+                // a cycle through it).
+                continue;
+            }
+            if let Some(&k) = on_path.get(dep) {
+                let chain: Vec<&'a Ident> = path[k..]
+                    .iter()
+                    .filter_map(|(n, ..)| self.params.get(n).map(|(i, _)| *i))
+                    .collect();
+                if let Some(&first) = chain.first() {
+                    self.report_cycle(first, &chain);
+                }
+                for (n, ..) in &path[k..] {
+                    self.values.insert((*n).to_string(), None);
+                }
+                continue;
+            }
+            on_path.insert(dep, path.len());
+            let deps = self.dependencies(dep);
+            path.push((dep, deps, 0));
+        }
+    }
+
+    /// The parameters an unevaluated parameter's value refers to, in the order evaluation
+    /// meets them.
+    fn dependencies(&self, name: &str) -> Vec<&'a str> {
+        let mut out = Vec::new();
+        if self.values.contains_key(name) {
+            return out;
+        }
+        if let Some(&(_, expr)) = self.params.get(name) {
+            expr.visit_names(&mut |id| {
+                if id.name == "pi" || self.overrides.contains_key(&id.name) {
+                    return;
+                }
+                if let Some((&key, _)) = self.params.get_key_value(id.name.as_str()) {
+                    out.push(key);
+                }
+            });
+        }
+        out
+    }
+
+    /// E104 at `closing`, whose value leads back to itself through `chain` (which starts with
+    /// it).
+    fn report_cycle(&mut self, closing: &Ident, chain: &[&Ident]) {
+        let name = &closing.name;
+        let names: Vec<&str> = chain.iter().map(|i| i.name.as_str()).collect();
+        let mut d = Diagnostic::error(
+            "E104",
+            format!(
+                "parameter `{name}` depends on itself: {} -> {name}",
+                names.join(" -> ")
+            ),
+            closing.span,
+        )
+        .with_label("defined in a cycle")
+        .with_help("give one of these parameters a value that does not refer back to the others");
+        for i in chain.iter().skip(1) {
+            d = d.with_secondary(i.span, format!("`{}` is part of the cycle", i.name));
+        }
+        self.diags.push(d);
     }
 
     /// Evaluate an expression to a quantity in SI units.
@@ -129,11 +208,11 @@ impl<'a> Evaluator<'a> {
                     ..q
                 })
             }
-            ExprKind::Binary { op, lhs, rhs } => {
-                let a = self.eval(lhs, others);
-                let b = self.eval(rhs, others);
-                let (a, b) = (a?, b?);
-                self.binary(*op, a, b, e.span, lhs.span, rhs.span)
+            ExprKind::Chain { first, rest } => self.chain(first, rest, others),
+            ExprKind::Power { base, exponent } => {
+                let a = self.eval(base, others);
+                let b = self.eval(exponent, others);
+                self.power(a?, b?, exponent.span)
             }
             ExprKind::Call { func, args } => {
                 let vals: Vec<Option<Quantity>> =
@@ -216,6 +295,28 @@ impl<'a> Evaluator<'a> {
         };
         self.diags.push(d);
         None
+    }
+
+    /// `a + b - c ...` left to right, in a loop however long the chain. Every operand is
+    /// evaluated so each one's own errors are reported; the first failure ends the value.
+    fn chain(
+        &mut self,
+        first: &Expr,
+        rest: &[(BinOp, Expr)],
+        others: &dyn NameKinds,
+    ) -> Option<Quantity> {
+        let mut acc = self.eval(first, others);
+        let mut lhs_span = first.span;
+        for (op, rhs) in rest {
+            let b = self.eval(rhs, others);
+            let span = first.span.to(rhs.span);
+            acc = match (acc, b) {
+                (Some(a), Some(b)) => self.binary(*op, a, b, span, lhs_span, rhs.span),
+                _ => None,
+            };
+            lhs_span = span;
+        }
+        acc
     }
 
     fn binary(
@@ -314,55 +415,58 @@ impl<'a> Evaluator<'a> {
                 };
                 Some(Quantity { value, dim, kind })
             }
-            BinOp::Pow => {
-                if !b.dim.is_none() {
-                    self.diags.push(
-                        Diagnostic::error(
-                            "E101",
-                            format!(
-                                "an exponent must be a dimensionless number, not {}",
-                                b.dim.describe()
-                            ),
-                            rs,
-                        )
-                        .with_label("exponent with a unit"),
-                    );
-                    return None;
-                }
-                let dim = if a.dim.is_none() {
-                    Some(Dim::NONE)
-                } else if b.value.fract() == 0.0 && b.value.abs() <= 12.0 {
-                    a.dim.powi(b.value as i32)
-                } else {
-                    None
-                };
-                let Some(dim) = dim else {
-                    self.diags.push(
-                        Diagnostic::error(
-                            "E101",
-                            format!(
-                                "{} can only be raised to a whole-number power",
-                                a.dim.describe()
-                            ),
-                            rs,
-                        )
-                        .with_label("not a whole number")
-                        .with_help("use `sqrt` for square roots of areas and similar"),
-                    );
-                    return None;
-                };
-                let kind = if dim == Dim::TEMPERATURE {
-                    a.kind
-                } else {
-                    plain
-                };
-                Some(Quantity {
-                    value: a.value.powf(b.value),
-                    dim,
-                    kind,
-                })
-            }
         }
+    }
+
+    /// `a ^ b`: the exponent is a plain number, whole when the base has a unit.
+    fn power(&mut self, a: Quantity, b: Quantity, rs: Span) -> Option<Quantity> {
+        let plain = TempKind::NotTemperature;
+        if !b.dim.is_none() {
+            self.diags.push(
+                Diagnostic::error(
+                    "E101",
+                    format!(
+                        "an exponent must be a dimensionless number, not {}",
+                        b.dim.describe()
+                    ),
+                    rs,
+                )
+                .with_label("exponent with a unit"),
+            );
+            return None;
+        }
+        let dim = if a.dim.is_none() {
+            Some(Dim::NONE)
+        } else if b.value.fract() == 0.0 && b.value.abs() <= 12.0 {
+            a.dim.powi(b.value as i32)
+        } else {
+            None
+        };
+        let Some(dim) = dim else {
+            self.diags.push(
+                Diagnostic::error(
+                    "E101",
+                    format!(
+                        "{} can only be raised to a whole-number power",
+                        a.dim.describe()
+                    ),
+                    rs,
+                )
+                .with_label("not a whole number")
+                .with_help("use `sqrt` for square roots of areas and similar"),
+            );
+            return None;
+        };
+        let kind = if dim == Dim::TEMPERATURE {
+            a.kind
+        } else {
+            plain
+        };
+        Some(Quantity {
+            value: a.value.powf(b.value),
+            dim,
+            kind,
+        })
     }
 
     fn call(

@@ -571,10 +571,13 @@ impl Renamer<'_> {
                 _ => ExprKind::Name(self.ident(id)),
             },
             ExprKind::Neg(x) => ExprKind::Neg(Box::new(self.expr(x))),
-            ExprKind::Binary { op, lhs, rhs } => ExprKind::Binary {
-                op: *op,
-                lhs: Box::new(self.expr(lhs)),
-                rhs: Box::new(self.expr(rhs)),
+            ExprKind::Chain { first, rest } => ExprKind::Chain {
+                first: Box::new(self.expr(first)),
+                rest: rest.iter().map(|(op, x)| (*op, self.expr(x))).collect(),
+            },
+            ExprKind::Power { base, exponent } => ExprKind::Power {
+                base: Box::new(self.expr(base)),
+                exponent: Box::new(self.expr(exponent)),
             },
             ExprKind::Call { func, args } => ExprKind::Call {
                 func: func.clone(),

@@ -9,6 +9,18 @@ use crate::lexer::{lex, Tok, Token};
 use crate::span::{FileId, Span};
 use crate::syntax::*;
 
+/// Deepest nesting of brackets, function calls, signs and exponents in one expression. Far
+/// beyond anything written by hand or generated sensibly, yet every walk over the syntax tree
+/// (parsing itself, evaluation, expansion, editor queries, comparison, drop) stays well inside
+/// a 2 MB thread stack in an unoptimised build: parsing is the deepest, about 8 KB a level
+/// there, so under 1 MB at the limit (compiler/tests/nesting_limits.rs runs every stage at
+/// 2 MB). Long chains of `+ - * /` do not nest: they are flat lists.
+pub const MAX_EXPR_DEPTH: usize = 100;
+
+/// Deepest nesting of `repeat` and `network` blocks; the same as the expansion's limit, so the
+/// block that crosses it is reported once, before the parser recurses any deeper.
+pub const MAX_BLOCK_DEPTH: usize = crate::expand::MAX_DEPTH;
+
 /// Parse one file. Always returns a module (possibly partial) and every syntax error found.
 pub fn parse(text: &str, file: FileId) -> (Module, Vec<Diagnostic>) {
     let all = lex(text, file);
@@ -27,6 +39,8 @@ pub fn parse(text: &str, file: FileId) -> (Module, Vec<Diagnostic>) {
         tokens,
         pos: 0,
         diags: Vec::new(),
+        depth: 0,
+        blocks: 0,
     };
     let mut items = Vec::new();
     while !p.at_end() {
@@ -34,7 +48,7 @@ pub fn parse(text: &str, file: FileId) -> (Module, Vec<Diagnostic>) {
         match p.item() {
             Ok(item) => items.push(item),
             Err(d) => {
-                p.diags.push(d);
+                p.diags.push(*d);
                 p.recover_to_item(start);
             }
         }
@@ -54,10 +68,16 @@ pub fn parse_expr(text: &str, file: FileId) -> Result<Expr, Diagnostic> {
         tokens,
         pos: 0,
         diags: Vec::new(),
+        depth: 0,
+        blocks: 0,
     };
-    let e = p.expr()?;
+    let e = p.expr().map_err(|d| *d)?;
     if let Some(t) = p.peek_token() {
-        return Err(p.unexpected(t, "the end of the expression"));
+        return Err(*p.unexpected(t, "the end of the expression"));
+    }
+    // A part nested too deep was skipped and reported; the expression is not whole.
+    if let Some(d) = p.diags.into_iter().next() {
+        return Err(d);
     }
     Ok(e)
 }
@@ -68,9 +88,15 @@ struct Parser<'a> {
     tokens: Vec<Token>,
     pos: usize,
     diags: Vec<Diagnostic>,
+    /// Nesting of the expression being read (see [`MAX_EXPR_DEPTH`]).
+    depth: usize,
+    /// Nesting of `{ }` blocks of declarations (see [`MAX_BLOCK_DEPTH`]).
+    blocks: usize,
 }
 
-type PResult<T> = Result<T, Diagnostic>;
+/// The error is boxed: every level of expression nesting holds a few of these results on the
+/// stack, and a bare diagnostic would more than double each one.
+type PResult<T> = Result<T, Box<Diagnostic>>;
 
 impl<'a> Parser<'a> {
     fn at_end(&self) -> bool {
@@ -111,8 +137,10 @@ impl<'a> Parser<'a> {
         }
     }
 
-    fn unexpected(&self, t: Token, expected: &str) -> Diagnostic {
-        match t.kind {
+    #[cold]
+    #[inline(never)]
+    fn unexpected(&self, t: Token, expected: &str) -> Box<Diagnostic> {
+        Box::new(match t.kind {
             Tok::Unknown => {
                 let ch = self.slice(t.span);
                 Diagnostic::error("E001", format!("unexpected character `{ch}`"), t.span)
@@ -143,7 +171,7 @@ impl<'a> Parser<'a> {
                 t.span,
             )
             .with_label(format!("expected {expected}")),
-        }
+        })
     }
 
     fn on_later_line(&self, t: Token) -> bool {
@@ -160,13 +188,17 @@ impl<'a> Parser<'a> {
         }
     }
 
-    fn eof_error(&self, expected: &str) -> Diagnostic {
-        Diagnostic::error(
-            "E002",
-            format!("expected {expected}, found the end of the file"),
-            self.eof_span(),
+    #[cold]
+    #[inline(never)]
+    fn eof_error(&self, expected: &str) -> Box<Diagnostic> {
+        Box::new(
+            Diagnostic::error(
+                "E002",
+                format!("expected {expected}, found the end of the file"),
+                self.eof_span(),
+            )
+            .with_label(format!("expected {expected}")),
         )
-        .with_label(format!("expected {expected}"))
     }
 
     fn ident(&mut self, expected: &str) -> PResult<Ident> {
@@ -200,93 +232,132 @@ impl<'a> Parser<'a> {
         let Some(t) = self.peek_token() else {
             return Err(self.eof_error("a declaration"));
         };
-        let kind = match t.kind {
-            Tok::Title => {
-                self.bump();
-                let s = self.string("the model's title in quotes, e.g. `title \"Garden office wall\"`")?;
-                ItemKind::Title { text: s.0 }
-            }
-            Tok::Import => {
-                self.bump();
-                let (path, path_span) = self.string("the path of a model file in quotes")?;
-                ItemKind::Import { path, path_span }
-            }
-            Tok::Param => {
-                self.bump();
-                let name = self.ident("the parameter's name")?;
-                self.expect(Tok::Eq, "`=` and the parameter's value")?;
-                let value = self.expr()?;
-                ItemKind::Param { name, value }
-            }
-            Tok::Material => {
-                self.bump();
-                let name = self.ident("the material's name")?;
-                let args = self.arg_list("the material's properties in parentheses, e.g. `(k = 0.04 W/(m*K))`")?;
-                ItemKind::Material { name, args }
-            }
-            Tok::Node => {
-                self.bump();
-                let name = self.ident("the node's name")?;
-                // A node may stand alone; anything else on its line must be its property list.
-                let args = match self.peek_token() {
-                    Some(t) if t.kind == Tok::LParen || !self.on_later_line(t) && !t.kind.starts_item() => self.arg_list(
-                        "`(` to open the node's properties, as in `node attic (fixed = 5 °C)` or `node die (load = 2 W)`",
-                    )?,
-                    _ => Vec::new(),
-                };
-                ItemKind::Node { name, args }
-            }
-            Tok::Link => {
-                self.bump();
-                let name = self.ident("the link's name")?;
-                self.expect(Tok::Colon, "`:` after the link's name, as in `link name: a to b layer(...)`")?;
-                let from = self.ident("the node the link starts from")?;
-                self.expect(Tok::To, "`to` between the link's two nodes")?;
-                let to = self.ident("the node the link goes to")?;
-                let element = self.element_call("the link's kind, e.g. `layer(...)`, `film(...)`")?;
-                ItemKind::Link { name, from, to, element }
-            }
-            Tok::Buildup => {
-                self.bump();
-                let name = self.ident("the build-up's name")?;
-                self.expect(Tok::LBrace, "`{` to open the build-up's list of layers")?;
-                let elements = self.buildup_elements()?;
-                ItemKind::Buildup { name, elements }
-            }
-            Tok::Limit => {
-                self.bump();
-                let name = self.ident("the limit's name")?;
-                self.expect(Tok::Colon, "`:` after the limit's name, as in `limit name: temperature(x) < 60 °C`")?;
-                let measure = self.ident("a measure such as `temperature`, `heat_flow` or `u_value`")?;
-                self.expect(Tok::LParen, "`(` and the node or link the limit is about")?;
-                let subject = self.ident("the node or link the limit is about")?;
-                self.expect(Tok::RParen, "`)`")?;
-                let op = match self.peek_token() {
-                    Some(t) => match t.kind {
-                        Tok::Lt => CmpOp::Lt,
-                        Tok::Le => CmpOp::Le,
-                        Tok::Gt => CmpOp::Gt,
-                        Tok::Ge => CmpOp::Ge,
-                        _ => return Err(self.unexpected(t, "a comparison `<`, `<=`, `>` or `>=`")),
-                    },
-                    None => return Err(self.eof_error("a comparison `<`, `<=`, `>` or `>=`")),
-                };
-                self.bump();
-                let value = self.expr()?;
-                ItemKind::Limit { name, measure, subject, op, value }
-            }
-            Tok::Ident if self.at_declaration_word(self.pos) => self.declaration()?,
-            Tok::Ident if self.at_contextual_item() => self.contextual_item()?,
-            _ => {
-                return Err(self.unexpected(
-                    t,
-                    "a declaration (`param`, `material`, `node`, `link`, `buildup`, `limit`, `repeat`, `network`, `use`, `region`, `schedule`, `case`, `transient`, `title` or `import`)",
-                ))
-            }
-        };
+        let kind = self.item_kind(t)?;
         Ok(Item {
             kind,
             span: t.span.to(self.prev_end()),
+        })
+    }
+
+    /// One declaration, by its first token. Each kind is parsed in its own function: blocks
+    /// recurse through here, and one small frame per level keeps deep nesting cheap on the
+    /// stack (unoptimised builds give a function one slot per temporary of every branch).
+    fn item_kind(&mut self, t: Token) -> PResult<ItemKind> {
+        match t.kind {
+            Tok::Title => self.title_item(),
+            Tok::Import => self.import_item(),
+            Tok::Param => self.param_item(),
+            Tok::Material => self.material_item(),
+            Tok::Node => self.node_item(),
+            Tok::Link => self.link_item(),
+            Tok::Buildup => self.buildup_item(),
+            Tok::Limit => self.limit_item(),
+            Tok::Ident if self.at_declaration_word(self.pos) => self.declaration(),
+            Tok::Ident if self.at_contextual_item() => self.contextual_item(),
+            _ => Err(self.unexpected(
+                t,
+                "a declaration (`param`, `material`, `node`, `link`, `buildup`, `limit`, `repeat`, `network`, `use`, `region`, `schedule`, `case`, `transient`, `title` or `import`)",
+            )),
+        }
+    }
+
+    fn title_item(&mut self) -> PResult<ItemKind> {
+        self.bump();
+        let s = self.string("the model's title in quotes, e.g. `title \"Garden office wall\"`")?;
+        Ok(ItemKind::Title { text: s.0 })
+    }
+
+    fn import_item(&mut self) -> PResult<ItemKind> {
+        self.bump();
+        let (path, path_span) = self.string("the path of a model file in quotes")?;
+        Ok(ItemKind::Import { path, path_span })
+    }
+
+    fn param_item(&mut self) -> PResult<ItemKind> {
+        self.bump();
+        let name = self.ident("the parameter's name")?;
+        self.expect(Tok::Eq, "`=` and the parameter's value")?;
+        let value = self.expr()?;
+        Ok(ItemKind::Param { name, value })
+    }
+
+    fn material_item(&mut self) -> PResult<ItemKind> {
+        self.bump();
+        let name = self.ident("the material's name")?;
+        let args =
+            self.arg_list("the material's properties in parentheses, e.g. `(k = 0.04 W/(m*K))`")?;
+        Ok(ItemKind::Material { name, args })
+    }
+
+    fn node_item(&mut self) -> PResult<ItemKind> {
+        self.bump();
+        let name = self.ident("the node's name")?;
+        // A node may stand alone; anything else on its line must be its property list.
+        let args = match self.peek_token() {
+            Some(t) if t.kind == Tok::LParen || !self.on_later_line(t) && !t.kind.starts_item() => self.arg_list(
+                "`(` to open the node's properties, as in `node attic (fixed = 5 °C)` or `node die (load = 2 W)`",
+            )?,
+            _ => Vec::new(),
+        };
+        Ok(ItemKind::Node { name, args })
+    }
+
+    fn link_item(&mut self) -> PResult<ItemKind> {
+        self.bump();
+        let name = self.ident("the link's name")?;
+        self.expect(
+            Tok::Colon,
+            "`:` after the link's name, as in `link name: a to b layer(...)`",
+        )?;
+        let from = self.ident("the node the link starts from")?;
+        self.expect(Tok::To, "`to` between the link's two nodes")?;
+        let to = self.ident("the node the link goes to")?;
+        let element = self.element_call("the link's kind, e.g. `layer(...)`, `film(...)`")?;
+        Ok(ItemKind::Link {
+            name,
+            from,
+            to,
+            element,
+        })
+    }
+
+    fn buildup_item(&mut self) -> PResult<ItemKind> {
+        self.bump();
+        let name = self.ident("the build-up's name")?;
+        self.expect(Tok::LBrace, "`{` to open the build-up's list of layers")?;
+        let elements = self.buildup_elements()?;
+        Ok(ItemKind::Buildup { name, elements })
+    }
+
+    fn limit_item(&mut self) -> PResult<ItemKind> {
+        self.bump();
+        let name = self.ident("the limit's name")?;
+        self.expect(
+            Tok::Colon,
+            "`:` after the limit's name, as in `limit name: temperature(x) < 60 °C`",
+        )?;
+        let measure = self.ident("a measure such as `temperature`, `heat_flow` or `u_value`")?;
+        self.expect(Tok::LParen, "`(` and the node or link the limit is about")?;
+        let subject = self.ident("the node or link the limit is about")?;
+        self.expect(Tok::RParen, "`)`")?;
+        let op = match self.peek_token() {
+            Some(t) => match t.kind {
+                Tok::Lt => CmpOp::Lt,
+                Tok::Le => CmpOp::Le,
+                Tok::Gt => CmpOp::Gt,
+                Tok::Ge => CmpOp::Ge,
+                _ => return Err(self.unexpected(t, "a comparison `<`, `<=`, `>` or `>=`")),
+            },
+            None => return Err(self.eof_error("a comparison `<`, `<=`, `>` or `>=`")),
+        };
+        self.bump();
+        let value = self.expr()?;
+        Ok(ItemKind::Limit {
+            name,
+            measure,
+            subject,
+            op,
+            value,
         })
     }
 
@@ -342,20 +413,18 @@ impl<'a> Parser<'a> {
                     return Ok(out);
                 }
                 Some(t) if self.at_declaration() => {
-                    return Err(
+                    return Err(Box::new(
                         Diagnostic::error("E002", "this table is not closed", t.span)
                             .with_label("a new declaration starts before `}`")
                             .with_help("add `}` after the table's last row"),
-                    )
+                    ))
                 }
                 None => {
-                    return Err(Diagnostic::error(
-                        "E002",
-                        "this table is not closed",
-                        self.eof_span(),
-                    )
-                    .with_label("the file ends before `}`")
-                    .with_help("add `}` after the table's last row"))
+                    return Err(Box::new(
+                        Diagnostic::error("E002", "this table is not closed", self.eof_span())
+                            .with_label("the file ends before `}`")
+                            .with_help("add `}` after the table's last row"),
+                    ))
                 }
                 Some(_) => {
                     let start = self.pos;
@@ -373,7 +442,7 @@ impl<'a> Parser<'a> {
                                 value: missing,
                                 span: d.primary.span,
                             });
-                            self.diags.push(d);
+                            self.diags.push(*d);
                             if self.pos == start {
                                 self.pos += 1;
                             }
@@ -424,13 +493,15 @@ impl<'a> Parser<'a> {
                 Some(t) => {
                     self.unexpected(t, "`:` between the time and the value, as in `6 h: -4 °C`")
                 }
-                None => Diagnostic::error(
-                    "E002",
-                    "expected `:` and a value, found the end of the line",
-                    line_end,
-                )
-                .with_label("expected `:`")
-                .with_help("write each row as `TIME: VALUE`, e.g. `6 h: -4 °C`"),
+                None => Box::new(
+                    Diagnostic::error(
+                        "E002",
+                        "expected `:` and a value, found the end of the line",
+                        line_end,
+                    )
+                    .with_label("expected `:`")
+                    .with_help("write each row as `TIME: VALUE`, e.g. `6 h: -4 °C`"),
+                ),
             });
         }
         let value = self.expr()?;
@@ -457,20 +528,18 @@ impl<'a> Parser<'a> {
                     return Ok(out);
                 }
                 Some(t) if self.at_declaration() => {
-                    return Err(
+                    return Err(Box::new(
                         Diagnostic::error("E002", "this build-up is not closed", t.span)
                             .with_label("a new declaration starts before `}`")
                             .with_help("add `}` after the build-up's last element"),
-                    )
+                    ))
                 }
                 None => {
-                    return Err(Diagnostic::error(
-                        "E002",
-                        "this build-up is not closed",
-                        self.eof_span(),
-                    )
-                    .with_label("the file ends before `}`")
-                    .with_help("add `}` after the build-up's last element"))
+                    return Err(Box::new(
+                        Diagnostic::error("E002", "this build-up is not closed", self.eof_span())
+                            .with_label("the file ends before `}`")
+                            .with_help("add `}` after the build-up's last element"),
+                    ))
                 }
                 Some(_) => {
                     let start = self.pos;
@@ -478,7 +547,7 @@ impl<'a> Parser<'a> {
                         Ok(e) => out.push(e),
                         Err(d) => {
                             // Resume at the next element line, `}` or declaration.
-                            self.diags.push(d);
+                            self.diags.push(*d);
                             if self.pos == start {
                                 self.pos += 1;
                             }
@@ -568,34 +637,61 @@ impl<'a> Parser<'a> {
     }
 
     pub fn expr(&mut self) -> PResult<Expr> {
-        let mut lhs = self.term()?;
-        loop {
-            let op = match self.peek() {
-                Some(Tok::Plus) => BinOp::Add,
-                Some(Tok::Minus) => BinOp::Sub,
-                _ => return Ok(lhs),
-            };
-            self.bump();
-            let rhs = self.term()?;
-            lhs = binary(op, lhs, rhs);
-        }
+        self.chain(Self::term, |k| match k {
+            Tok::Plus => Some(BinOp::Add),
+            Tok::Minus => Some(BinOp::Sub),
+            _ => None,
+        })
     }
 
     fn term(&mut self) -> PResult<Expr> {
-        let mut lhs = self.unary()?;
-        loop {
-            let op = match self.peek() {
-                Some(Tok::Star) => BinOp::Mul,
-                Some(Tok::Slash) => BinOp::Div,
-                _ => return Ok(lhs),
-            };
-            self.bump();
-            let rhs = self.unary()?;
-            lhs = binary(op, lhs, rhs);
-        }
+        self.chain(Self::unary, |k| match k {
+            Tok::Star => Some(BinOp::Mul),
+            Tok::Slash => Some(BinOp::Div),
+            _ => None,
+        })
     }
 
+    /// Operands joined by the operators of one precedence level, read in a loop into one flat
+    /// [`ExprKind::Chain`]: a generated sum of thousands of terms is a list, so nothing that
+    /// walks the tree later recurses once per term.
+    fn chain(
+        &mut self,
+        operand: fn(&mut Self) -> PResult<Expr>,
+        op_of: fn(Tok) -> Option<BinOp>,
+    ) -> PResult<Expr> {
+        let first = operand(self)?;
+        let mut rest = Vec::new();
+        while let Some(op) = self.peek().and_then(op_of) {
+            self.bump();
+            rest.push((op, operand(self)?));
+        }
+        let Some((_, last)) = rest.last() else {
+            return Ok(first);
+        };
+        let span = first.span.to(last.span);
+        Ok(Expr {
+            kind: ExprKind::Chain {
+                first: Box::new(first),
+                rest,
+            },
+            span,
+        })
+    }
+
+    /// Every level of nesting (a bracket, a function's arguments, a sign, an exponent) passes
+    /// through here, so this is where the depth is counted and cut off.
     fn unary(&mut self) -> PResult<Expr> {
+        if self.depth >= MAX_EXPR_DEPTH {
+            return Ok(self.too_deep());
+        }
+        self.depth += 1;
+        let e = self.signed();
+        self.depth -= 1;
+        e
+    }
+
+    fn signed(&mut self) -> PResult<Expr> {
         if let Some(t) = self.eat(Tok::Minus) {
             let inner = self.unary()?;
             let span = t.span.to(inner.span);
@@ -613,88 +709,150 @@ impl<'a> Parser<'a> {
     fn power(&mut self) -> PResult<Expr> {
         let base = self.primary()?;
         if self.eat(Tok::Caret).is_some() {
-            let exp = self.unary()?;
-            return Ok(binary(BinOp::Pow, base, exp));
+            let exponent = self.unary()?;
+            let span = base.span.to(exponent.span);
+            return Ok(Expr {
+                kind: ExprKind::Power {
+                    base: Box::new(base),
+                    exponent: Box::new(exponent),
+                },
+                span,
+            });
         }
         Ok(base)
     }
 
+    /// The part of an expression nested deeper than [`MAX_EXPR_DEPTH`]: reported once (E005)
+    /// and skipped up to the bracket that closes the level it starts in, so the enclosing
+    /// levels and the rest of the declaration still parse. It becomes a placeholder that is
+    /// never evaluated.
+    #[cold]
+    #[inline(never)]
+    fn too_deep(&mut self) -> Expr {
+        let Some(first) = self.peek_token() else {
+            // Nothing left to skip: the ordinary end-of-file error says what is missing.
+            return Expr {
+                kind: ExprKind::Missing,
+                span: self.eof_span(),
+            };
+        };
+        let mut end = first.span;
+        let mut open = 0usize;
+        while let Some(t) = self.peek_token() {
+            match t.kind {
+                Tok::LParen => open += 1,
+                Tok::RParen if open == 0 => break,
+                Tok::RParen => open -= 1,
+                // Unbalanced brackets must not swallow the declarations that follow.
+                _ if self.on_later_line(t) && self.at_declaration() => break,
+                _ => {}
+            }
+            end = t.span;
+            self.bump();
+        }
+        self.diags.push(
+            Diagnostic::error(
+                "E005",
+                format!("expression nested more than {MAX_EXPR_DEPTH} deep"),
+                first.span,
+            )
+            .with_label(format!(
+                "level {} of brackets, calls, signs or powers starts here",
+                MAX_EXPR_DEPTH + 1
+            ))
+            .with_help(
+                "split the expression: give an inner part its own `param` and use its name here",
+            ),
+        );
+        Expr {
+            kind: ExprKind::Missing,
+            span: first.span.to(end),
+        }
+    }
+
     fn primary(&mut self) -> PResult<Expr> {
         let Some(t) = self.peek_token() else {
-            return Err(Diagnostic::error(
-                "E002",
-                "expected a value, found the end of the file",
-                self.eof_span(),
-            )
-            .with_label("expected a value"));
+            return Err(Box::new(
+                Diagnostic::error(
+                    "E002",
+                    "expected a value, found the end of the file",
+                    self.eof_span(),
+                )
+                .with_label("expected a value"),
+            ));
         };
         match t.kind {
-            Tok::Number(num_len) => {
-                self.bump();
-                let full = self.slice(t.span);
-                let num_text = &full[..num_len as usize];
-                let value: f64 = num_text.parse().map_err(|_| {
-                    Diagnostic::error("E004", format!("`{num_text}` is not a number"), t.span)
-                        .with_help("write numbers like `12`, `0.5` or `1.2e-3`")
-                })?;
-                number_representable(num_text, value, t.span)?;
-                let rest = &full[num_len as usize..];
-                let unit_text = rest.trim_start();
-                let unit = if unit_text.is_empty() {
-                    None
-                } else {
-                    let start = t.span.end as usize - unit_text.len();
-                    Some((
-                        unit_text.to_string(),
-                        Span::new(self.file, start, t.span.end as usize),
-                    ))
-                };
-                Ok(Expr {
-                    kind: ExprKind::Number {
-                        value,
-                        text: num_text.to_string(),
-                        unit,
-                    },
-                    span: t.span,
-                })
-            }
-            Tok::Ident => {
-                let id = self.ident("a name")?;
-                if self.peek() == Some(Tok::LParen) {
-                    self.bump();
-                    let mut args = Vec::new();
-                    if self.eat(Tok::RParen).is_none() {
-                        loop {
-                            args.push(self.expr()?);
-                            if self.eat(Tok::Comma).is_some() {
-                                continue;
-                            }
-                            self.expect(Tok::RParen, "`,` or `)` in the function's arguments")?;
-                            break;
-                        }
-                    }
-                    let span = id.span.to(self.prev_end());
-                    return Ok(Expr {
-                        kind: ExprKind::Call { func: id, args },
-                        span,
-                    });
-                }
-                Ok(Expr {
-                    span: id.span,
-                    kind: ExprKind::Name(id),
-                })
-            }
-            Tok::LParen => {
-                self.bump();
-                let inner = self.expr()?;
-                let close = self.expect(Tok::RParen, "`)` to close the bracket")?;
-                Ok(Expr {
-                    span: t.span.to(close.span),
-                    kind: ExprKind::Paren(Box::new(inner)),
-                })
-            }
+            Tok::Number(num_len) => self.number(t, num_len as usize),
+            Tok::Ident => self.name_or_call(),
+            Tok::LParen => self.bracket(t),
             _ => Err(self.unexpected(t, "a value (a number with its unit, a name or a bracket)")),
         }
+    }
+
+    fn number(&mut self, t: Token, num_len: usize) -> PResult<Expr> {
+        self.bump();
+        let full = self.slice(t.span);
+        let num_text = &full[..num_len];
+        let value: f64 = num_text.parse().map_err(|_| {
+            Diagnostic::error("E004", format!("`{num_text}` is not a number"), t.span)
+                .with_help("write numbers like `12`, `0.5` or `1.2e-3`")
+        })?;
+        number_representable(num_text, value, t.span)?;
+        let rest = &full[num_len..];
+        let unit_text = rest.trim_start();
+        let unit = if unit_text.is_empty() {
+            None
+        } else {
+            let start = t.span.end as usize - unit_text.len();
+            Some((
+                unit_text.to_string(),
+                Span::new(self.file, start, t.span.end as usize),
+            ))
+        };
+        Ok(Expr {
+            kind: ExprKind::Number {
+                value,
+                text: num_text.to_string(),
+                unit,
+            },
+            span: t.span,
+        })
+    }
+
+    fn name_or_call(&mut self) -> PResult<Expr> {
+        let id = self.ident("a name")?;
+        if self.eat(Tok::LParen).is_none() {
+            return Ok(Expr {
+                span: id.span,
+                kind: ExprKind::Name(id),
+            });
+        }
+        let mut args = Vec::new();
+        if self.eat(Tok::RParen).is_none() {
+            loop {
+                args.push(self.expr()?);
+                if self.eat(Tok::Comma).is_some() {
+                    continue;
+                }
+                self.expect(Tok::RParen, "`,` or `)` in the function's arguments")?;
+                break;
+            }
+        }
+        let span = id.span.to(self.prev_end());
+        Ok(Expr {
+            kind: ExprKind::Call { func: id, args },
+            span,
+        })
+    }
+
+    fn bracket(&mut self, open: Token) -> PResult<Expr> {
+        self.bump();
+        let inner = self.expr()?;
+        let close = self.expect(Tok::RParen, "`)` to close the bracket")?;
+        Ok(Expr {
+            span: open.span.to(close.span),
+            kind: ExprKind::Paren(Box::new(inner)),
+        })
     }
 }
 
@@ -710,90 +868,134 @@ impl Parser<'_> {
         }
     }
 
-    /// `repeat NAME (ARGS) { ... }`, `network NAME (PORTS) { ... }`, `use NAME: NETWORK(ARGS)`.
+    /// `repeat NAME (ARGS) { ... }`, `network NAME (PORTS) { ... }`, `use NAME: NETWORK(ARGS)`,
+    /// `region NAME (ARGS) { ... }`.
     fn contextual_item(&mut self) -> PResult<ItemKind> {
         let keyword = self.bump();
         match self.slice(keyword.span) {
-            "repeat" => {
-                let name = self.ident("the repetition's name")?;
-                let args = self.arg_list("`(count = N)` after the repetition's name")?;
-                let body = self.body("`{` to open the declarations to repeat")?;
-                Ok(ItemKind::Repeat { name, args, body })
-            }
-            "network" => {
-                let name = self.ident("the sub-network's name")?;
-                self.expect(
-                    Tok::LParen,
-                    "`(` and the sub-network's port nodes, e.g. `(inside, outside)`",
-                )?;
-                let mut ports = Vec::new();
-                if self.eat(Tok::RParen).is_none() {
-                    loop {
-                        ports.push(self.ident("a port node name")?);
-                        if self.eat(Tok::Comma).is_some() {
-                            continue;
-                        }
-                        self.expect(Tok::RParen, "`,` or `)` after a port name")?;
-                        break;
-                    }
+            "repeat" => self.repeat_item(),
+            "network" => self.network_item(),
+            "region" => self.region_item(),
+            _ => self.use_item(),
+        }
+    }
+
+    fn repeat_item(&mut self) -> PResult<ItemKind> {
+        let name = self.ident("the repetition's name")?;
+        let args = self.arg_list("`(count = N)` after the repetition's name")?;
+        let body = self.body("`{` to open the declarations to repeat")?;
+        Ok(ItemKind::Repeat { name, args, body })
+    }
+
+    fn network_item(&mut self) -> PResult<ItemKind> {
+        let name = self.ident("the sub-network's name")?;
+        self.expect(
+            Tok::LParen,
+            "`(` and the sub-network's port nodes, e.g. `(inside, outside)`",
+        )?;
+        let mut ports = Vec::new();
+        if self.eat(Tok::RParen).is_none() {
+            loop {
+                ports.push(self.ident("a port node name")?);
+                if self.eat(Tok::Comma).is_some() {
+                    continue;
                 }
-                let body = self.body("`{` to open the sub-network's declarations")?;
-                Ok(ItemKind::Network { name, ports, body })
-            }
-            "region" => {
-                let name = self.ident("the region's name")?;
-                let args = self.arg_list("`(` and the region's material, size and cell counts")?;
-                let open = self.expect(Tok::LBrace, "`{` to open the region's edge attachments")?;
-                let mut edges = Vec::new();
-                while self.eat(Tok::RBrace).is_none() {
-                    if self.at_end() {
-                        return Err(Diagnostic::error(
-                            "E002",
-                            "this region is not closed",
-                            open.span,
-                        )
-                        .with_label("`{` opened here")
-                        .with_help("add `}` after the last edge attachment"));
-                    }
-                    let side = self.ident(
-                        "an edge (`left`, `right`, `bottom`, `top`) or face (`front`, `back`)",
-                    )?;
-                    self.expect(Tok::Colon, "`:` after the edge, as in `left: hot_bar`")?;
-                    let node = self.ident("the node this edge is attached to")?;
-                    let element = if self.peek() == Some(Tok::Ident)
-                        && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::LParen)
-                    {
-                        Some(self.element_call("an element such as `film(h = 10 W/(m^2*K))`")?)
-                    } else {
-                        None
-                    };
-                    let span = side.span.to(self.prev_end());
-                    edges.push(RegionEdge {
-                        side,
-                        node,
-                        element,
-                        span,
-                    });
-                }
-                Ok(ItemKind::Region { name, args, edges })
-            }
-            _ => {
-                let name = self.ident("the name of this use")?;
-                self.expect(Tok::Colon, "`:` after the name, as in `use kitchen: room_wall(inside = kitchen, outside = garden)`")?;
-                let network = self.ident("the sub-network to use")?;
-                let args = self.arg_list("`(` and the ports and parameters of the use")?;
-                Ok(ItemKind::Use {
-                    name,
-                    network,
-                    args,
-                })
+                self.expect(Tok::RParen, "`,` or `)` after a port name")?;
+                break;
             }
         }
+        let body = self.body("`{` to open the sub-network's declarations")?;
+        Ok(ItemKind::Network { name, ports, body })
+    }
+
+    fn region_item(&mut self) -> PResult<ItemKind> {
+        let name = self.ident("the region's name")?;
+        let args = self.arg_list("`(` and the region's material, size and cell counts")?;
+        let open = self.expect(Tok::LBrace, "`{` to open the region's edge attachments")?;
+        let mut edges = Vec::new();
+        while self.eat(Tok::RBrace).is_none() {
+            if self.at_end() {
+                return Err(Box::new(
+                    Diagnostic::error("E002", "this region is not closed", open.span)
+                        .with_label("`{` opened here")
+                        .with_help("add `}` after the last edge attachment"),
+                ));
+            }
+            let side =
+                self.ident("an edge (`left`, `right`, `bottom`, `top`) or face (`front`, `back`)")?;
+            self.expect(Tok::Colon, "`:` after the edge, as in `left: hot_bar`")?;
+            let node = self.ident("the node this edge is attached to")?;
+            let element = if self.peek() == Some(Tok::Ident)
+                && self.tokens.get(self.pos + 1).map(|t| t.kind) == Some(Tok::LParen)
+            {
+                Some(self.element_call("an element such as `film(h = 10 W/(m^2*K))`")?)
+            } else {
+                None
+            };
+            let span = side.span.to(self.prev_end());
+            edges.push(RegionEdge {
+                side,
+                node,
+                element,
+                span,
+            });
+        }
+        Ok(ItemKind::Region { name, args, edges })
+    }
+
+    fn use_item(&mut self) -> PResult<ItemKind> {
+        let name = self.ident("the name of this use")?;
+        self.expect(Tok::Colon, "`:` after the name, as in `use kitchen: room_wall(inside = kitchen, outside = garden)`")?;
+        let network = self.ident("the sub-network to use")?;
+        let args = self.arg_list("`(` and the ports and parameters of the use")?;
+        Ok(ItemKind::Use {
+            name,
+            network,
+            args,
+        })
     }
 
     /// `{ declarations }`; a broken declaration inside is skipped up to the next one or `}`.
     fn body(&mut self, expected: &str) -> PResult<Vec<Item>> {
         let open = self.expect(Tok::LBrace, expected)?;
+        if self.blocks >= MAX_BLOCK_DEPTH {
+            return Err(self.block_too_deep(open));
+        }
+        self.blocks += 1;
+        let items = self.body_items(open);
+        self.blocks -= 1;
+        items
+    }
+
+    /// A block nested deeper than [`MAX_BLOCK_DEPTH`]: skipped to its closing `}` without
+    /// reading what is inside (which is what would recurse), and reported once at its `{`.
+    #[cold]
+    #[inline(never)]
+    fn block_too_deep(&mut self, open: Token) -> Box<Diagnostic> {
+        let mut open_blocks = 1usize;
+        while let Some(k) = self.peek() {
+            self.bump();
+            match k {
+                Tok::LBrace => open_blocks += 1,
+                Tok::RBrace if open_blocks == 1 => break,
+                Tok::RBrace => open_blocks -= 1,
+                _ => {}
+            }
+        }
+        Box::new(
+            Diagnostic::error(
+                "E005",
+                format!("blocks nested more than {MAX_BLOCK_DEPTH} deep"),
+                open.span,
+            )
+            .with_label(format!("block level {} opens here", MAX_BLOCK_DEPTH + 1))
+            .with_help(format!(
+                "at most {MAX_BLOCK_DEPTH} levels of `repeat` and `network` blocks may nest; merge levels into one `repeat` with a larger count, or write a repetition of count 1 as its plain body"
+            )),
+        )
+    }
+
+    fn body_items(&mut self, open: Token) -> PResult<Vec<Item>> {
         let mut items = Vec::new();
         loop {
             match self.peek() {
@@ -802,18 +1004,18 @@ impl Parser<'_> {
                     return Ok(items);
                 }
                 None => {
-                    return Err(
+                    return Err(Box::new(
                         Diagnostic::error("E002", "this block is not closed", open.span)
                             .with_label("`{` opened here")
                             .with_help("add `}` after the block's last declaration"),
-                    )
+                    ))
                 }
                 Some(_) => {
                     let start = self.pos;
                     match self.item() {
                         Ok(item) => items.push(item),
                         Err(d) => {
-                            self.diags.push(d);
+                            self.diags.push(*d);
                             if self.pos == start {
                                 self.pos += 1;
                             }
@@ -828,18 +1030,6 @@ impl Parser<'_> {
                 }
             }
         }
-    }
-}
-
-fn binary(op: BinOp, lhs: Expr, rhs: Expr) -> Expr {
-    let span = lhs.span.to(rhs.span);
-    Expr {
-        kind: ExprKind::Binary {
-            op,
-            lhs: Box::new(lhs),
-            rhs: Box::new(rhs),
-        },
-        span,
     }
 }
 
@@ -869,13 +1059,15 @@ fn number_representable(text: &str, value: f64, span: Span) -> PResult<()> {
     } else {
         return Ok(());
     };
-    Err(Diagnostic::error(
-        "E004",
-        format!("`{text}` is a number {problem} to read"),
-        span,
-    )
-    .with_label(format!("number {problem}"))
-    .with_help(help))
+    Err(Box::new(
+        Diagnostic::error(
+            "E004",
+            format!("`{text}` is a number {problem} to read"),
+            span,
+        )
+        .with_label(format!("number {problem}"))
+        .with_help(help),
+    ))
 }
 
 #[cfg(test)]

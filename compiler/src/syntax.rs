@@ -10,13 +10,24 @@ pub struct Ident {
     pub span: Span,
 }
 
+/// The operators of a [`ExprKind::Chain`]: `+ -` (one level) and `* /` (the level above).
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
 pub enum BinOp {
     Add,
     Sub,
     Mul,
     Div,
-    Pow,
+}
+
+impl BinOp {
+    pub fn symbol(self) -> &'static str {
+        match self {
+            BinOp::Add => "+",
+            BinOp::Sub => "-",
+            BinOp::Mul => "*",
+            BinOp::Div => "/",
+        }
+    }
 }
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
@@ -29,10 +40,18 @@ pub enum ExprKind {
     },
     Name(Ident),
     Neg(Box<Expr>),
-    Binary {
-        op: BinOp,
-        lhs: Box<Expr>,
-        rhs: Box<Expr>,
+    /// `a + b - c` or `a * b / c`: operands of one precedence level applied left to right
+    /// (`((a + b) - c)`). Kept flat rather than as a left-deep tree of pairs so that a
+    /// generated sum of thousands of terms costs no recursion depth in anything that walks
+    /// the tree. Always at least one operator in `rest`.
+    Chain {
+        first: Box<Expr>,
+        rest: Vec<(BinOp, Expr)>,
+    },
+    /// `base ^ exponent`; right-associative (`a ^ b ^ c` is `a ^ (b ^ c)`).
+    Power {
+        base: Box<Expr>,
+        exponent: Box<Expr>,
     },
     Call {
         func: Ident,
@@ -43,10 +62,32 @@ pub enum ExprKind {
     Missing,
 }
 
+/// An expression. Its nesting is bounded by the parser (`parser::MAX_EXPR_DEPTH`), so
+/// recursive walks over it, derived `Clone`/`PartialEq`/`Debug` and drop are safe.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Expr {
     pub kind: ExprKind,
     pub span: Span,
+}
+
+impl Expr {
+    /// Every name the expression refers to (not function names), left to right.
+    pub fn visit_names<'e>(&'e self, f: &mut dyn FnMut(&'e Ident)) {
+        match &self.kind {
+            ExprKind::Name(id) => f(id),
+            ExprKind::Neg(x) | ExprKind::Paren(x) => x.visit_names(f),
+            ExprKind::Chain { first, rest } => {
+                first.visit_names(f);
+                rest.iter().for_each(|(_, x)| x.visit_names(f));
+            }
+            ExprKind::Power { base, exponent } => {
+                base.visit_names(f);
+                exponent.visit_names(f);
+            }
+            ExprKind::Call { args, .. } => args.iter().for_each(|x| x.visit_names(f)),
+            ExprKind::Number { .. } | ExprKind::Missing => {}
+        }
+    }
 }
 
 /// `name = value`, or a bare value for a kind's main argument.

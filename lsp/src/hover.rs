@@ -12,7 +12,6 @@ use caloris_compiler::elements::{self, ArgType, ElementKind, ParamSpec};
 use caloris_compiler::query::{format_significant, network_at, node_balance, target_at, Target};
 use caloris_compiler::span::FileId;
 use caloris_compiler::symbols::{Symbol, SymbolKind};
-use caloris_compiler::syntax::ItemKind;
 use caloris_compiler::units::{format_number, Dim, Quantity, TempKind, UnitSystem};
 use lsp::{Hover, HoverContents, MarkupContent, MarkupKind, Position};
 use std::fmt::Write;
@@ -153,8 +152,7 @@ fn steady_node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
     if let Some(t) = n.fixed {
         let _ = write!(out, "boundary, fixed at {}", both(point(t), sys));
     } else if n.generated {
-        let (link, element) = n.name.split_once('.').unwrap_or((&n.name, ""));
-        let _ = write!(out, "face after element `{element}` of link `{link}`");
+        out.push_str(&made_by(a, s));
     } else if n.load != 0.0 {
         let _ = write!(out, "free, heat load {}", both(q(n.load, Dim::POWER), sys));
     } else {
@@ -207,6 +205,27 @@ fn steady_node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
         }
     }
     out
+}
+
+/// What made a generated node, from its symbol's parent (the link or region that declares it):
+/// names themselves cannot tell, since a repetition or a use puts dots before the link's name
+/// (`row.2.north.inside`).
+fn made_by(a: &caloris_compiler::Analysis, s: &Symbol) -> String {
+    let Some(parent) = s.parent.as_deref() else {
+        return "made by a declaration".to_string();
+    };
+    let own = s
+        .name
+        .strip_prefix(parent)
+        .and_then(|r| r.strip_prefix('.'))
+        .unwrap_or(&s.name);
+    if a.network.group_id(parent).is_some() {
+        format!("face after element `{own}` of link `{parent}`")
+    } else if a.network.regions.iter().any(|r| r.name == parent) {
+        format!("cell or face `{own}` of region `{parent}`")
+    } else {
+        format!("internal node `{own}` of link `{parent}`")
+    }
 }
 
 fn signed(w: f64, sys: UnitSystem) -> String {
@@ -381,16 +400,17 @@ fn describe(v: Quantity) -> String {
 fn buildup(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
     let a = &snap.analysis;
     let mut out = format!("**build-up** `{}`", s.name);
-    let elements = a
-        .modules
+    // The build-up's elements are the symbols whose parent it is, in declaration order; found
+    // the same way wherever the build-up is declared (a file, a repetition, a sub-network).
+    let els: Vec<&Symbol> = a
+        .symbols
+        .symbols
         .iter()
-        .flat_map(|(_, m)| m.items.iter())
-        .find_map(|i| match &i.kind {
-            ItemKind::Buildup { name, elements } if name.span == s.def => Some(elements),
-            _ => None,
-        });
-    if let Some(els) = elements {
-        let text = a.sources.text(s.def.file);
+        .filter(|e| {
+            e.kind == SymbolKind::BuildupElement && e.parent.as_deref() == Some(s.name.as_str())
+        })
+        .collect();
+    if !els.is_empty() {
         let _ = writeln!(
             out,
             " — {} element{}, in order:",
@@ -398,12 +418,7 @@ fn buildup(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
             if els.len() == 1 { "" } else { "s" }
         );
         for e in els {
-            let _ = write!(
-                out,
-                "\n- `{}`: `{}`",
-                e.name.name,
-                &text[e.element.span.range()]
-            );
+            let _ = write!(out, "\n- `{}`: `{}`", e.name, element_call_text(snap, e));
         }
     }
     let users: Vec<usize> = a
@@ -431,19 +446,27 @@ fn buildup(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
     out
 }
 
+/// The element call of a build-up element as written (`layer(material = spruce, ...)`): its
+/// declaration after the name and the `:`.
+fn element_call_text<'s>(snap: &'s Snapshot, e: &Symbol) -> &'s str {
+    let text = snap.analysis.sources.text(e.decl.file);
+    text.get(e.def.end as usize..e.decl.end as usize)
+        .unwrap_or_default()
+        .trim_start()
+        .trim_start_matches(':')
+        .trim_start()
+}
+
 fn buildup_element(snap: &Snapshot, s: &Symbol) -> String {
     let parent = s.parent.as_deref().unwrap_or("?");
     let text = snap.analysis.sources.text(s.decl.file);
     let mut out = format!(
         "**element** `{}` of build-up `{parent}`\n\n```heat\n{}\n```",
         s.name,
-        &text[s.decl.range()]
+        text.get(s.decl.range()).unwrap_or_default()
     );
-    let kind = text[s.decl.range()]
-        .split(':')
-        .nth(1)
-        .and_then(|k| k.split('(').next())
-        .map(str::trim);
+    let call = element_call_text(snap, s);
+    let kind = call.split('(').next().map(str::trim);
     if let Some(kind) = kind.and_then(elements::lookup) {
         let _ = write!(out, "\n\n{}", kind.summary());
     }
@@ -461,7 +484,7 @@ fn limit(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
     let mut out = format!(
         "**limit** `{}`\n\n```heat\n{}\n```",
         s.name,
-        &text[s.decl.range()]
+        text.get(s.decl.range()).unwrap_or_default()
     );
     let Some(r) = a
         .solution

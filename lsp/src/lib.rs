@@ -15,6 +15,7 @@ pub mod formatting;
 pub mod hover;
 pub mod hover_transient;
 pub mod inlay_hints;
+pub mod isolate;
 pub mod link_figures;
 pub mod loader;
 pub mod navigation;
@@ -47,6 +48,9 @@ where
 pub fn run_stdio() -> std::io::Result<()> {
     let runtime = tokio::runtime::Builder::new_multi_thread()
         .enable_all()
+        // Requests read and drop syntax trees on these threads; give them the main thread's
+        // usual stack rather than the 2 MB default. Analyses get their own (see `isolate`).
+        .thread_stack_size(8 * 1024 * 1024)
         .build()?;
     runtime.block_on(serve(tokio::io::stdin(), tokio::io::stdout()));
     Ok(())

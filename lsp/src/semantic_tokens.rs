@@ -5,6 +5,7 @@ use crate::proto::lsp;
 use crate::snapshot::Snapshot;
 use caloris_compiler::query::{highlights, Class};
 use caloris_compiler::span::FileId;
+use caloris_compiler::span::LineCol;
 use caloris_compiler::symbols::SymbolKind;
 use lsp::{
     SemanticToken, SemanticTokenModifier, SemanticTokenType, SemanticTokens, SemanticTokensLegend,
@@ -65,12 +66,12 @@ fn encode_class(c: Class) -> (u32, u32) {
 
 /// All tokens of the document, encoded relative to each other as the protocol requires.
 pub fn semantic_tokens(snap: &Snapshot) -> SemanticTokens {
-    let lines = snap.lines(FileId(0));
+    let mut cursor = Cursor::new(snap.text());
     let mut data = Vec::new();
     let (mut prev_line, mut prev_start) = (0u32, 0u32);
     for h in highlights(&snap.analysis, FileId(0)) {
-        let start = lines.line_col_utf16(h.span.start);
-        let end = lines.line_col_utf16(h.span.end);
+        let start = cursor.at(h.span.start);
+        let end = cursor.at(h.span.end);
         // Tokens never span lines in this language; guard anyway.
         if end.line != start.line || end.col <= start.col {
             continue;
@@ -98,5 +99,65 @@ pub fn semantic_tokens(snap: &Snapshot) -> SemanticTokens {
     SemanticTokens {
         result_id: None,
         data,
+    }
+}
+
+/// Line and UTF-16 column of offsets visited in increasing order, each found by counting on
+/// from the one before. A generated line of a hundred thousand characters holds tens of
+/// thousands of tokens; counting each from the line's start would take minutes.
+struct Cursor<'t> {
+    text: &'t str,
+    offset: usize,
+    at: LineCol,
+}
+
+impl<'t> Cursor<'t> {
+    fn new(text: &'t str) -> Self {
+        Cursor {
+            text,
+            offset: 0,
+            at: LineCol { line: 0, col: 0 },
+        }
+    }
+
+    /// The position of `offset`; an offset before the last one (or inside a character) starts
+    /// the count again from the beginning of the text.
+    fn at(&mut self, offset: u32) -> LineCol {
+        let mut target = (offset as usize).min(self.text.len());
+        while !self.text.is_char_boundary(target) {
+            target -= 1;
+        }
+        if target < self.offset {
+            *self = Cursor::new(self.text);
+        }
+        for c in self.text[self.offset..target].chars() {
+            if c == '\n' {
+                self.at.line += 1;
+                self.at.col = 0;
+            } else {
+                self.at.col += c.len_utf16() as u32;
+            }
+        }
+        self.offset = target;
+        self.at
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::Cursor;
+    use caloris_compiler::span::LineIndex;
+
+    #[test]
+    fn the_cursor_agrees_with_the_line_index() {
+        let text = "node a (fixed = 20 °C)\n# naïve “quotes” 𝄞\nparam p = 1 m²\n";
+        let index = LineIndex::new(text);
+        let mut cursor = Cursor::new(text);
+        let offsets: Vec<u32> = (0..=text.len() as u32)
+            .filter(|&o| text.is_char_boundary(o as usize))
+            .collect();
+        for &o in offsets.iter().chain(offsets.iter().rev().step_by(7)) {
+            assert_eq!(cursor.at(o), index.line_col_utf16(o), "offset {o}");
+        }
     }
 }

@@ -1,5 +1,6 @@
 //! One analysis of one document version: what every feature reads.
 
+use crate::isolate::{guarded, INTERNAL_ERROR};
 use crate::loader::DocLoader;
 use crate::proto::{self, lsp, uri_path};
 use crate::settings::{Settings, Units};
@@ -7,7 +8,7 @@ use caloris_compiler::query::preferred_system;
 use caloris_compiler::span::{FileId, LineIndex, Span};
 use caloris_compiler::transient::{summarize, RunError, RunSummary};
 use caloris_compiler::units::UnitSystem;
-use caloris_compiler::{analyze, Analysis, Options};
+use caloris_compiler::{analyze, Analysis, Diagnostic, Options};
 use lsp::{Location, Position, Range, Uri};
 use std::sync::atomic::AtomicBool;
 use std::sync::OnceLock;
@@ -77,6 +78,70 @@ impl Snapshot {
             analysis,
             transient: OnceLock::new(),
         }
+    }
+
+    /// [`Snapshot::analyze`], except that a panic in the compiler does not escape: the
+    /// document then gets a final snapshot with an internal-error diagnostic ([`INTERNAL_ERROR`])
+    /// — holding the check of the text when only the solve failed, so names and hover keep
+    /// working, or else the bare text. Call it on a thread with the analysis stack
+    /// ([`crate::isolate::on_analysis_thread`]).
+    pub fn analyze_safely(
+        uri: Uri,
+        version: i32,
+        text: &str,
+        loader: &DocLoader,
+        check_only: bool,
+    ) -> Snapshot {
+        Snapshot::analyze_with(uri, version, text, check_only, &|uri, check| {
+            Snapshot::analyze(uri, version, text, loader, check)
+        })
+    }
+
+    /// [`Snapshot::analyze_safely`] with the analysis given, so tests can make it fail.
+    pub fn analyze_with(
+        uri: Uri,
+        version: i32,
+        text: &str,
+        check_only: bool,
+        analyze: &dyn Fn(Uri, bool) -> Snapshot,
+    ) -> Snapshot {
+        let failure = match guarded(|| analyze(uri.clone(), check_only)) {
+            Ok(snap) => return snap,
+            Err(message) => message,
+        };
+        let checked = if check_only {
+            None
+        } else {
+            guarded(|| analyze(uri.clone(), true)).ok()
+        };
+        let what = if checked.is_some() {
+            "solving this model"
+        } else {
+            "checking this file"
+        };
+        let mut snap = checked.unwrap_or_else(|| {
+            let name = uri_path(&uri)
+                .map(|p| p.display().to_string())
+                .unwrap_or_else(|| uri.as_str().to_string());
+            Snapshot {
+                uri,
+                version,
+                stage: Stage::Final,
+                analysis: Analysis::unanalysed(&name, text),
+                transient: OnceLock::new(),
+            }
+        });
+        snap.stage = Stage::Final;
+        snap.analysis.diagnostics.push(
+            Diagnostic::error(
+                INTERNAL_ERROR,
+                format!("internal error while {what}: {failure}"),
+                Span::new(FileId(0), 0, 0),
+            )
+            .with_label("internal error")
+            .with_help("this is a fault in Caloris, not in the model; the editor keeps working; please report the file"),
+        );
+        snap
     }
 
     /// True when the worker should run the model's transient run for this snapshot.

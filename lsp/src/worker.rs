@@ -3,6 +3,7 @@
 
 use crate::diagnostics;
 use crate::documents::Job;
+use crate::isolate::{on_analysis_thread, INTERNAL_ERROR};
 use crate::loader::DocLoader;
 use crate::proto::lsp;
 use crate::server::State;
@@ -26,25 +27,40 @@ async fn analyze(
     check_only: bool,
 ) -> Option<(Arc<Snapshot>, Vec<lsp::Diagnostic>)> {
     let (uri2, text, version) = (uri.clone(), job.text.clone(), job.version);
+    // Off the async runtime, on a thread with a known stack; a compiler panic becomes an
+    // internal-error diagnostic of this document (see `Snapshot::analyze_safely`).
     let done = tokio::task::spawn_blocking(move || {
-        let snap = Snapshot::analyze(uri2, version, &text, &loader, check_only);
-        let diags = diagnostics::to_lsp(&snap);
-        (Arc::new(snap), diags)
+        on_analysis_thread(|| {
+            let snap = Snapshot::analyze_safely(uri2, version, &text, &loader, check_only);
+            let diags = diagnostics::to_lsp(&snap);
+            (Arc::new(snap), diags)
+        })
     })
     .await;
-    match done {
-        Ok(v) => Some(v),
-        Err(e) => {
-            // The compiler should never panic; if it does, say so and keep serving.
-            client
-                .log_message(
-                    MessageType::ERROR,
-                    format!("caloris: analysis of {} failed: {e}", uri.as_str()),
-                )
-                .await;
-            None
-        }
-    }
+    let message = match done {
+        Ok(Ok(v)) => return Some(v),
+        Ok(Err(message)) => message,
+        Err(e) => e.to_string(),
+    };
+    // Only converting the diagnostics or starting the thread can get here; still say so in
+    // the document and keep serving.
+    client
+        .log_message(
+            MessageType::ERROR,
+            format!("caloris: analysis of {} failed: {message}", uri.as_str()),
+        )
+        .await;
+    let internal = lsp::Diagnostic {
+        severity: Some(lsp::DiagnosticSeverity::ERROR),
+        code: Some(lsp::NumberOrString::String(INTERNAL_ERROR.to_string())),
+        source: Some("caloris".into()),
+        message: format!("internal error: the analysis of this file failed: {message}"),
+        ..lsp::Diagnostic::default()
+    };
+    client
+        .publish_diagnostics(uri.clone(), vec![internal], Some(job.version))
+        .await;
+    None
 }
 
 /// Serve one document until it is closed.
@@ -114,7 +130,7 @@ pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::R
             });
         }
         if full.wants_transient() {
-            match transient(&full, &mut jobs).await {
+            match transient(&client, &full, &mut jobs).await {
                 Ran::Finished => {}
                 Ran::Superseded => pending = true,
                 Ran::Closed => return,
@@ -133,12 +149,33 @@ enum Ran {
 
 /// Run the snapshot's transient on a blocking thread, stopping it when a newer job arrives.
 /// Hover reads the result from the snapshot whenever it is there, so nothing is published.
-async fn transient(snap: &Arc<Snapshot>, jobs: &mut watch::Receiver<Job>) -> Ran {
+async fn transient(client: &Client, snap: &Arc<Snapshot>, jobs: &mut watch::Receiver<Job>) -> Ran {
     let cancel = Arc::new(AtomicBool::new(false));
     let (snap2, cancel2) = (snap.clone(), cancel.clone());
-    let run = tokio::task::spawn_blocking(move || snap2.run_transient(&cancel2));
+    let run = tokio::task::spawn_blocking(move || {
+        let failed = on_analysis_thread(|| snap2.run_transient(&cancel2)).err();
+        if failed.is_some() {
+            // No summary: hover then shows no run, rather than one running for ever.
+            let _ = snap2.transient.set(None);
+        }
+        failed
+    });
     tokio::select! {
-        _ = run => Ran::Finished,
+        done = run => {
+            let failed = match done {
+                Ok(failed) => failed,
+                Err(e) => Some(e.to_string()),
+            };
+            if let Some(message) = failed {
+                client
+                    .log_message(
+                        MessageType::ERROR,
+                        format!("caloris: the transient run of {} failed: {message}", snap.uri.as_str()),
+                    )
+                    .await;
+            }
+            Ran::Finished
+        }
         changed = jobs.changed() => {
             // The run sees the flag between steps and ends soon; its result is dropped.
             cancel.store(true, Ordering::Relaxed);

@@ -1,7 +1,9 @@
 //! Model files of the workspace folders that are not open, analysed (check only) for workspace
 //! symbols and for references and renames that cross files.
 
+use crate::isolate::on_analysis_thread;
 use crate::loader::DocLoader;
+use crate::proto::lsp::Uri;
 use crate::proto::path_uri;
 use crate::snapshot::Snapshot;
 use std::path::{Path, PathBuf};
@@ -48,22 +50,35 @@ fn walk(dir: &Path, depth: usize, out: &mut Vec<PathBuf>) {
     }
 }
 
-/// Check-only analyses of the given files (unreadable files are skipped).
+/// Check-only analyses of the given files (unreadable files are skipped), on one thread with
+/// the analysis stack. A file whose analysis fails keeps its place with an internal-error
+/// diagnostic, so the other files' results still count.
 pub fn analyze_files(paths: &[PathBuf], loader: &DocLoader) -> Vec<Arc<Snapshot>> {
-    paths
-        .iter()
-        .filter_map(|p| {
-            let text = match loader.open.get(p) {
-                Some(t) => t.to_string(),
-                None => std::fs::read_to_string(p).ok()?,
-            };
-            Some(Arc::new(Snapshot::analyze(
-                path_uri(p)?,
-                0,
-                &text,
-                loader,
-                true,
-            )))
-        })
-        .collect()
+    analyze_files_with(paths, loader, &|uri, text| {
+        Snapshot::analyze(uri, 0, text, loader, true)
+    })
+}
+
+/// [`analyze_files`] with the analysis of one file given, so tests can make one fail.
+pub fn analyze_files_with(
+    paths: &[PathBuf],
+    loader: &DocLoader,
+    analyze: &(dyn Fn(Uri, &str) -> Snapshot + Sync),
+) -> Vec<Arc<Snapshot>> {
+    let all = on_analysis_thread(|| {
+        paths
+            .iter()
+            .filter_map(|p| {
+                let text = match loader.open.get(p) {
+                    Some(t) => t.to_string(),
+                    None => std::fs::read_to_string(p).ok()?,
+                };
+                let uri = path_uri(p)?;
+                let snap =
+                    Snapshot::analyze_with(uri, 0, &text, true, &|uri, _| analyze(uri, &text));
+                Some(Arc::new(snap))
+            })
+            .collect()
+    });
+    all.unwrap_or_default()
 }

@@ -175,3 +175,55 @@ fn inlay_hints_label_nonlinear_resistance_and_region_range() {
         .collect();
     insta::assert_snapshot!(labels.join("\n"));
 }
+
+/// Greenhouse bays along a path (demo values): a build-up declared inside a repetition, so its
+/// faces get names with dots before the link's own (`bay.2.wall.inner`), and a region's cells.
+const BAYS: &str = "# Greenhouse bays along a path (demo values)
+material spruce (k = 0.12 W/(m*K))
+node bench   (fixed = 18 °C)
+node outdoor (fixed = 4 °C)
+repeat bay (count = 2) {
+  buildup panel {
+    inner: film(r = 0.13 m^2*K/W)
+    board: layer(spruce, thickness = 20 mm)
+  }
+  link wall: bench to outdoor panel(area = 3 m^2)
+}
+region shelf (spruce, thickness = 20 mm, width = 400 mm, height = 300 mm, cells_x = 2, cells_y = 1) {
+  left:  bench
+  right: outdoor
+}
+limit dry:  temperature(bay.2.wall.inner) > 5 °C
+limit warm: temperature(shelf.1.1) > 5 °C
+";
+
+fn bays_hover(needle: &str) -> String {
+    let i = BAYS.find(needle).unwrap_or_else(|| panic!("`{needle}`"));
+    let (snap, pos) = solved(&format!("{}$0{}", &BAYS[..i], &BAYS[i..]));
+    match hover::hover(&snap, pos, &Settings::default()).map(|h| h.contents) {
+        Some(HoverContents::Markup(m)) => m.value,
+        _ => panic!("a hover on `{needle}`"),
+    }
+}
+
+#[test]
+fn generated_nodes_name_what_made_them_from_the_symbol_table() {
+    let face = bays_hover("bay.2.wall.inner)");
+    assert!(
+        face.contains("face after element `inner` of link `bay.2.wall`"),
+        "{face}"
+    );
+    let cell = bays_hover("shelf.1.1)");
+    assert!(cell.contains("of region `shelf`"), "{cell}");
+    assert!(!cell.contains("element"), "{cell}");
+    // The build-up inside the repetition lists its own elements, and an element its kind.
+    let buildup = bays_hover("panel {");
+    assert!(buildup.contains("2 elements, in order"), "{buildup}");
+    assert!(
+        buildup.contains("- `board`: `layer(spruce, thickness = 20 mm)`"),
+        "{buildup}"
+    );
+    let element = bays_hover("board:");
+    assert!(element.contains("of build-up `bay.1.panel`"), "{element}");
+    assert!(element.contains("Fourier's law"), "{element}");
+}

@@ -160,7 +160,12 @@ fn in_expr(e: &Expr, offset: u32) -> Option<Target<'_>> {
             }
             _ => in_expr(inner, offset),
         },
-        ExprKind::Binary { lhs, rhs, .. } => in_expr(lhs, offset).or_else(|| in_expr(rhs, offset)),
+        ExprKind::Chain { first, rest } => {
+            in_expr(first, offset).or_else(|| rest.iter().find_map(|(_, x)| in_expr(x, offset)))
+        }
+        ExprKind::Power { base, exponent } => {
+            in_expr(base, offset).or_else(|| in_expr(exponent, offset))
+        }
         ExprKind::Paren(inner) => in_expr(inner, offset),
         ExprKind::Call { func, args } => {
             if func.span.contains(offset) {

@@ -131,9 +131,13 @@ fn visit_units(e: &Expr, f: &mut dyn FnMut(&str)) {
             unit: Some((u, _)), ..
         } => f(u),
         ExprKind::Neg(x) | ExprKind::Paren(x) => visit_units(x, f),
-        ExprKind::Binary { lhs, rhs, .. } => {
-            visit_units(lhs, f);
-            visit_units(rhs, f);
+        ExprKind::Chain { first, rest } => {
+            visit_units(first, f);
+            rest.iter().for_each(|(_, x)| visit_units(x, f));
+        }
+        ExprKind::Power { base, exponent } => {
+            visit_units(base, f);
+            visit_units(exponent, f);
         }
         ExprKind::Call { args, .. } => args.iter().for_each(|x| visit_units(x, f)),
         _ => {}
