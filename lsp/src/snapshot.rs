@@ -11,7 +11,7 @@ use caloris_compiler::units::UnitSystem;
 use caloris_compiler::{analyze, Analysis, Diagnostic, Options};
 use lsp::{Location, Position, Range, Uri};
 use std::sync::atomic::AtomicBool;
-use std::sync::OnceLock;
+use std::sync::{Arc, OnceLock};
 
 /// How far the analysis of a version has gone.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -54,6 +54,20 @@ impl Snapshot {
         loader: &DocLoader,
         check_only: bool,
     ) -> Snapshot {
+        Snapshot::analyze_until(uri, version, text, loader, check_only, None)
+    }
+
+    /// [`Snapshot::analyze`] that stops early once `cancel` is set (a newer edit has made
+    /// this version stale); a stopped snapshot has `analysis.cancelled` set and must not be
+    /// shown.
+    pub fn analyze_until(
+        uri: Uri,
+        version: i32,
+        text: &str,
+        loader: &DocLoader,
+        check_only: bool,
+        cancel: Option<Arc<AtomicBool>>,
+    ) -> Snapshot {
         let name = uri_path(&uri)
             .map(|p| p.display().to_string())
             .unwrap_or_else(|| uri.as_str().to_string());
@@ -63,6 +77,7 @@ impl Snapshot {
             loader,
             &Options {
                 check_only,
+                cancel,
                 ..Options::default()
             },
         );
@@ -91,9 +106,10 @@ impl Snapshot {
         text: &str,
         loader: &DocLoader,
         check_only: bool,
+        cancel: Option<Arc<AtomicBool>>,
     ) -> Snapshot {
         Snapshot::analyze_with(uri, version, text, check_only, &|uri, check| {
-            Snapshot::analyze(uri, version, text, loader, check)
+            Snapshot::analyze_until(uri, version, text, loader, check, cancel.clone())
         })
     }
 

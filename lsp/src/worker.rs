@@ -23,21 +23,29 @@ async fn analyze(
     client: &Client,
     uri: &Uri,
     job: &Job,
+    jobs: &watch::Receiver<Job>,
     loader: DocLoader,
     check_only: bool,
 ) -> Option<(Arc<Snapshot>, Vec<lsp::Diagnostic>)> {
     let (uri2, text, version) = (uri.clone(), job.text.clone(), job.version);
+    // A newer edit stops this analysis where the compiler next looks (between expansions,
+    // before the solve), so a slow model never holds back the analysis of what is typed next.
+    let (cancel, watcher) = cancel_on_newer(jobs);
     // Off the async runtime, on a thread with a known stack; a compiler panic becomes an
     // internal-error diagnostic of this document (see `Snapshot::analyze_safely`).
     let done = tokio::task::spawn_blocking(move || {
         on_analysis_thread(|| {
-            let snap = Snapshot::analyze_safely(uri2, version, &text, &loader, check_only);
+            let snap =
+                Snapshot::analyze_safely(uri2, version, &text, &loader, check_only, Some(cancel));
             let diags = diagnostics::to_lsp(&snap);
             (Arc::new(snap), diags)
         })
     })
     .await;
+    watcher.abort();
     let message = match done {
+        // Stale: the caller finds the newer job waiting and analyses that instead.
+        Ok(Ok((snap, _))) if snap.analysis.cancelled => return None,
         Ok(Ok(v)) => return Some(v),
         Ok(Err(message)) => message,
         Err(e) => e.to_string(),
@@ -63,6 +71,18 @@ async fn analyze(
     None
 }
 
+/// A flag that is set as soon as a job newer than the one `jobs` last saw arrives (or the
+/// document's channel closes), and the task that watches for it (abort it when done).
+fn cancel_on_newer(jobs: &watch::Receiver<Job>) -> (Arc<AtomicBool>, tokio::task::JoinHandle<()>) {
+    let cancel = Arc::new(AtomicBool::new(false));
+    let (flag, mut newer) = (cancel.clone(), jobs.clone());
+    let watcher = tokio::spawn(async move {
+        let _ = newer.changed().await;
+        flag.store(true, Ordering::Relaxed);
+    });
+    (cancel, watcher)
+}
+
 /// Serve one document until it is closed.
 pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::Receiver<Job>) {
     let mut pending = true;
@@ -79,7 +99,7 @@ pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::R
             return;
         }
         let loader = state.docs.loader();
-        let Some((check, diags)) = analyze(&client, &uri, &job, loader.clone(), true).await else {
+        let Some((check, diags)) = analyze(&client, &uri, &job, &jobs, loader.clone(), true).await else {
             continue;
         };
         if superseded(&jobs) {
@@ -107,7 +127,7 @@ pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::R
                 continue;
             }
         }
-        let Some((full, full_diags)) = analyze(&client, &uri, &job, loader, false).await else {
+        let Some((full, full_diags)) = analyze(&client, &uri, &job, &jobs, loader, false).await else {
             continue;
         };
         if superseded(&jobs) {
@@ -181,5 +201,53 @@ async fn transient(client: &Client, snap: &Arc<Snapshot>, jobs: &mut watch::Rece
             cancel.store(true, Ordering::Relaxed);
             if changed.is_ok() { Ran::Superseded } else { Ran::Closed }
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use std::time::Duration;
+
+    fn job(version: i32) -> Job {
+        Job {
+            version,
+            text: Arc::from("node a (fixed = 20 °C)\n"),
+            revision: 0,
+            closed: false,
+        }
+    }
+
+    /// The analysis of a version is told to stop when the next version arrives, and not
+    /// before.
+    #[tokio::test]
+    async fn a_newer_job_cancels_the_running_analysis() {
+        let (send, mut jobs) = watch::channel(job(1));
+        jobs.borrow_and_update();
+        let (cancel, watcher) = cancel_on_newer(&jobs);
+        tokio::time::sleep(Duration::from_millis(20)).await;
+        assert!(!cancel.load(Ordering::Relaxed), "no newer job yet");
+        send.send(job(2)).expect("send");
+        // The watcher runs on the runtime; give it the moment it needs, generously.
+        for _ in 0..500 {
+            if cancel.load(Ordering::Relaxed) {
+                break;
+            }
+            tokio::time::sleep(Duration::from_millis(10)).await;
+        }
+        assert!(cancel.load(Ordering::Relaxed), "the newer job set the flag");
+        watcher.await.expect("watcher ends");
+        // The analysis itself stops at its next look: nothing is solved for a stale version.
+        let loader = DocLoader::default();
+        let snap = Snapshot::analyze_until(
+            "file:///tmp/stale.heat".parse().expect("uri"),
+            1,
+            "node a (fixed = 20 °C)\nnode b (load = 1 W)\nlink l: a to b resistance(1 K/W)\n",
+            &loader,
+            false,
+            Some(cancel),
+        );
+        assert!(snap.analysis.cancelled);
+        assert!(snap.analysis.solution.is_none());
     }
 }
