@@ -8,13 +8,26 @@ use ariadne::{Color, Config, IndexType, Label, Report, ReportKind};
 /// (a terminal, and no `NO_COLOR`).
 pub fn render_diagnostics(diags: &[Diagnostic], sources: &Sources, colour: bool) -> String {
     let mut out = Vec::new();
+    // One cache for every report: building it splits each file into lines, and doing that per
+    // diagnostic made thousands of diagnostics on a large file take seconds.
+    let mut cache = ariadne::sources(
+        sources
+            .iter()
+            .map(|(_, n, t)| (n.to_string(), t.to_string())),
+    );
     for d in diags {
-        render_one(d, sources, colour, &mut out);
+        render_one(d, sources, colour, &mut cache, &mut out);
     }
     String::from_utf8_lossy(&out).into_owned()
 }
 
-fn render_one(d: &Diagnostic, sources: &Sources, colour: bool, out: &mut Vec<u8>) {
+fn render_one(
+    d: &Diagnostic,
+    sources: &Sources,
+    colour: bool,
+    cache: &mut impl ariadne::Cache<String>,
+    out: &mut Vec<u8>,
+) {
     let (kind, col) = match d.severity {
         Severity::Error => (ReportKind::Error, Color::Red),
         Severity::Warning => (ReportKind::Warning, Color::Yellow),
@@ -44,11 +57,6 @@ fn render_one(d: &Diagnostic, sources: &Sources, colour: bool, out: &mut Vec<u8>
     if let Some(h) = &d.help {
         report = report.with_help(h);
     }
-    let cache = ariadne::sources(
-        sources
-            .iter()
-            .map(|(_, n, t)| (n.to_string(), t.to_string())),
-    );
     // Writing into a Vec cannot fail; a failure here would only lose this one report.
     let _ = report.finish().write(cache, &mut *out);
 }

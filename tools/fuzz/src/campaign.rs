@@ -35,6 +35,19 @@ pub struct Totals {
     pub findings: u64,
     /// Executions spent minimizing findings (not counted in `execs`).
     pub minimize_execs: u64,
+    /// Executions by time taken: under 1 ms, 10 ms, 100 ms, 1 s, and longer.
+    pub times: [u64; 5],
+}
+
+impl Totals {
+    fn count_time(&mut self, d: Duration) {
+        let ms = d.as_secs_f64() * 1000.0;
+        let i = [1.0, 10.0, 100.0, 1000.0]
+            .iter()
+            .position(|&limit| ms < limit)
+            .unwrap_or(4);
+        self.times[i] += 1;
+    }
 }
 
 pub fn run(settings: &Settings, seeds: &[Seed]) -> std::io::Result<(Totals, Store)> {
@@ -54,6 +67,7 @@ pub fn run(settings: &Settings, seeds: &[Seed]) -> std::io::Result<(Totals, Stor
         restarts: 0,
         findings: 0,
         minimize_execs: 0,
+        times: [0; 5],
     };
     let done = |t: &Totals| {
         settings.execs.is_some_and(|n| t.execs >= n)
@@ -81,6 +95,7 @@ pub fn run(settings: &Settings, seeds: &[Seed]) -> std::io::Result<(Totals, Stor
         };
         let outcome = exec(&mut worker, &input, settings, &mut t)?;
         t.execs += 1;
+        t.count_time(outcome.elapsed);
         if let Some(f) = &outcome.features {
             if features.insert(f.clone()) && i >= seeds.len() && input.len() <= MAX_KEPT_BYTES {
                 t.kept += 1;

@@ -115,15 +115,16 @@ impl Worker {
                     } else if let Some(f) = line.strip_prefix("f ") {
                         findings.extend(Finding::parse(f));
                     } else if let Some(d) = line.strip_prefix("d ") {
-                        let mut parts = d.splitn(3, ' ');
+                        let mut parts = d.splitn(4, ' ');
                         let us: u64 = parts.next().and_then(|v| v.parse().ok()).unwrap_or(0);
                         let growth: u64 = parts.next().and_then(|v| v.parse().ok()).unwrap_or(0);
+                        let slowest = parts.next().unwrap_or("?");
                         let features = parts.next().unwrap_or("-").to_string();
                         let elapsed = Duration::from_micros(us);
                         if elapsed > limits.budget {
                             findings.push(Finding::new(
                                 "slow",
-                                &stage,
+                                slowest,
                                 "",
                                 format!("took {:.2} s (budget {:.2} s)", elapsed.as_secs_f64(), limits.budget.as_secs_f64()),
                             ));

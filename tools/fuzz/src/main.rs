@@ -126,6 +126,8 @@ fn real_main() -> Result<ExitCode, String> {
         t.restarts,
         t.minimize_execs
     );
+    let [a, b, c, d, e] = t.times;
+    println!("time per input: {a} under 1 ms, {b} under 10 ms, {c} under 100 ms, {d} under 1 s, {e} longer");
     println!(
         "findings: {} in total, {} distinct",
         t.findings,
@@ -134,9 +136,10 @@ fn real_main() -> Result<ExitCode, String> {
     for r in store.records.values() {
         let f = &r.finding;
         println!(
-            "  {:<14} {:<8} x{:<5} {} — {} [{}]",
+            "  {:<14} {:<8} {:<24} x{:<5} {} — {} [{}]",
             f.kind,
             f.stage,
+            f.key,
             r.count,
             r.file.display(),
             f.detail,

@@ -5,30 +5,46 @@
 //!
 //! Protocol. In: `LEN\n` then LEN bytes, per input. Out: `ready RSS_KB`, then per input
 //! `s STAGE` before each stage, `f KIND STAGE KEY<TAB>DETAIL` per problem and
-//! `d MICROSECONDS PEAK_GROWTH_KB FEATURES` when done.
+//! `d MICROSECONDS PEAK_GROWTH_KB SLOWEST_STAGE FEATURES` when done.
 
 use crate::oracle::{exercise, Observer, Problem};
 use crate::proc_mem;
 use std::io::{BufRead, Read, Write};
 use std::time::Instant;
 
-struct Out<'a>(&'a mut dyn Write);
+/// Writes the protocol lines and keeps the slowest stage.
+struct Out<'a> {
+    w: &'a mut dyn Write,
+    current: (&'static str, Instant),
+    slowest: (&'static str, u128),
+}
+
+impl Out<'_> {
+    fn end_stage(&mut self) {
+        let us = self.current.1.elapsed().as_micros();
+        if us >= self.slowest.1 {
+            self.slowest = (self.current.0, us);
+        }
+    }
+}
 
 impl Observer for Out<'_> {
     fn stage(&mut self, name: &'static str) {
-        let _ = writeln!(self.0, "s {name}");
-        let _ = self.0.flush();
+        self.end_stage();
+        self.current = (name, Instant::now());
+        let _ = writeln!(self.w, "s {name}");
+        let _ = self.w.flush();
     }
     fn problem(&mut self, p: Problem) {
         let _ = writeln!(
-            self.0,
+            self.w,
             "f {} {} {}\t{}",
             p.kind,
             p.stage,
             one_line(&p.key),
             one_line(&p.detail)
         );
-        let _ = self.0.flush();
+        let _ = self.w.flush();
     }
 }
 
@@ -71,11 +87,18 @@ fn serve_on_this_thread() -> std::io::Result<()> {
         proc_mem::reset_peak();
         let before = proc_mem::own();
         let start = Instant::now();
-        let trace = exercise(&text, &mut Out(&mut out));
+        let mut obs = Out {
+            w: &mut out,
+            current: ("start", start),
+            slowest: ("start", 0),
+        };
+        let trace = exercise(&text, &mut obs);
+        obs.end_stage();
+        let slowest = obs.slowest.0;
         let us = start.elapsed().as_micros();
         let after = proc_mem::own();
         let growth = after.peak_kb.saturating_sub(before.rss_kb);
-        writeln!(out, "d {us} {growth} {}", trace.features())?;
+        writeln!(out, "d {us} {growth} {slowest} {}", trace.features())?;
         out.flush()?;
     }
 }
