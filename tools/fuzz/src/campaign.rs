@@ -141,7 +141,12 @@ pub fn run(settings: &Settings, seeds: &[Seed]) -> std::io::Result<(Totals, Stor
 }
 
 /// One input through the worker, starting a new worker when the last one died.
-fn exec(worker: &mut Worker, input: &str, settings: &Settings, t: &mut Totals) -> std::io::Result<Outcome> {
+fn exec(
+    worker: &mut Worker,
+    input: &str,
+    settings: &Settings,
+    t: &mut Totals,
+) -> std::io::Result<Outcome> {
     match worker.run(input.as_bytes(), &settings.limits) {
         Ok(o) => Ok(o),
         Err(o) => {
@@ -179,7 +184,11 @@ fn minimize(
                     return Ok(best);
                 }
                 let end = (i + chunk).min(units.len());
-                let candidate: String = units[..i].iter().chain(&units[end..]).map(String::as_str).collect();
+                let candidate: String = units[..i]
+                    .iter()
+                    .chain(&units[end..])
+                    .map(String::as_str)
+                    .collect();
                 tries_left -= 1;
                 t.minimize_execs += 1;
                 let o = exec(worker, &candidate, settings, t)?;

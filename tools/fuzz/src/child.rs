@@ -51,9 +51,18 @@ impl Worker {
             .stdout(Stdio::piped())
             .stderr(Stdio::piped())
             .spawn()?;
-        let stdin = child.stdin.take().ok_or_else(|| std::io::Error::other("no stdin"))?;
-        let stdout = child.stdout.take().ok_or_else(|| std::io::Error::other("no stdout"))?;
-        let mut err = child.stderr.take().ok_or_else(|| std::io::Error::other("no stderr"))?;
+        let stdin = child
+            .stdin
+            .take()
+            .ok_or_else(|| std::io::Error::other("no stdin"))?;
+        let stdout = child
+            .stdout
+            .take()
+            .ok_or_else(|| std::io::Error::other("no stdout"))?;
+        let mut err = child
+            .stderr
+            .take()
+            .ok_or_else(|| std::io::Error::other("no stderr"))?;
         let (tx, lines) = channel();
         std::thread::spawn(move || {
             for line in BufReader::new(stdout).lines() {
@@ -126,7 +135,11 @@ impl Worker {
                                 "slow",
                                 slowest,
                                 "",
-                                format!("took {:.2} s (budget {:.2} s)", elapsed.as_secs_f64(), limits.budget.as_secs_f64()),
+                                format!(
+                                    "took {:.2} s (budget {:.2} s)",
+                                    elapsed.as_secs_f64(),
+                                    limits.budget.as_secs_f64()
+                                ),
                             ));
                         }
                         if growth > limits.memory_kb {
@@ -165,7 +178,10 @@ impl Worker {
                             "timeout",
                             &stage,
                             "",
-                            format!("still running after {:.0} s; killed", limits.hang.as_secs_f64()),
+                            format!(
+                                "still running after {:.0} s; killed",
+                                limits.hang.as_secs_f64()
+                            ),
                         ));
                         return Err(self.outcome(findings, start));
                     }

@@ -55,9 +55,11 @@ impl Finding {
 /// repetitions, sub-network uses, regions and transient outputs expand into. `None` for
 /// anything else, which is new.
 pub fn known_class(f: &Finding, input: &str) -> Option<&'static str> {
-    let has = |w: &str| caloris_compiler::lexer::lex(input, caloris_compiler::span::FileId(0))
-        .iter()
-        .any(|t| &input[t.span.start as usize..t.span.end as usize] == w);
+    let has = |w: &str| {
+        caloris_compiler::lexer::lex(input, caloris_compiler::span::FileId(0))
+            .iter()
+            .any(|t| &input[t.span.start as usize..t.span.end as usize] == w)
+    };
     match f.kind.as_str() {
         "stack-overflow" => Some("recursion depth of the parser and evaluator"),
         "non-finite" => Some("non-finite numbers"),
@@ -113,7 +115,13 @@ impl Store {
 
     /// Save a new finding: the minimized input as `KIND-STAGE-HASH.heat`, the original beside it
     /// and a description.
-    pub fn add(&mut self, f: Finding, original: &str, minimized: &str, origin: &str) -> std::io::Result<()> {
+    pub fn add(
+        &mut self,
+        f: Finding,
+        original: &str,
+        minimized: &str,
+        origin: &str,
+    ) -> std::io::Result<()> {
         let hash = crate::rng::hash(f.signature().as_bytes());
         let stem = format!("{}-{}-{:08x}", f.kind, f.stage, hash as u32);
         let file = self.dir.join(format!("{stem}.heat"));
@@ -129,7 +137,12 @@ impl Store {
         writeln!(d, "detail:  {}", f.detail)?;
         writeln!(d, "known:   {}", known.unwrap_or("no (new)"))?;
         writeln!(d, "origin:  {origin}")?;
-        writeln!(d, "input:   {} bytes, minimized to {} bytes", original.len(), minimized.len())?;
+        writeln!(
+            d,
+            "input:   {} bytes, minimized to {} bytes",
+            original.len(),
+            minimized.len()
+        )?;
         writeln!(d, "replay:  caloris-fuzz --replay {}", file.display())?;
         self.records.insert(
             f.signature(),

@@ -62,7 +62,10 @@ fn real_main() -> Result<ExitCode, String> {
     let mut it = args.iter();
     while let Some(a) = it.next() {
         let mut value = || it.next().ok_or_else(|| format!("{a} needs a value"));
-        let num = |v: &str| v.parse::<f64>().map_err(|_| format!("{a}: not a number: {v}"));
+        let num = |v: &str| {
+            v.parse::<f64>()
+                .map_err(|_| format!("{a}: not a number: {v}"))
+        };
         match a.as_str() {
             "--help" | "-h" => {
                 println!("{HELP}");
@@ -143,7 +146,9 @@ fn real_main() -> Result<ExitCode, String> {
             r.count,
             r.file.display(),
             f.detail,
-            r.known.map(|k| format!("known: {k}")).unwrap_or_else(|| "new".into())
+            r.known
+                .map(|k| format!("known: {k}"))
+                .unwrap_or_else(|| "new".into())
         );
     }
     Ok(if store.records.is_empty() {
@@ -186,5 +191,9 @@ fn replay_files(files: &[PathBuf], limits: &Limits) -> Result<ExitCode, String> 
             );
         }
     }
-    Ok(if any { ExitCode::from(1) } else { ExitCode::SUCCESS })
+    Ok(if any {
+        ExitCode::from(1)
+    } else {
+        ExitCode::SUCCESS
+    })
 }

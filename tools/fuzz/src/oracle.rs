@@ -110,10 +110,9 @@ pub fn exercise(text: &str, obs: &mut dyn Observer) -> Trace {
         if let Some(Some(result)) = guarded(obs, "run", || summarize(&a, &cancel)) {
             trace.ran = result.is_ok();
             if let Ok(s) = result {
-                let bad = s
-                    .nodes
-                    .iter()
-                    .any(|n| !(n.final_k.is_finite() && n.max_k.is_finite() && n.min_k.is_finite()));
+                let bad = s.nodes.iter().any(|n| {
+                    !(n.final_k.is_finite() && n.max_k.is_finite() && n.min_k.is_finite())
+                });
                 if bad {
                     obs.problem(Problem {
                         kind: "non-finite",
@@ -176,7 +175,10 @@ pub fn span_problems(a: &Analysis) -> Vec<Problem> {
         }
     }
     for sym in &a.symbols.symbols {
-        for s in [sym.def, sym.decl].into_iter().chain(sym.refs.iter().copied()) {
+        for s in [sym.def, sym.decl]
+            .into_iter()
+            .chain(sym.refs.iter().copied())
+        {
             if !span_ok(&a.sources, s) {
                 out.push(Problem {
                     kind: "span",
@@ -244,7 +246,10 @@ fn format_problem(text: &str, trace: &mut Trace) -> Option<Problem> {
         Err(d) => Some(Problem {
             kind: "format",
             stage: "format",
-            key: format!("output rejected {}", d.first().map(|d| d.code).unwrap_or("?")),
+            key: format!(
+                "output rejected {}",
+                d.first().map(|d| d.code).unwrap_or("?")
+            ),
             detail: format!(
                 "the formatter's output does not parse: {}",
                 d.first().map(|d| d.message.as_str()).unwrap_or("?")

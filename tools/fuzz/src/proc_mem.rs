@@ -23,7 +23,13 @@ fn read(path: &str) -> Mem {
     let field = |name: &str| {
         text.lines()
             .find_map(|l| l.strip_prefix(name))
-            .and_then(|rest| rest.trim().trim_end_matches("kB").trim().parse::<u64>().ok())
+            .and_then(|rest| {
+                rest.trim()
+                    .trim_end_matches("kB")
+                    .trim()
+                    .parse::<u64>()
+                    .ok()
+            })
             .unwrap_or(0)
     };
     Mem {

@@ -79,7 +79,9 @@ fn serve_on_this_thread() -> std::io::Result<()> {
             return Ok(());
         }
         let Ok(len) = header.trim().parse::<usize>() else {
-            return Err(std::io::Error::other(format!("bad frame header {header:?}")));
+            return Err(std::io::Error::other(format!(
+                "bad frame header {header:?}"
+            )));
         };
         let mut bytes = vec![0; len];
         input.read_exact(&mut bytes)?;
