@@ -6,7 +6,7 @@ use crate::findings::{Finding, Store};
 use crate::mutate::Mutator;
 use crate::rng::Rng;
 use crate::seeds::Seed;
-use std::collections::HashSet;
+use std::collections::{BTreeMap, HashSet};
 use std::path::PathBuf;
 use std::time::{Duration, Instant};
 
@@ -37,6 +37,8 @@ pub struct Totals {
     pub minimize_execs: u64,
     /// Executions by time taken: under 1 ms, 10 ms, 100 ms, 1 s, and longer.
     pub times: [u64; 5],
+    /// Time spent in each stage, over the inputs that finished.
+    pub stage_time: BTreeMap<String, Duration>,
 }
 
 impl Totals {
@@ -68,6 +70,7 @@ pub fn run(settings: &Settings, seeds: &[Seed]) -> std::io::Result<(Totals, Stor
         findings: 0,
         minimize_execs: 0,
         times: [0; 5],
+        stage_time: BTreeMap::new(),
     };
     let done = |t: &Totals| {
         settings.execs.is_some_and(|n| t.execs >= n)
@@ -96,6 +99,9 @@ pub fn run(settings: &Settings, seeds: &[Seed]) -> std::io::Result<(Totals, Stor
         let outcome = exec(&mut worker, &input, settings, &mut t)?;
         t.execs += 1;
         t.count_time(outcome.elapsed);
+        for (name, d) in &outcome.stages {
+            *t.stage_time.entry(name.clone()).or_default() += *d;
+        }
         if let Some(f) = &outcome.features {
             if features.insert(f.clone()) && i >= seeds.len() && input.len() <= MAX_KEPT_BYTES {
                 t.kept += 1;

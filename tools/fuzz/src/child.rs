@@ -25,6 +25,8 @@ pub struct Limits {
 /// The result of one input.
 pub struct Outcome {
     pub findings: Vec<Finding>,
+    /// Time spent in each stage the input finished.
+    pub stages: Vec<(String, Duration)>,
     /// Coverage features (`None` when the worker did not finish the input).
     pub features: Option<String>,
     pub elapsed: Duration,
@@ -112,6 +114,7 @@ impl Worker {
             .and_then(|_| self.stdin.flush());
         let mut stage = "start".to_string();
         let mut findings = Vec::new();
+        let mut stages = Vec::new();
         if sent.is_err() {
             return Err(self.death(stage, findings, start));
         }
@@ -121,6 +124,11 @@ impl Worker {
                 Ok(line) => {
                     if let Some(s) = line.strip_prefix("s ") {
                         stage = s.to_string();
+                    } else if let Some(t) = line.strip_prefix("t ") {
+                        if let Some((name, us)) = t.split_once(' ') {
+                            let us = us.parse().unwrap_or(0);
+                            stages.push((name.to_string(), Duration::from_micros(us)));
+                        }
                     } else if let Some(f) = line.strip_prefix("f ") {
                         findings.extend(Finding::parse(f));
                     } else if let Some(d) = line.strip_prefix("d ") {
@@ -152,6 +160,7 @@ impl Worker {
                         }
                         return Ok(Outcome {
                             findings,
+                            stages,
                             features: Some(features),
                             elapsed,
                         });
@@ -193,6 +202,7 @@ impl Worker {
     fn outcome(&self, findings: Vec<Finding>, start: Instant) -> Outcome {
         Outcome {
             findings,
+            stages: Vec::new(),
             features: None,
             elapsed: start.elapsed(),
         }

@@ -9,6 +9,7 @@
 
 pub mod campaign;
 pub mod child;
+pub mod editor;
 pub mod findings;
 pub mod mutate;
 pub mod oracle;
@@ -17,3 +18,9 @@ pub mod proc_mem;
 pub mod rng;
 pub mod seeds;
 pub mod worker;
+
+/// The command line's result reports (table, JSON, CSV), compiled from its own source file so
+/// the fuzzer checks the very code `caloris solve` runs (the CLI is a binary, not a library).
+#[path = "../../../src/output.rs"]
+#[allow(dead_code)]
+pub mod output;

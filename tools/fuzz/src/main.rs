@@ -131,6 +131,14 @@ fn real_main() -> Result<ExitCode, String> {
     );
     let [a, b, c, d, e] = t.times;
     println!("time per input: {a} under 1 ms, {b} under 10 ms, {c} under 100 ms, {d} under 1 s, {e} longer");
+    let busy: f64 = t.stage_time.values().map(Duration::as_secs_f64).sum();
+    let mut by_stage: Vec<_> = t.stage_time.iter().collect();
+    by_stage.sort_by(|a, b| b.1.cmp(a.1));
+    let shares: Vec<String> = by_stage
+        .iter()
+        .map(|(name, d)| format!("{name} {:.0}%", 100.0 * d.as_secs_f64() / busy.max(1e-9)))
+        .collect();
+    println!("time by stage: {}", shares.join(", "));
     println!(
         "findings: {} in total, {} distinct",
         t.findings,

@@ -1,17 +1,22 @@
 //! What one input is put through, in the order the tools do it: analysis with the solve (as
-//! `caloris solve` and the language server), span checks, rendering, editor queries, the
-//! formatter and the first transient run. Each stage is announced before it starts, so a crash
-//! that kills the process is pinned to its stage.
+//! `caloris solve` and the language server), span checks, rendering, the command line's result
+//! reports, editor queries (the compiler's and the language server's features), the formatter
+//! and the first transient run, after which the editor is asked again. Each stage is announced
+//! before it starts, so a crash that kills the process is pinned to its stage.
 
+use crate::output;
 use caloris_compiler::format::format_source;
 use caloris_compiler::query;
 use caloris_compiler::render::render_diagnostics;
-use caloris_compiler::source::{NoImports, Sources};
+use caloris_compiler::source::Sources;
 use caloris_compiler::span::{FileId, Span};
-use caloris_compiler::transient::summarize;
-use caloris_compiler::{analyze, Analysis, Options};
+use caloris_compiler::units::UnitSystem;
+use caloris_compiler::Analysis;
+use caloris_lsp::loader::DocLoader;
+use caloris_lsp::snapshot::Snapshot;
 use std::collections::BTreeSet;
 use std::sync::atomic::AtomicBool;
+use std::sync::Arc;
 
 /// A problem found without the process dying: a caught panic, a span outside its text, a
 /// non-finite result reported as a success, a formatter that does not reach a fixed point.
@@ -63,16 +68,25 @@ pub trait Observer {
 pub fn exercise(text: &str, obs: &mut dyn Observer) -> Trace {
     let mut trace = Trace::default();
     obs.stage("analyze");
-    let Some(a) = guarded(obs, "analyze", || {
-        analyze("fuzz.heat", text, &NoImports, &Options::default())
+    // The analysis the language server makes of an open document (the full one, with the
+    // solve); the command line's is the same call with its own loader.
+    let Some(snap) = guarded(obs, "analyze", || {
+        Arc::new(Snapshot::analyze(
+            crate::editor::doc_uri(),
+            1,
+            text,
+            &DocLoader::default(),
+            false,
+        ))
     }) else {
         return trace;
     };
+    let a = &snap.analysis;
     trace.codes = a.diagnostics.iter().map(|d| d.code).collect();
     trace.solved = a.solution.is_some();
 
     obs.stage("spans");
-    for p in span_problems(&a) {
+    for p in span_problems(a) {
         obs.problem(p);
     }
     if let Some(sol) = &a.solution {
@@ -96,18 +110,38 @@ pub fn exercise(text: &str, obs: &mut dyn Observer) -> Trace {
         render_diagnostics(&a.diagnostics, &a.sources, false).len()
     });
 
+    // What `caloris solve` prints: JSON always (it reports errors too), the table and CSV of
+    // a model without errors.
+    obs.stage("output");
+    guarded(obs, "output", || {
+        let mut n = output::json(a).len();
+        if !a.has_errors() && a.solution.is_some() {
+            n += output::table(a, UnitSystem::Si, false).len();
+            n += output::table(a, UnitSystem::Us, true).len();
+            n += output::csv(a, UnitSystem::Si).len();
+        }
+        n
+    });
+
+    let offsets = crate::editor::offsets(text, a.diagnostics.iter().map(|d| d.primary.span));
     obs.stage("query");
-    guarded(obs, "query", || queries(&a, text));
+    guarded(obs, "query", || queries(a, text, &offsets));
+
+    obs.stage("editor");
+    guarded(obs, "editor", || crate::editor::features(&snap, &offsets));
 
     obs.stage("format");
     if let Some(p) = guarded(obs, "format", || format_problem(text, &mut trace)).flatten() {
         obs.problem(p);
     }
 
-    if !a.has_errors() && !a.studies.runs.is_empty() {
+    if snap.wants_transient() {
         obs.stage("run");
         let cancel = AtomicBool::new(false);
-        if let Some(Some(result)) = guarded(obs, "run", || summarize(&a, &cancel)) {
+        if guarded(obs, "run", || snap.run_transient(&cancel)).is_none() {
+            return trace;
+        }
+        if let Some(Some(result)) = snap.transient.get() {
             trace.ran = result.is_ok();
             if let Ok(s) = result {
                 let bad = s.nodes.iter().any(|n| {
@@ -123,6 +157,11 @@ pub fn exercise(text: &str, obs: &mut dyn Observer) -> Trace {
                 }
             }
         }
+        // Hovers and inlay hints now show the run's figures.
+        obs.stage("editor-run");
+        guarded(obs, "editor-run", || {
+            crate::editor::features(&snap, &offsets)
+        });
     }
     trace
 }
@@ -196,23 +235,12 @@ pub fn span_problems(a: &Analysis) -> Vec<Problem> {
     out
 }
 
-/// The questions an editor asks, at a few places picked from the text itself.
-fn queries(a: &Analysis, text: &str) -> usize {
+/// The compiler's own editor queries (what the language server builds on), at `offsets`.
+fn queries(a: &Analysis, text: &str, offsets: &[usize]) -> usize {
     let file = FileId(0);
-    let mut offsets: Vec<usize> = a
-        .diagnostics
-        .iter()
-        .take(4)
-        .map(|d| d.primary.span.start as usize)
-        .collect();
-    let mut h = crate::rng::hash(text.as_bytes());
-    for _ in 0..6 {
-        h = h.rotate_left(17).wrapping_mul(0x9E37_79B9_7F4A_7C15);
-        offsets.push((h % (text.len() as u64 + 1)) as usize);
-    }
     let mut n = query::highlights(a, file).len();
-    for mut off in offsets {
-        off = off.min(text.len());
+    for &off in offsets {
+        let mut off = off.min(text.len());
         while !text.is_char_boundary(off) {
             off -= 1;
         }

@@ -10,13 +10,20 @@ pub fn install_hook() {
     std::panic::set_hook(Box::new(|info| {
         let location = info
             .location()
-            .map(|l| format!("{}:{}", l.file(), l.line()))
+            .map(|l| format!("{}:{}", repo_path(l.file()), l.line()))
             .unwrap_or_else(|| "unknown location".into());
         let message = message_of(info.payload());
         if let Ok(mut last) = LAST.lock() {
             *last = Some((location, message));
         }
     }));
+}
+
+/// A source path as the repository names it: the CLI's report module is compiled into the
+/// fuzzer by a relative path (see `lib.rs`).
+fn repo_path(file: &str) -> &str {
+    file.strip_prefix("tools/fuzz/src/../../../")
+        .unwrap_or(file)
 }
 
 fn message_of(payload: &(dyn std::any::Any + Send)) -> String {

@@ -5,7 +5,8 @@
 //!
 //! Protocol. In: `LEN\n` then LEN bytes, per input. Out: `ready RSS_KB`, then per input
 //! `s STAGE` before each stage, `f KIND STAGE KEY<TAB>DETAIL` per problem and
-//! `d MICROSECONDS PEAK_GROWTH_KB SLOWEST_STAGE FEATURES` when done.
+//! `t STAGE MICROSECONDS` per stage run and `d MICROSECONDS PEAK_GROWTH_KB SLOWEST_STAGE
+//! FEATURES` when done.
 
 use crate::oracle::{exercise, Observer, Problem};
 use crate::proc_mem;
@@ -22,6 +23,9 @@ struct Out<'a> {
 impl Out<'_> {
     fn end_stage(&mut self) {
         let us = self.current.1.elapsed().as_micros();
+        if self.current.0 != "start" {
+            let _ = writeln!(self.w, "t {} {us}", self.current.0);
+        }
         if us >= self.slowest.1 {
             self.slowest = (self.current.0, us);
         }
