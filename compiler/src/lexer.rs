@@ -137,22 +137,23 @@ fn number_with_unit(lex: &mut logos::Lexer<Tok>) -> u32 {
         prev = c;
     }
     // Do not swallow a trailing operator or an open bracket that belongs to the expression.
+    // The bracket counts are kept as the end moves back, so a unit followed by thousands of
+    // brackets is trimmed in one pass, not one count of the text per bracket.
     let mut text = &unit[..end];
-    while let Some(last) = text.chars().last() {
-        if matches!(last, '*' | '/' | '^' | '·' | '⋅' | '(') && depth_ok(text) {
+    let mut open = text.matches('(').count();
+    let close = text.matches(')').count();
+    while let Some(last) = text.chars().next_back() {
+        if matches!(last, '*' | '/' | '^' | '·' | '⋅' | '(') && open >= close {
             text = &text[..text.len() - last.len_utf8()];
+            if last == '(' {
+                open -= 1;
+            }
         } else {
             break;
         }
     }
     lex.bump(after_space + text.len());
     num_len
-}
-
-fn depth_ok(text: &str) -> bool {
-    let open = text.matches('(').count();
-    let close = text.matches(')').count();
-    open >= close
 }
 
 /// One token with its place in the file.
@@ -272,6 +273,31 @@ mod tests {
             ]
         );
         assert_eq!(kinds("3 m²·K/W"), vec![(Tok::Number(1), "3 m²·K/W")]);
+    }
+
+    #[test]
+    fn trailing_operators_and_brackets_stay_out_of_the_unit() {
+        assert_eq!(
+            kinds("2 mm(("),
+            vec![
+                (Tok::Number(1), "2 mm"),
+                (Tok::LParen, "("),
+                (Tok::LParen, "(")
+            ]
+        );
+        assert_eq!(
+            kinds("2 W/(m*K)**"),
+            vec![
+                (Tok::Number(1), "2 W/(m*K)"),
+                (Tok::Star, "*"),
+                (Tok::Star, "*")
+            ]
+        );
+        // Trimming a long tail is one pass (it counted the brackets again per character).
+        let long = format!("2 mm{}{}", "(".repeat(50_000), "*".repeat(50_000));
+        let toks = lex(&long, FileId(0));
+        assert_eq!(toks.len(), 100_001);
+        assert_eq!(&long[toks[0].span.range()], "2 mm");
     }
 
     #[test]
