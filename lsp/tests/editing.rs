@@ -280,6 +280,55 @@ fn semantic_tokens_cover_the_line_with_utf16_columns() {
     insta::assert_snapshot!(out);
 }
 
+/// Thousands of tokens on one line, with characters of one and two UTF-16 units before and
+/// among them: every token's position is the one the line index gives for it alone (the
+/// tokens are counted along the line, so a long line is not walked once per token).
+#[test]
+fn semantic_tokens_on_a_long_line_match_the_line_index() {
+    let terms: Vec<String> = (0..1000)
+        .map(|i| {
+            if i % 7 == 0 {
+                format!("{i} °C")
+            } else {
+                format!("{i} K")
+            }
+        })
+        .collect();
+    let src = format!(
+        "$0# façade 😀 test\nparam sum_😀 = {}\n  node café (fixed = 20 °C) # ok\n",
+        terms.join(" + ")
+    );
+    let (snap, _) = analyse(&src);
+    let tokens = semantic_tokens::semantic_tokens(&snap);
+    let lines = snap.lines(caloris_compiler::span::FileId(0));
+    let expected: Vec<(u32, u32, u32)> =
+        caloris_compiler::query::highlights(&snap.analysis, caloris_compiler::span::FileId(0))
+            .iter()
+            .map(|h| {
+                let a = lines.line_col_utf16(h.span.start);
+                let b = lines.line_col_utf16(h.span.end);
+                (a.line, a.col, b.col - a.col)
+            })
+            .filter(|&(_, _, len)| len > 0)
+            .collect();
+    let (mut line, mut col) = (0u32, 0u32);
+    let got: Vec<(u32, u32, u32)> = tokens
+        .data
+        .iter()
+        .map(|t| {
+            line += t.delta_line;
+            col = if t.delta_line == 0 {
+                col + t.delta_start
+            } else {
+                t.delta_start
+            };
+            (line, col, t.length)
+        })
+        .collect();
+    assert!(got.len() > 2000, "{} tokens", got.len());
+    assert_eq!(got, expected);
+}
+
 fn actions_at(src: &str) -> String {
     let (snap, pos) = analyse(src);
     let range = Range {
