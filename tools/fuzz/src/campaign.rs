@@ -16,6 +16,8 @@ pub struct Settings {
     pub seed: u64,
     pub out: PathBuf,
     pub limits: Limits,
+    /// Mutated inputs stay at most this large.
+    pub max_input_bytes: usize,
     /// Time allowed to minimize one new finding.
     pub minimize: Duration,
     /// Report every this often on standard error.
@@ -53,7 +55,8 @@ impl Totals {
 }
 
 pub fn run(settings: &Settings, seeds: &[Seed]) -> std::io::Result<(Totals, Store)> {
-    let mutator = Mutator::new(seeds.iter().map(|s| s.text.as_str()));
+    let mut mutator = Mutator::new(seeds.iter().map(|s| s.text.as_str()));
+    mutator.max_bytes = settings.max_input_bytes;
     let mut rng = Rng::new(settings.seed);
     let mut store = Store::new(&settings.out)?;
     let mut pool: Vec<String> = seeds.iter().map(|s| s.text.clone()).collect();

@@ -22,6 +22,7 @@ usage: caloris-fuzz [OPTIONS]
   --out DIR           where findings go (default target/fuzz-findings)
   --corpus DIR        add the .heat files below DIR as seeds (repeatable)
   --no-default-corpus leave out examples/, tests/cases/ and tests/fuzz-found/
+  --max-input-kb N    keep mutated inputs at most N KiB (default 256)
   --budget-ms N       report inputs slower than N ms (default 2000)
   --hang-seconds N    kill an input after N s and report a hang (default 10)
   --memory-mb N       report inputs that grow memory by more than N MB (default 500)
@@ -57,6 +58,7 @@ fn real_main() -> Result<ExitCode, String> {
         stack_mb: 2,
     };
     let mut minimize = Duration::from_secs(30);
+    let mut max_input_bytes = caloris_fuzz::mutate::MAX_INPUT_BYTES;
     let mut replay: Option<Vec<PathBuf>> = None;
     let mut worker = false;
     let mut it = args.iter();
@@ -78,6 +80,7 @@ fn real_main() -> Result<ExitCode, String> {
             "--out" => out = PathBuf::from(value()?),
             "--corpus" => corpus.push(PathBuf::from(value()?)),
             "--no-default-corpus" => default_corpus = false,
+            "--max-input-kb" => max_input_bytes = (num(value()?)? * 1024.0) as usize,
             "--budget-ms" => limits.budget = Duration::from_secs_f64(num(value()?)? / 1000.0),
             "--hang-seconds" => limits.hang = Duration::from_secs_f64(num(value()?)?),
             "--memory-mb" => limits.memory_kb = (num(value()?)? * 1024.0) as u64,
@@ -110,6 +113,7 @@ fn real_main() -> Result<ExitCode, String> {
         seed,
         out,
         limits,
+        max_input_bytes,
         minimize,
         status_every: Duration::from_secs(10),
     };
@@ -179,10 +183,16 @@ fn replay_files(files: &[PathBuf], limits: &Limits) -> Result<ExitCode, String> 
                 o
             }
         };
+        let stages: Vec<String> = outcome
+            .stages
+            .iter()
+            .map(|(name, d)| format!("{name} {:.3}", d.as_secs_f64()))
+            .collect();
         println!(
-            "{}: {:.3} s, {}",
+            "{}: {:.3} s ({}), {}",
             f.display(),
             outcome.elapsed.as_secs_f64(),
+            stages.join(", "),
             outcome.features.as_deref().unwrap_or("did not finish")
         );
         for finding in &outcome.findings {

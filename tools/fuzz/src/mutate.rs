@@ -5,7 +5,8 @@ use crate::rng::Rng;
 use caloris_compiler::lexer::{lex, Tok, Token};
 use caloris_compiler::span::FileId;
 
-/// Mutated inputs are kept below this size so one input cannot take a campaign's memory.
+/// Mutated inputs are kept below this size (unless told otherwise) so one input cannot take a
+/// campaign's memory.
 pub const MAX_INPUT_BYTES: usize = 256 * 1024;
 
 /// Words of the language that a seed may not contain.
@@ -178,6 +179,8 @@ const CHARS: &[&str] = &[
 pub struct Mutator {
     words: Vec<String>,
     lines: Vec<String>,
+    /// A mutation that would make the input larger than this is dropped.
+    pub max_bytes: usize,
 }
 
 impl Mutator {
@@ -202,7 +205,11 @@ impl Mutator {
         words.dedup();
         lines.sort();
         lines.dedup();
-        Mutator { words, lines }
+        Mutator {
+            words,
+            lines,
+            max_bytes: MAX_INPUT_BYTES,
+        }
     }
 
     /// `base` changed by one to four mutations; `other` is a second seed for splices.
@@ -211,7 +218,7 @@ impl Mutator {
         let n = 1 + rng.below(4);
         for _ in 0..n {
             let next = self.once(rng, &text, other);
-            if next.len() <= MAX_INPUT_BYTES {
+            if next.len() <= self.max_bytes {
                 text = next;
             }
         }
