@@ -1,0 +1,304 @@
+//! Property tests of robustness: arbitrary text and arbitrary sequences of the language's tokens
+//! go through analysis (with the solve), rendering, the editor queries and the formatter
+//! without a panic, every diagnostic span lies inside the text, and whatever the formatter
+//! accepts it formats to a fixed point. The same holds for the bundled examples after random
+//! token edits. (The mutation fuzzer in tools/fuzz goes further, with extreme sizes and numbers
+//! in a worker process; these stay small so they run in the ordinary suite.)
+
+use caloris_compiler::format::format_source;
+use caloris_compiler::lexer::lex;
+use caloris_compiler::query;
+use caloris_compiler::render::render_diagnostics;
+use caloris_compiler::source::NoImports;
+use caloris_compiler::span::FileId;
+use caloris_compiler::{analyze, Options};
+use proptest::prelude::*;
+use std::path::PathBuf;
+
+/// Everything a tool does with a text, none of which may panic; spans must lie inside it.
+fn exercise(text: &str) {
+    let a = analyze("prop.heat", text, &NoImports, &Options::default());
+    for d in &a.diagnostics {
+        if d.primary.span.file == FileId(0) {
+            let (s, e) = (d.primary.span.start as usize, d.primary.span.end as usize);
+            assert!(
+                s <= e && e <= text.len() && text.is_char_boundary(s) && text.is_char_boundary(e),
+                "{} `{}` has the span {s}..{e} in a text of {} bytes",
+                d.code,
+                d.message,
+                text.len()
+            );
+        }
+    }
+    render_diagnostics(&a.diagnostics, &a.sources, false);
+    query::highlights(&a, FileId(0));
+    let mut offsets: Vec<usize> = vec![0, text.len() / 3, text.len() / 2, text.len()];
+    offsets.extend(
+        a.diagnostics
+            .iter()
+            .take(3)
+            .map(|d| d.primary.span.start as usize),
+    );
+    for mut off in offsets {
+        off = off.min(text.len());
+        while !text.is_char_boundary(off) {
+            off -= 1;
+        }
+        query::completion_context(text, off as u32);
+        if let Some(query::Target::Symbol { symbol, .. }) =
+            query::target_at(&a, FileId(0), off as u32)
+        {
+            if query::check_new_name(&a, symbol, "renamed").is_ok() {
+                query::rename_edits(&a, symbol, "renamed");
+            }
+        }
+    }
+    assert_fixed_point(text);
+}
+
+/// Text the formatter accepts formats to text it formats to itself.
+fn assert_fixed_point(text: &str) {
+    if let Ok(once) = format_source(text) {
+        match format_source(&once) {
+            Ok(twice) => assert_eq!(twice, once, "formatting again changed the text:\n{text}"),
+            Err(d) => panic!(
+                "the formatter's output does not parse ({}: {}):\n--- input\n{text}\n--- output\n{once}",
+                d[0].code, d[0].message
+            ),
+        }
+    }
+}
+
+/// Words and marks of the language, numbers with units, names and layout. Counts stay small
+/// so that repetitions cannot multiply into sizes this test does not mean to measure.
+const VOCAB: &[&str] = &[
+    "title",
+    "import",
+    "param",
+    "material",
+    "node",
+    "link",
+    "buildup",
+    "limit",
+    "to",
+    "repeat",
+    "network",
+    "use",
+    "transient",
+    "case",
+    "region",
+    "schedule",
+    "capacity",
+    "initial",
+    "fixed",
+    "load",
+    "duration",
+    "step",
+    "output",
+    "table",
+    "count",
+    "k",
+    "h",
+    "r",
+    "area",
+    "thickness",
+    "layer",
+    "film",
+    "contact",
+    "cylinder",
+    "sphere",
+    "radiation",
+    "fin",
+    "temperature",
+    "heat_flow",
+    "sqrt",
+    "min",
+    "pi",
+    "a",
+    "b",
+    "room",
+    "wall",
+    "x.y",
+    "i",
+    "(",
+    ")",
+    "{",
+    "}",
+    ",",
+    ":",
+    "=",
+    "+",
+    "-",
+    "*",
+    "/",
+    "^",
+    "<",
+    ">=",
+    "±",
+    "\"text\"",
+    "\"",
+    "# note",
+    "\n",
+    "\n\n",
+    "0",
+    "1",
+    "2",
+    "3",
+    "0.5",
+    "12.5 mm",
+    "20 °C",
+    "-5 °C",
+    "0.04 W/(m*K)",
+    "3 m²",
+    "150 W",
+    "0.13 m^2*K/W",
+    "2 h",
+    "10 min",
+    "1e-3",
+    ".5",
+    "5 K",
+    "°",
+    "µm",
+    "é",
+    "\t",
+];
+
+fn token_text() -> impl Strategy<Value = String> {
+    prop::collection::vec((0..VOCAB.len(), 0..4u8), 0..120).prop_map(|toks| {
+        let mut s = String::new();
+        for (i, sep) in toks {
+            s.push_str(VOCAB[i]);
+            s.push_str(["", " ", " ", "\n"][sep as usize]);
+        }
+        s
+    })
+}
+
+fn examples() -> Vec<String> {
+    let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../examples");
+    let mut files: Vec<PathBuf> = std::fs::read_dir(&dir)
+        .expect("the examples folder")
+        .flatten()
+        .map(|e| e.path())
+        .filter(|p| p.extension().is_some_and(|e| e == "heat"))
+        .collect();
+    files.sort();
+    files
+        .iter()
+        .map(|p| std::fs::read_to_string(p).expect("an example"))
+        .collect()
+}
+
+/// Numbers with units that may replace a number of a model.
+const NUMBERS: &[&str] = &[
+    "0",
+    "1",
+    "2.5",
+    "0.5 m",
+    "12.5 mm",
+    "20 °C",
+    "-5 °C",
+    "0.04 W/(m*K)",
+    "3 m²",
+    "150 W",
+    "0.13 m^2*K/W",
+    "2 h",
+    "10 min",
+    "1e-3",
+    "5 K",
+    "68 °F",
+    "1 Btu/h",
+    "0.9",
+];
+
+/// One edit of a text at its `n`th token: delete it, repeat it, put a word before it, swap it
+/// with the next one, or (edits that mostly keep the syntax, so the formatter gets to work)
+/// replace a number, repeat or delete its line, or put a comment or a blank line before it.
+fn edit(text: &str, n: usize, what: u8, word: usize) -> String {
+    let toks = lex(text, FileId(0));
+    if toks.is_empty() {
+        return VOCAB[word].to_string();
+    }
+    let i = n % toks.len();
+    let t = toks[i];
+    let (s, e) = (t.span.start as usize, t.span.end as usize);
+    let line_start = text[..s].rfind('\n').map_or(0, |p| p + 1);
+    let line_end = text[e..].find('\n').map_or(text.len(), |p| e + p + 1);
+    match what % 8 {
+        0 => format!("{}{}", &text[..s], &text[e..]),
+        1 => format!("{}{}", &text[..e], &text[s..]),
+        2 => format!("{}{} {}", &text[..s], VOCAB[word], &text[s..]),
+        3 => match toks.get(i + 1) {
+            Some(u) => {
+                let (us, ue) = (u.span.start as usize, u.span.end as usize);
+                format!(
+                    "{}{}{}{}{}",
+                    &text[..s],
+                    &text[us..ue],
+                    &text[e..us],
+                    &text[s..e],
+                    &text[ue..]
+                )
+            }
+            None => text.to_string(),
+        },
+        4 => match toks[i..]
+            .iter()
+            .find(|u| matches!(u.kind, caloris_compiler::lexer::Tok::Number(_)))
+        {
+            Some(u) => format!(
+                "{}{}{}",
+                &text[..u.span.start as usize],
+                NUMBERS[word % NUMBERS.len()],
+                &text[u.span.end as usize..]
+            ),
+            None => text.to_string(),
+        },
+        5 => format!("{}{}", &text[..line_end], &text[line_start..]),
+        6 => format!("{}{}", &text[..line_start], &text[line_end..]),
+        _ => {
+            let insert = if word % 2 == 0 { "# an edit\n" } else { "\n" };
+            format!("{}{insert}{}", &text[..line_start], &text[line_start..])
+        }
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 1000, ..ProptestConfig::default() })]
+
+    #[test]
+    fn arbitrary_text_never_panics(text in "\\PC{0,300}") {
+        exercise(&text);
+    }
+
+    #[test]
+    fn text_of_the_languages_characters_never_panics(
+        text in "[a-z0-9_ .,:=(){}+*/^<>#\"\n°µ²-]{0,300}"
+    ) {
+        exercise(&text);
+    }
+
+    #[test]
+    fn arbitrary_token_sequences_never_panic(text in token_text()) {
+        exercise(&text);
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 300, ..ProptestConfig::default() })]
+
+    /// Random token edits of the bundled examples: analysis never panics, and whatever still
+    /// parses the formatter formats to a fixed point.
+    #[test]
+    fn edited_examples_never_panic_and_format_to_a_fixed_point(
+        which in 0usize..64,
+        edits in prop::collection::vec((any::<usize>(), any::<u8>(), 0..VOCAB.len()), 1..5),
+    ) {
+        let all = examples();
+        let mut text = all[which % all.len()].clone();
+        for (n, what, word) in edits {
+            text = edit(&text, n, what, word);
+        }
+        exercise(&text);
+    }
+}
