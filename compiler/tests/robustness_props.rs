@@ -257,7 +257,11 @@ fn edit(text: &str, n: usize, what: u8, word: usize) -> String {
         5 => format!("{}{}", &text[..line_end], &text[line_start..]),
         6 => format!("{}{}", &text[..line_start], &text[line_end..]),
         _ => {
-            let insert = if word % 2 == 0 { "# an edit\n" } else { "\n" };
+            let insert = if word.is_multiple_of(2) {
+                "# an edit\n"
+            } else {
+                "\n"
+            };
             format!("{}{insert}{}", &text[..line_start], &text[line_start..])
         }
     }

@@ -21,7 +21,7 @@ usage: caloris-fuzz [OPTIONS]
   --seed S            random seed (default 1); the same seed makes the same inputs
   --out DIR           where findings go (default target/fuzz-findings)
   --corpus DIR        add the .heat files below DIR as seeds (repeatable)
-  --no-default-corpus leave out examples/, tests/cases/ and tests/fuzz-found/
+  --no-default-corpus leave out examples/ and tests/cases/ (reliability/ included)
   --max-input-kb N    keep mutated inputs at most N KiB (default 256)
   --budget-ms N       report inputs slower than N ms (default 2000)
   --hang-seconds N    kill an input after N s and report a hang (default 10)
@@ -98,7 +98,7 @@ fn real_main() -> Result<ExitCode, String> {
         return replay_files(&files, &limits);
     }
     if default_corpus {
-        corpus.extend(["examples", "tests/cases", "tests/fuzz-found"].map(|d| repo.join(d)));
+        corpus.extend(["examples", "tests/cases"].map(|d| repo.join(d)));
     }
     let seeds = seeds::load(&corpus);
     if seeds.is_empty() {
