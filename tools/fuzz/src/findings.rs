@@ -64,11 +64,18 @@ pub fn known_class(f: &Finding, input: &str) -> Option<&'static str> {
     match f.kind.as_str() {
         "stack-overflow" => Some("recursion depth of the parser and evaluator"),
         // Links of a build-up use whose node is unknown have no ends to name.
-        "panic" if f.key.starts_with("src/output.rs:") => {
+        "panic"
+            if f.key.starts_with("src/output.rs:") && f.detail.contains("index out of bounds") =>
+        {
             Some("JSON report of a model with build-up link errors")
         }
         "non-finite" => Some("non-finite numbers"),
-        "memory" | "alloc-failure" | "timeout" | "slow" => {
+        // Only the analysis is where expansion size is the cause (`peak` is the whole input's
+        // memory): the same class seen in a later stage means that stage does not scale with
+        // the network, which is new.
+        "memory" | "alloc-failure" | "timeout" | "slow"
+            if matches!(f.stage.as_str(), "analyze" | "peak") =>
+        {
             if has("repeat") || has("use") || has("network") {
                 Some("expansion size (repeat, network, use)")
             } else if has("region") {

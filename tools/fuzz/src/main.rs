@@ -45,6 +45,7 @@ fn main() -> ExitCode {
 fn real_main() -> Result<ExitCode, String> {
     let args: Vec<String> = std::env::args().skip(1).collect();
     let repo = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../..");
+    let repo = repo.canonicalize().unwrap_or(repo);
     let mut seconds = None;
     let mut execs = None;
     let mut seed = 1u64;
