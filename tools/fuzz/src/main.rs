@@ -26,7 +26,8 @@ usage: caloris-fuzz [OPTIONS]
   --budget-ms N       report inputs slower than N ms (default 2000)
   --hang-seconds N    kill an input after N s and report a hang (default 10)
   --memory-mb N       report inputs that grow memory by more than N MB (default 500)
-  --stack-mb N        stack of the worker thread (default 2, the language server's)
+  --stack-mb N        stack of the worker thread (default 2: the compiler must stay within
+                      2 MiB; the language server gives its analyses more)
   --minimize-seconds N  time to minimize each new finding (default 30)
   --replay FILE...    run these inputs once and print what they do
 

@@ -1,6 +1,6 @@
 //! The child process of a campaign: reads inputs from standard input, puts each through
-//! [`oracle::exercise`] on a thread with the language server's stack size, and writes one line
-//! per stage, problem and finished input to standard output. A crash kills only this process;
+//! [`oracle::exercise`] on a thread with a 2 MiB stack (what the compiler must fit in), and
+//! writes one line per stage, problem and finished input to standard output. A crash kills only this process;
 //! the parent sees which input and stage it was.
 //!
 //! Protocol. In: `LEN\n` then LEN bytes, per input. Out: `ready RSS_KB`, then per input
