@@ -20,6 +20,8 @@ pub struct Limits {
     /// Growth of the worker's memory that makes a finding (and a kill), kB.
     pub memory_kb: u64,
     pub stack_mb: usize,
+    /// The analysis's size budget (`Options::size_budget`; `None` for the default).
+    pub size_budget: Option<u64>,
 }
 
 /// The result of one input.
@@ -46,8 +48,12 @@ const STDERR_TAIL: usize = 4096;
 impl Worker {
     pub fn start(limits: &Limits) -> std::io::Result<Worker> {
         let exe = std::env::current_exe()?;
-        let mut child = Command::new(exe)
-            .args(["--worker", "--stack-mb", &limits.stack_mb.to_string()])
+        let mut command = Command::new(exe);
+        command.args(["--worker", "--stack-mb", &limits.stack_mb.to_string()]);
+        if let Some(b) = limits.size_budget {
+            command.args(["--size-budget", &b.to_string()]);
+        }
+        let mut child = command
             .env("RUST_BACKTRACE", "0")
             .stdin(Stdio::piped())
             .stdout(Stdio::piped())

@@ -28,6 +28,8 @@ usage: caloris-fuzz [OPTIONS]
   --memory-mb N       report inputs that grow memory by more than N MB (default 500)
   --stack-mb N        stack of the worker thread (default 2: the compiler must stay within
                       2 MiB; the language server gives its analyses more)
+  --size-budget N     most declarations a model may expand to (default the compiler's,
+                      5 000 000); smaller keeps slow builds quick
   --minimize-seconds N  time to minimize each new finding (default 30)
   --replay FILE...    run these inputs once and print what they do
 
@@ -58,6 +60,7 @@ fn real_main() -> Result<ExitCode, String> {
         hang: Duration::from_secs(10),
         memory_kb: 500 * 1024,
         stack_mb: 2,
+        size_budget: None,
     };
     let mut minimize = Duration::from_secs(30);
     let mut max_input_bytes = caloris_fuzz::mutate::MAX_INPUT_BYTES;
@@ -86,6 +89,7 @@ fn real_main() -> Result<ExitCode, String> {
             "--budget-ms" => limits.budget = Duration::from_secs_f64(num(value()?)? / 1000.0),
             "--hang-seconds" => limits.hang = Duration::from_secs_f64(num(value()?)?),
             "--memory-mb" => limits.memory_kb = (num(value()?)? * 1024.0) as u64,
+            "--size-budget" => limits.size_budget = Some(num(value()?)? as u64),
             "--stack-mb" => limits.stack_mb = num(value()?)?.max(1.0) as usize,
             "--minimize-seconds" => minimize = Duration::from_secs_f64(num(value()?)?),
             "--replay" => replay = Some(it.by_ref().map(PathBuf::from).collect()),
@@ -93,7 +97,8 @@ fn real_main() -> Result<ExitCode, String> {
         }
     }
     if worker {
-        caloris_fuzz::worker::serve(limits.stack_mb).map_err(|e| e.to_string())?;
+        caloris_fuzz::worker::serve(limits.stack_mb, limits.size_budget)
+            .map_err(|e| e.to_string())?;
         return Ok(ExitCode::SUCCESS);
     }
     if let Some(files) = replay {

@@ -11,12 +11,12 @@ use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::source::Sources;
 use caloris_compiler::span::{FileId, Span};
 use caloris_compiler::units::UnitSystem;
-use caloris_compiler::Analysis;
+use caloris_compiler::{analyze, Analysis, Options};
 use caloris_lsp::loader::DocLoader;
-use caloris_lsp::snapshot::Snapshot;
+use caloris_lsp::snapshot::{Snapshot, Stage};
 use std::collections::BTreeSet;
 use std::sync::atomic::AtomicBool;
-use std::sync::Arc;
+use std::sync::{Arc, OnceLock};
 
 /// A problem found without the process dying: a caught panic, a span outside its text, a
 /// non-finite result reported as a success, a formatter that does not reach a fixed point.
@@ -64,20 +64,32 @@ pub trait Observer {
     fn problem(&mut self, p: Problem);
 }
 
-/// Run every stage on `text`, each under `catch_unwind`.
-pub fn exercise(text: &str, obs: &mut dyn Observer) -> Trace {
+/// Run every stage on `text`, each under `catch_unwind`; `size_budget` as in `Options`.
+pub fn exercise(text: &str, size_budget: Option<u64>, obs: &mut dyn Observer) -> Trace {
     let mut trace = Trace::default();
     obs.stage("analyze");
     // The analysis the language server makes of an open document (the full one, with the
-    // solve); the command line's is the same call with its own loader.
+    // solve, as `Snapshot::analyze` makes it but with the budget given); the command line's is
+    // the same call with its own loader.
     let Some(snap) = guarded(obs, "analyze", || {
-        Arc::new(Snapshot::analyze(
-            crate::editor::doc_uri(),
-            1,
+        let uri = crate::editor::doc_uri();
+        let options = Options {
+            size_budget,
+            ..Options::default()
+        };
+        let analysis = analyze(
+            crate::editor::DOC_PATH,
             text,
             &DocLoader::default(),
-            false,
-        ))
+            &options,
+        );
+        Arc::new(Snapshot {
+            uri,
+            version: 1,
+            stage: Stage::Final,
+            analysis,
+            transient: OnceLock::new(),
+        })
     }) else {
         return trace;
     };

@@ -58,18 +58,18 @@ pub fn one_line(s: &str) -> String {
 
 /// Serve inputs until standard input closes. `stack_mb` is the stack of the thread that runs
 /// them.
-pub fn serve(stack_mb: usize) -> std::io::Result<()> {
+pub fn serve(stack_mb: usize, size_budget: Option<u64>) -> std::io::Result<()> {
     crate::panics::install_hook();
     let worker = std::thread::Builder::new()
         .name("fuzz-worker".into())
         .stack_size(stack_mb << 20)
-        .spawn(serve_on_this_thread)?;
+        .spawn(move || serve_on_this_thread(size_budget))?;
     worker
         .join()
         .map_err(|_| std::io::Error::other("worker thread ended abnormally"))?
 }
 
-fn serve_on_this_thread() -> std::io::Result<()> {
+fn serve_on_this_thread(size_budget: Option<u64>) -> std::io::Result<()> {
     let stdin = std::io::stdin();
     let mut input = stdin.lock();
     let stdout = std::io::stdout();
@@ -98,7 +98,7 @@ fn serve_on_this_thread() -> std::io::Result<()> {
             current: ("start", start),
             slowest: ("start", 0),
         };
-        let trace = exercise(&text, &mut obs);
+        let trace = exercise(&text, size_budget, &mut obs);
         obs.end_stage();
         let slowest = obs.slowest.0;
         let us = start.elapsed().as_micros();
