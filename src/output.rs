@@ -224,6 +224,20 @@ impl MeasureDim for caloris_compiler::limits::LimitResult {
 pub fn json(a: &Analysis) -> String {
     let net = &a.network;
     let sol = a.solution.as_ref();
+    // Looked up per node and per link: index them once, so the report stays linear in the
+    // model's size (a row of 40 000 fins has as many figures as links).
+    let mut boundary_heat = vec![None; net.nodes.len()];
+    for &(node, q) in sol.map(|s| s.boundary_heat.as_slice()).unwrap_or_default() {
+        if let Some(slot) = boundary_heat.get_mut(node) {
+            slot.get_or_insert(q);
+        }
+    }
+    let mut figures_of = vec![serde_json::Map::new(); net.links.len()];
+    for f in &net.figures {
+        if let Some(m) = figures_of.get_mut(f.link) {
+            m.insert(f.name.to_string(), json!(f.value));
+        }
+    }
     let nodes: Vec<Value> = net
         .nodes
         .iter()
@@ -235,7 +249,7 @@ pub fn json(a: &Analysis) -> String {
                 "fixed": n.fixed.is_some(),
                 "heat_load_W": n.load,
                 "balance_W": sol.map(|s| if n.fixed.is_some() { 0.0 } else { s.residuals[i] }),
-                "boundary_heat_W": sol.and_then(|s| s.boundary_heat.iter().find(|b| b.0 == i).map(|b| b.1)),
+                "boundary_heat_W": boundary_heat[i],
             })
         })
         .collect();
@@ -256,7 +270,7 @@ pub fn json(a: &Analysis) -> String {
                 "heat_flux_W_per_m2": l.area.and_then(|a| q.map(|q| q / a)),
                 "buildup_use": l.group.map(|g| net.groups[g].name.clone()),
                 "formula": l.formula,
-                "figures": net.figures.iter().filter(|f| f.link == i).map(|f| (f.name.to_string(), json!(f.value))).collect::<serde_json::Map<String, Value>>(),
+                "figures": std::mem::take(&mut figures_of[i]),
             })
         })
         .collect();

@@ -94,6 +94,7 @@ impl Analysis {
 
 /// Analyse a model given its name and text. Imports are read through `loader`.
 pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Options) -> Analysis {
+    crate::diagnostic::reset_suggestion_budget();
     let mut sources = Sources::default();
     let root = sources.add(name, text);
     let mut diagnostics = Vec::new();

@@ -108,20 +108,37 @@ const SUGGEST_MAX_LEN: usize = 96;
 /// Most character pairs one suggestion compares (the searches cost about the product of the two
 /// lengths per candidate), so a model with millions of names and many unknown ones stays fast.
 const SUGGEST_MAX_WORK: usize = 4_000_000;
+/// Most character pairs all the suggestions of one analysis compare together (about a quarter
+/// of a second). An unknown name inside a `repeat` is looked up once per copy over every
+/// generated name; the copies' errors are merged into one, so later searches only cost time.
+const SUGGEST_ANALYSIS_WORK: usize = 20_000_000;
+
+thread_local! {
+    /// What is left of [`SUGGEST_ANALYSIS_WORK`] for the analysis running on this thread.
+    static SUGGEST_LEFT: std::cell::Cell<usize> = const { std::cell::Cell::new(SUGGEST_ANALYSIS_WORK) };
+}
+
+/// Give the analysis starting on this thread its whole suggestion budget.
+pub(crate) fn reset_suggestion_budget() {
+    SUGGEST_LEFT.with(|left| left.set(SUGGEST_ANALYSIS_WORK));
+}
 
 /// "did you mean `x`?" for the closest candidate within a small edit distance.
 pub fn did_you_mean<'a>(
     name: &str,
     candidates: impl IntoIterator<Item = &'a str>,
 ) -> Option<&'a str> {
-    if name.len() > SUGGEST_MAX_LEN {
+    let left = SUGGEST_LEFT.with(|l| l.get());
+    if name.len() > SUGGEST_MAX_LEN || left == 0 {
         return None;
     }
+    let cap = SUGGEST_MAX_WORK.min(left);
     let mut best: Option<(f64, &str)> = None;
     let mut work = 0usize;
     for c in candidates.into_iter().filter(|c| c.len() <= SUGGEST_MAX_LEN) {
         work += name.len().max(1) * c.len().max(1);
-        if work > SUGGEST_MAX_WORK {
+        if work > cap {
+            work = cap;
             break;
         }
         let score = strsim::jaro_winkler(name, c);
@@ -130,5 +147,6 @@ pub fn did_you_mean<'a>(
             best = Some((score, c));
         }
     }
+    SUGGEST_LEFT.with(|l| l.set(left - work.min(left)));
     best.map(|(_, c)| c)
 }
