@@ -86,8 +86,13 @@ impl<'a> Counter<'a> {
                 let inner = match self.memo.get(&network.name) {
                     Some(s) => s.clone(),
                     None => {
+                        // An unknown network makes nothing but still costs its error: each
+                        // use counts one, so 10¹⁰ uses of a misspelt name are refused too.
                         let Some(body) = self.networks.get(&network.name).copied() else {
-                            return Size::default();
+                            return Size {
+                                total: 1,
+                                chain: Vec::new(),
+                            };
                         };
                         // Mark the network while it is being counted, so a network that uses
                         // itself counts as empty here (the expander reports the cycle).
@@ -100,7 +105,9 @@ impl<'a> Counter<'a> {
                 let mut chain = vec![format!("`use {}` of `{}`", name.name, network.name)];
                 chain.extend(inner.chain);
                 Size {
-                    total: inner.total,
+                    // The use itself counts one: an empty network used 10¹⁰ times is still
+                    // 10¹⁰ expansions.
+                    total: inner.total.saturating_add(1),
                     chain,
                 }
             }

@@ -80,6 +80,7 @@ pub fn expand_modules(
         budget,
         over: false,
         cancel,
+        active: Vec::new(),
     };
     let out = modules
         .iter()
@@ -158,6 +159,9 @@ struct Expander<'a> {
     /// Set once the budget is refused (or the caller cancelled): nothing more is expanded.
     over: bool,
     cancel: Option<&'a AtomicBool>,
+    /// The sub-networks being expanded, outermost first: a `use` of one of them closes a
+    /// cycle. The size count treats a cycle as empty, so it must never be expanded.
+    active: Vec<String>,
 }
 
 impl Expander<'_> {
@@ -245,9 +249,31 @@ impl Expander<'_> {
                     network,
                     args,
                 } => {
+                    if let Some(at) = self.active.iter().position(|n| *n == network.name) {
+                        let chain = self.active[at..]
+                            .iter()
+                            .chain(std::iter::once(&network.name))
+                            .map(|n| format!("`{n}`"))
+                            .collect::<Vec<_>>()
+                            .join(" → ");
+                        self.diags.push(
+                            Diagnostic::error(
+                                "E218",
+                                format!("sub-network `{}` uses itself: {chain}", network.name),
+                                network.span,
+                            )
+                            .with_label("this use closes the cycle")
+                            .with_help("a sub-network that uses itself (directly or through another) never ends; break the cycle"),
+                        );
+                        continue;
+                    }
                     self.bodies.push(item.span);
+                    // Counted as the size count counts it (see `budget::Counter`).
+                    self.made += 1;
                     if let Some(copy) = self.use_network(name, network, args) {
+                        self.active.push(network.name.clone());
                         out.extend(self.items(&copy, depth + 1));
+                        self.active.pop();
                     }
                 }
                 _ => {

@@ -176,3 +176,43 @@ fn a_cancelled_analysis_stops_without_a_result() {
     assert!(!a.cancelled);
     assert!(a.solution.is_some());
 }
+
+#[test]
+fn uses_of_a_missing_network_count_and_cycles_are_never_expanded() {
+    // Six levels of ten uses each, ending in a network nobody declared: 10^6 uses, each an
+    // error. With a budget of 100 000 it is refused before a single use is tried.
+    let mut src = String::from(ENDS);
+    for level in 0..6 {
+        src.push_str(&format!("network n{level} (p) {{\n"));
+        for u in 0..10 {
+            src.push_str(&format!("  use u{u}: n{}(p = p)\n", level + 1));
+        }
+        src.push_str("}\n");
+    }
+    src.push_str("use top: n0(p = a)\n");
+    let small = Options {
+        size_budget: Some(100_000),
+        ..Options::default()
+    };
+    let a = run_with(&src, &small);
+    assert_eq!(
+        errors(&a).iter().map(|e| e.0).collect::<Vec<_>>(),
+        ["E220"],
+        "{:?}",
+        errors(&a)
+    );
+
+    // Two networks that use each other, ten times each way: the use that closes the cycle
+    // is E218 at once, naming the cycle, instead of 10^16 copies down to the depth limit.
+    let src = format!(
+        "{ENDS}network ping (p) {{\n{}}}\nnetwork pong (p) {{\n{}}}\nuse top: ping(p = a)\n",
+        (0..10).map(|u| format!("  use u{u}: pong(p = p)\n")).collect::<String>(),
+        (0..10).map(|u| format!("  use v{u}: ping(p = p)\n")).collect::<String>(),
+    );
+    let start = Instant::now();
+    let a = run(&src);
+    let errs = errors(&a);
+    assert!(!errs.is_empty() && errs.iter().all(|e| e.0 == "E218"), "{errs:?}");
+    assert!(errs[0].1.contains("`ping` → `pong` → `ping`"), "{}", errs[0].1);
+    assert!(start.elapsed().as_secs() < 20);
+}

@@ -491,11 +491,31 @@ impl<'a> Parser<'a> {
 
 /// Parse a unit written compactly, e.g. `W/(m*K)`, `m^2`, `m²`, `h*ft^2*°F/Btu`, `°C`,
 /// `delta_degF`, `kWh`, `µm`. Spellings are listed in `docs/units.md`.
+/// Deepest bracket nesting a unit may have.
+const MAX_UNIT_DEPTH: usize = 16;
+
 pub fn parse_unit(text: &str) -> Result<Unit, UnitError> {
     if text.is_empty() {
         return Err(err(0, 0, "empty unit", None));
     }
     let toks = tokenize(text)?;
+    // The unit parser recurses per bracket; no real unit nests more than two or three deep.
+    let mut depth = 0usize;
+    for t in &toks {
+        match t.tok {
+            Tok::LParen => depth += 1,
+            Tok::RParen => depth = depth.saturating_sub(1),
+            _ => {}
+        }
+        if depth > MAX_UNIT_DEPTH {
+            return Err(err(
+                t.start,
+                t.end,
+                format!("brackets in a unit nested more than {MAX_UNIT_DEPTH} deep"),
+                Some("write the unit with fewer brackets, e.g. `W/(m^2*K)`".to_string()),
+            ));
+        }
+    }
     let mut p = Parser { text, toks, pos: 0 };
     let v = p.expr()?;
     if let Some(t) = p.peek().cloned() {
