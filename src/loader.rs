@@ -216,9 +216,15 @@ mod tests {
 
         // Seventy distinct files each importing the next: the depth limit ends the chain.
         for i in 0..70 {
-            write(&root.join(format!("chain{i}.heat")), &format!("import \"chain{}.heat\"\n", i + 1));
+            write(
+                &root.join(format!("chain{i}.heat")),
+                &format!("import \"chain{}.heat\"\n", i + 1),
+            );
         }
-        write(&root.join("chain70.heat"), "material wool (k = 0.04 W/(m*K))\n");
+        write(
+            &root.join("chain70.heat"),
+            "material wool (k = 0.04 W/(m*K))\n",
+        );
         write(
             &root.join("model3.heat"),
             &format!("import \"chain0.heat\"\n{USES_WOOL}"),

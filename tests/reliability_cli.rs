@@ -73,8 +73,18 @@ fn run(args: &[&str], file: &Path) -> Ran {
             text
         })
     };
-    let out = drain(child.stdout.take().map(|p| Box::new(p) as Box<dyn Read + Send>));
-    let err = drain(child.stderr.take().map(|p| Box::new(p) as Box<dyn Read + Send>));
+    let out = drain(
+        child
+            .stdout
+            .take()
+            .map(|p| Box::new(p) as Box<dyn Read + Send>),
+    );
+    let err = drain(
+        child
+            .stderr
+            .take()
+            .map(|p| Box::new(p) as Box<dyn Read + Send>),
+    );
     let start = Instant::now();
     let status = loop {
         if let Some(status) = child.try_wait().expect("wait") {
@@ -98,7 +108,11 @@ fn run(args: &[&str], file: &Path) -> Ran {
 fn every_reproducer_ends_in_an_ordinary_exit_from_every_command() {
     let mut failures = Vec::new();
     for file in cases() {
-        let name = file.file_name().unwrap_or_default().to_string_lossy().to_string();
+        let name = file
+            .file_name()
+            .unwrap_or_default()
+            .to_string_lossy()
+            .to_string();
         let text = std::fs::read_to_string(&file).expect("case text");
         let expected = expected_errors(&text);
         let commands: &[&[&str]] = &[
@@ -121,7 +135,9 @@ fn every_reproducer_ends_in_an_ordinary_exit_from_every_command() {
             if args == &["solve"] {
                 let got = reported_errors(&ran.output);
                 if got != expected {
-                    failures.push(format!("{what}: errors {got:?}, the file expects {expected:?}"));
+                    failures.push(format!(
+                        "{what}: errors {got:?}, the file expects {expected:?}"
+                    ));
                 }
             }
         }

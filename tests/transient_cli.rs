@@ -395,10 +395,16 @@ link cap: face to room film(h = 10 W/(m^2*K), area = 0.01 m^2)\n";
 /// memory is taken, from the model (E708 at the value) and from `--every` (a usage error).
 #[test]
 fn output_intervals_that_would_flood_memory_are_refused() {
-    let (code, stdout, stderr) = out(&["run", "tests/cases/reliability/resource_transient_output_1e-9s.heat"]);
+    let (code, stdout, stderr) = out(&[
+        "run",
+        "tests/cases/reliability/resource_transient_output_1e-9s.heat",
+    ]);
     assert_eq!(code, 1, "{stdout}{stderr}");
     let all = format!("{stdout}{stderr}");
-    assert!(all.contains("[E708]") && all.contains("more than 100000 times"), "{all}");
+    assert!(
+        all.contains("[E708]") && all.contains("more than 100000 times"),
+        "{all}"
+    );
     let (code, _, stderr) = out(&["run", STANDPIPE, "--every", "1e-9s"]);
     assert_eq!(code, 2);
     assert!(stderr.contains("give a longer --every"), "{stderr}");

@@ -37,7 +37,9 @@ pub struct Options {
 
 impl Options {
     fn cancelled(&self) -> bool {
-        self.cancel.as_ref().is_some_and(|c| c.load(Ordering::Relaxed))
+        self.cancel
+            .as_ref()
+            .is_some_and(|c| c.load(Ordering::Relaxed))
     }
 }
 
@@ -122,7 +124,12 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     });
     let budget = options.size_budget.unwrap_or(crate::budget::MODEL_BUDGET);
     let expanded = if needs_expansion {
-        crate::expand::expand_modules(&module_refs, &options.overrides, budget, options.cancel.as_deref())
+        crate::expand::expand_modules(
+            &module_refs,
+            &options.overrides,
+            budget,
+            options.cancel.as_deref(),
+        )
     } else {
         crate::expand::Expanded {
             modules: Vec::new(),
@@ -132,7 +139,11 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
     };
     diagnostics.extend(expanded.diags);
     if !needs_expansion {
-        diagnostics.extend(crate::expand::check_budget(&module_refs, &options.overrides, budget));
+        diagnostics.extend(crate::expand::check_budget(
+            &module_refs,
+            &options.overrides,
+            budget,
+        ));
     }
     // A model past its size budget is not built at all: elaborating what was expanded before
     // the refusal would only add echoes of the missing part.

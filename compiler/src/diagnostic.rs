@@ -135,7 +135,10 @@ pub fn did_you_mean<'a>(
     let cap = SUGGEST_MAX_WORK.min(left);
     let mut best: Option<(f64, &str)> = None;
     let mut work = 0usize;
-    for c in candidates.into_iter().filter(|c| c.len() <= SUGGEST_MAX_LEN) {
+    for c in candidates
+        .into_iter()
+        .filter(|c| c.len() <= SUGGEST_MAX_LEN)
+    {
         work += name.len().max(1) * c.len().max(1);
         if work > cap {
             work = cap;

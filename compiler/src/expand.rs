@@ -105,10 +105,13 @@ pub fn check_budget(
     overrides: &[(String, Quantity)],
     budget: u64,
 ) -> Option<Diagnostic> {
-    let params = modules.iter().flat_map(|m| &m.items).filter_map(|i| match &i.kind {
-        ItemKind::Param { name, value } => Some((name, value)),
-        _ => None,
-    });
+    let params = modules
+        .iter()
+        .flat_map(|m| &m.items)
+        .filter_map(|i| match &i.kind {
+            ItemKind::Param { name, value } => Some((name, value)),
+            _ => None,
+        });
     let mut ev = Evaluator::new(params);
     for (n, q) in overrides {
         ev.set_override(n, *q);

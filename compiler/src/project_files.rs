@@ -91,8 +91,14 @@ mod tests {
     #[test]
     fn names_are_spelled_one_way() {
         assert_eq!(joined("x/a.heat", "../x/a.heat"), PathBuf::from("x/a.heat"));
-        assert_eq!(joined("a.heat", "./lib/m.heat"), PathBuf::from("lib/m.heat"));
+        assert_eq!(
+            joined("a.heat", "./lib/m.heat"),
+            PathBuf::from("lib/m.heat")
+        );
         assert_eq!(joined("a.heat", "../m.heat"), PathBuf::from("../m.heat"));
-        assert_eq!(joined("/p/x/a.heat", "../../q.heat"), PathBuf::from("/q.heat"));
+        assert_eq!(
+            joined("/p/x/a.heat", "../../q.heat"),
+            PathBuf::from("/q.heat")
+        );
     }
 }

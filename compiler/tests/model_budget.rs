@@ -52,7 +52,10 @@ fn nested_repeats_of_ten_billion_copies_stop_before_expanding() {
     assert!(start.elapsed().as_secs() < 20);
     // The error points at the outer block's name, where the multiplication starts.
     let d = a.diagnostics.iter().find(|d| d.code == "E220").unwrap();
-    assert_eq!(&src[d.primary.span.start as usize..d.primary.span.end as usize], "outer");
+    assert_eq!(
+        &src[d.primary.span.start as usize..d.primary.span.end as usize],
+        "outer"
+    );
 }
 
 #[test]
@@ -88,7 +91,11 @@ fn regions_inside_repeats_count_their_cells() {
     let errs = errors(&a);
     assert_eq!(errs.len(), 1, "{errs:?}");
     assert_eq!(errs[0].0, "E220");
-    assert!(errs[0].1.contains("`region plate` (60 000 cells)"), "{}", errs[0].1);
+    assert!(
+        errs[0].1.contains("`region plate` (60 000 cells)"),
+        "{}",
+        errs[0].1
+    );
 }
 
 #[test]
@@ -157,7 +164,12 @@ fn counts_that_depend_on_the_copy_index_are_counted_per_copy() {
         ..Options::default()
     };
     let a = run_with(&src, &tight);
-    assert_eq!(errors(&a).first().map(|e| e.0), Some("E220"), "{:?}", errors(&a));
+    assert_eq!(
+        errors(&a).first().map(|e| e.0),
+        Some("E220"),
+        "{:?}",
+        errors(&a)
+    );
 }
 
 #[test]
@@ -206,13 +218,24 @@ fn uses_of_a_missing_network_count_and_cycles_are_never_expanded() {
     // is E218 at once, naming the cycle, instead of 10^16 copies down to the depth limit.
     let src = format!(
         "{ENDS}network ping (p) {{\n{}}}\nnetwork pong (p) {{\n{}}}\nuse top: ping(p = a)\n",
-        (0..10).map(|u| format!("  use u{u}: pong(p = p)\n")).collect::<String>(),
-        (0..10).map(|u| format!("  use v{u}: ping(p = p)\n")).collect::<String>(),
+        (0..10)
+            .map(|u| format!("  use u{u}: pong(p = p)\n"))
+            .collect::<String>(),
+        (0..10)
+            .map(|u| format!("  use v{u}: ping(p = p)\n"))
+            .collect::<String>(),
     );
     let start = Instant::now();
     let a = run(&src);
     let errs = errors(&a);
-    assert!(!errs.is_empty() && errs.iter().all(|e| e.0 == "E218"), "{errs:?}");
-    assert!(errs[0].1.contains("`ping` → `pong` → `ping`"), "{}", errs[0].1);
+    assert!(
+        !errs.is_empty() && errs.iter().all(|e| e.0 == "E218"),
+        "{errs:?}"
+    );
+    assert!(
+        errs[0].1.contains("`ping` → `pong` → `ping`"),
+        "{}",
+        errs[0].1
+    );
     assert!(start.elapsed().as_secs() < 20);
 }

@@ -67,7 +67,10 @@ fn real_place(path: &Path) -> PathBuf {
     if let Ok(p) = path.canonicalize() {
         return p;
     }
-    match (path.parent().and_then(|d| d.canonicalize().ok()), path.file_name()) {
+    match (
+        path.parent().and_then(|d| d.canonicalize().ok()),
+        path.file_name(),
+    ) {
         (Some(dir), Some(file)) => dir.join(file),
         _ => path.to_path_buf(),
     }
@@ -137,8 +140,7 @@ mod tests {
         std::fs::create_dir_all(dir.join("lib")).expect("lib dir");
         std::fs::write(dir.join("lib/real.heat"), "material a (k = 1 W/(m*K))\n").expect("write");
         std::os::unix::fs::symlink("lib", dir.join("shared")).expect("symlink");
-        std::fs::write(scratch.join("secret.heat"), "material s (k = 1 W/(m*K))\n")
-            .expect("write");
+        std::fs::write(scratch.join("secret.heat"), "material s (k = 1 W/(m*K))\n").expect("write");
         std::os::unix::fs::symlink(scratch.join("secret.heat"), dir.join("alias.heat"))
             .expect("symlink");
         let model = dir.join("m.heat").display().to_string();
@@ -154,7 +156,9 @@ mod tests {
         let loader = DocLoader {
             open: Arc::new(open),
         };
-        let (_, text) = loader.load(&model, "shared/real.heat").expect("through the link");
+        let (_, text) = loader
+            .load(&model, "shared/real.heat")
+            .expect("through the link");
         assert!(text.contains("material b"), "{text}");
         let err = loader.load(&model, "alias.heat").expect_err("outside");
         assert!(err.contains("outside the project"), "{err}");

@@ -99,7 +99,8 @@ pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::R
             return;
         }
         let loader = state.docs.loader();
-        let Some((check, diags)) = analyze(&client, &uri, &job, &jobs, loader.clone(), true).await else {
+        let Some((check, diags)) = analyze(&client, &uri, &job, &jobs, loader.clone(), true).await
+        else {
             continue;
         };
         if superseded(&jobs) {
@@ -127,7 +128,8 @@ pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::R
                 continue;
             }
         }
-        let Some((full, full_diags)) = analyze(&client, &uri, &job, &jobs, loader, false).await else {
+        let Some((full, full_diags)) = analyze(&client, &uri, &job, &jobs, loader, false).await
+        else {
             continue;
         };
         if superseded(&jobs) {

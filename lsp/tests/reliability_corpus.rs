@@ -74,7 +74,11 @@ fn every_reproducer_gets_its_expected_errors_and_the_server_keeps_serving() {
     c.initialize(&root);
     let mut failures = Vec::new();
     for file in cases() {
-        let name = file.file_name().unwrap_or_default().to_string_lossy().to_string();
+        let name = file
+            .file_name()
+            .unwrap_or_default()
+            .to_string_lossy()
+            .to_string();
         let text = std::fs::read_to_string(&file).expect("case");
         std::fs::write(dir.join(&name), &text).expect("copy");
         let uri = format!("file://{}/{name}", dir.display());
@@ -109,13 +113,18 @@ fn every_reproducer_gets_its_expected_errors_and_the_server_keeps_serving() {
         if resp.get("error").is_some() {
             failures.push(format!("{name}: documentSymbol failed: {resp}"));
         }
-        c.notify("textDocument/didClose", json!({"textDocument": {"uri": uri}}));
+        c.notify(
+            "textDocument/didClose",
+            json!({"textDocument": {"uri": uri}}),
+        );
     }
     // Still serving: a small model of its own is checked after all of them.
     let last = format!("file://{}/after.heat", dir.display());
     let ok = "node a (fixed = 20 °C)\nnode b (load = 2 W)\nlink l: a to b resistance(1 K/W)\n";
     c.open(&last, 1, ok);
-    let diags = c.diagnostics(&last, 1, T).expect("the server still publishes");
+    let diags = c
+        .diagnostics(&last, 1, T)
+        .expect("the server still publishes");
     assert!(error_codes(&diags).is_empty(), "{diags}");
     c.shutdown();
     let _ = std::fs::remove_dir_all(&dir);
