@@ -6,32 +6,12 @@ mod support;
 
 use serde_json::{json, Value};
 use std::collections::BTreeSet;
-use std::os::unix::net::UnixStream;
 use std::path::{Path, PathBuf};
 use std::time::Duration;
-use support::client::RpcClient;
+use support::client::start;
 
 /// Far above what any of these takes; only a hang comes near it.
 const T: Duration = Duration::from_secs(60);
-
-fn start() -> RpcClient {
-    let (ours, theirs) = UnixStream::pair().expect("socket pair");
-    std::thread::spawn(move || {
-        let rt = tokio::runtime::Builder::new_multi_thread()
-            .worker_threads(2)
-            .enable_all()
-            .build()
-            .expect("runtime");
-        rt.block_on(async move {
-            theirs.set_nonblocking(true).expect("nonblocking");
-            let stream = tokio::net::UnixStream::from_std(theirs).expect("tokio stream");
-            let (r, w) = stream.into_split();
-            caloris_lsp::serve(r, w).await;
-        });
-    });
-    let reader = ours.try_clone().expect("clone");
-    RpcClient::new(Box::new(reader), Box::new(ours))
-}
 
 fn cases() -> Vec<PathBuf> {
     let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/cases/reliability");

@@ -10,31 +10,12 @@ use caloris_lsp::isolate::INTERNAL_ERROR;
 use caloris_lsp::snapshot::{Snapshot, Stage};
 use caloris_lsp::workspace::analyze_files_with;
 use serde_json::{json, Value};
-use std::os::unix::net::UnixStream;
 use std::time::Duration;
-use support::client::{position_of, RpcClient};
+use support::client::position_of;
+use support::client::start;
 use support::fixture::{loader, uri, CABIN, MATERIALS};
 
 const T: Duration = Duration::from_secs(60);
-
-fn start() -> RpcClient {
-    let (ours, theirs) = UnixStream::pair().expect("socket pair");
-    std::thread::spawn(move || {
-        let rt = tokio::runtime::Builder::new_multi_thread()
-            .worker_threads(2)
-            .enable_all()
-            .build()
-            .expect("runtime");
-        rt.block_on(async move {
-            theirs.set_nonblocking(true).expect("nonblocking");
-            let stream = tokio::net::UnixStream::from_std(theirs).expect("tokio stream");
-            let (r, w) = stream.into_split();
-            caloris_lsp::serve(r, w).await;
-        });
-    });
-    let reader = ours.try_clone().expect("clone");
-    RpcClient::new(Box::new(reader), Box::new(ours))
-}
 
 struct Project(std::path::PathBuf);
 
