@@ -8,8 +8,8 @@ mod support;
 use serde_json::{json, Value};
 use std::time::Duration;
 use support::client::position_of;
-use support::client::start;
 use support::fixture::CABIN;
+use support::in_process::start;
 
 const T: Duration = Duration::from_secs(30);
 

@@ -8,7 +8,7 @@ use serde_json::{json, Value};
 use std::collections::BTreeSet;
 use std::path::{Path, PathBuf};
 use std::time::Duration;
-use support::client::start;
+use support::in_process::start;
 
 /// Far above what any of these takes; only a hang comes near it.
 const T: Duration = Duration::from_secs(60);

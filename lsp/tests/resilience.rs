@@ -12,8 +12,8 @@ use caloris_lsp::workspace::analyze_files_with;
 use serde_json::{json, Value};
 use std::time::Duration;
 use support::client::position_of;
-use support::client::start;
 use support::fixture::{loader, uri, CABIN, MATERIALS};
+use support::in_process::start;
 
 const T: Duration = Duration::from_secs(60);
 

@@ -1,3 +1,4 @@
 #![allow(dead_code)]
 pub mod client;
 pub mod fixture;
+pub mod in_process;
