@@ -181,7 +181,14 @@ pub fn lex(text: &str, file: FileId) -> Vec<Token> {
 
 impl std::fmt::Display for Tok {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        let s = match self {
+        f.write_str(self.noun())
+    }
+}
+
+impl Tok {
+    /// How a message names a token of this kind (`` `(` ``, "a name", "a number").
+    pub fn noun(self) -> &'static str {
+        match self {
             Tok::Comment => "a comment",
             Tok::Title => "`title`",
             Tok::Import => "`import`",
@@ -213,12 +220,9 @@ impl std::fmt::Display for Tok {
             Tok::Ge => "`>=`",
             Tok::PlusMinus => "`±`",
             Tok::Unknown => "an unexpected character",
-        };
-        f.write_str(s)
+        }
     }
-}
 
-impl Tok {
     /// Keywords that begin a declaration; error recovery resumes at the next one.
     pub fn starts_item(self) -> bool {
         matches!(

@@ -1,0 +1,231 @@
+//! The parser's error type: what chumsky gathers at the furthest failure, turned into the
+//! project's one [`Diagnostic`] with a stable code.
+//!
+//! Every site labels what it expects in the analyst's words; when alternatives fail at the
+//! same token the labelled one wins over chumsky's raw token lists, so each message names one
+//! expectation, as a person would write it.
+
+use super::tokens::Tk;
+use super::{Cx, In};
+use crate::diagnostic::Diagnostic;
+use crate::lexer::Tok;
+use crate::span::Span;
+use chumsky::error::LabelError;
+use chumsky::util::MaybeRef;
+use chumsky::DefaultExpected;
+
+/// Expectations with a wording of their own at the end of the file or of a line.
+pub const ARG_SEP: &str = "`,` or `)` after an argument";
+pub const VALUE: &str = "a value (a number with its unit, a name or a bracket)";
+pub const ROW_COLON: &str = "`:` between the time and the value, as in `6 h: -4 °C`";
+pub const ROW_END: &str = "the end of the row (one row per line)";
+pub const END_OF_EXPRESSION: &str = "the end of the expression";
+
+const MAX_LABELS: usize = 3;
+
+#[derive(Clone, Debug)]
+pub enum PErr {
+    Expected {
+        span: Span,
+        found: Option<Tk>,
+        labels: [Option<&'static str>; MAX_LABELS],
+        /// Set by a labelled site; such an error wins over unlabelled ones at the same token.
+        labelled: bool,
+        /// The input ended at the end of a line (a table row), not of the file.
+        line_end: bool,
+    },
+    /// A diagnostic worded at its site (unclosed blocks, numbers, nesting limits).
+    Custom(Box<Diagnostic>),
+}
+
+impl PErr {
+    pub fn custom(d: Diagnostic) -> PErr {
+        PErr::Custom(Box::new(d))
+    }
+
+    /// For a row read on its own: running out of tokens means the line ended.
+    pub fn at_line_end(mut self) -> PErr {
+        if let PErr::Expected {
+            found: None,
+            line_end,
+            ..
+        } = &mut self
+        {
+            *line_end = true;
+        }
+        self
+    }
+
+    pub(crate) fn expected(
+        span: Span,
+        found: Option<Tk>,
+        labels: impl IntoIterator<Item = &'static str>,
+    ) -> PErr {
+        let mut out = [None; MAX_LABELS];
+        let mut n = 0;
+        for l in labels {
+            if n < MAX_LABELS && !out[..n].contains(&Some(l)) {
+                out[n] = Some(l);
+                n += 1;
+            }
+        }
+        PErr::Expected {
+            span,
+            found,
+            labels: out,
+            labelled: false,
+            line_end: false,
+        }
+    }
+
+    pub fn into_diagnostic(self, cx: &Cx) -> Diagnostic {
+        let (span, found, labels, line_end) = match self {
+            PErr::Custom(d) => return *d,
+            PErr::Expected {
+                span,
+                found,
+                labels,
+                line_end,
+                ..
+            } => (span, found, labels, line_end),
+        };
+        let labels: Vec<&str> = labels.iter().flatten().copied().collect();
+        let expected = match labels.as_slice() {
+            [] => "something else".to_string(),
+            [one] => one.to_string(),
+            [init @ .., last] => format!("{} or {last}", init.join(", ")),
+        };
+        let Some(t) = found else {
+            if line_end && labels == [ROW_COLON] {
+                return Diagnostic::error(
+                    "E002",
+                    "expected `:` and a value, found the end of the line",
+                    span,
+                )
+                .with_label("expected `:`")
+                .with_help("write each row as `TIME: VALUE`, e.g. `6 h: -4 °C`");
+            }
+            let expected = match labels.as_slice() {
+                [ARG_SEP] => "`)` to close the arguments".to_string(),
+                [VALUE] => "a value".to_string(),
+                _ => expected,
+            };
+            let end = if line_end { "line" } else { "file" };
+            return Diagnostic::error(
+                "E002",
+                format!("expected {expected}, found the end of the {end}"),
+                span,
+            )
+            .with_label(format!("expected {expected}"));
+        };
+        match t.kind {
+            Tok::Unknown => {
+                let ch = cx.slice(span);
+                Diagnostic::error("E001", format!("unexpected character `{ch}`"), span)
+                    .with_label("not part of the language")
+                    .with_help(format!("remove it; {expected} was expected here"))
+            }
+            Tok::UnterminatedStr => Diagnostic::error("E003", "unterminated string", span)
+                .with_label("this string has no closing quote")
+                .with_help("add `\"` at the end of the string, on the same line"),
+            // A declaration keyword on a later line means the previous declaration was left
+            // unfinished: point at where it stops, not at the innocent next line.
+            k if k.starts_item() && t.first_on_line => Diagnostic::error(
+                "E002",
+                format!("expected {expected}, found the end of the line"),
+                cx.end_before(span),
+            )
+            .with_label(format!("expected {expected} here"))
+            .with_help(format!(
+                "the declaration stops here; the next line starts a new one with {}",
+                describe(t.kind, cx.slice(span))
+            )),
+            _ => Diagnostic::error(
+                "E002",
+                format!(
+                    "expected {expected}, found {}",
+                    describe(t.kind, cx.slice(span))
+                ),
+                span,
+            )
+            .with_label(format!("expected {expected}")),
+        }
+    }
+}
+
+/// How a message names the token found.
+pub fn describe(kind: Tok, text: &str) -> String {
+    match kind {
+        Tok::Ident => format!("the name `{text}`"),
+        Tok::Number(_) => format!("`{text}`"),
+        _ => kind.noun().to_string(),
+    }
+}
+
+impl<'s> chumsky::error::Error<'s, In<'s>> for PErr {
+    fn merge(self, other: Self) -> Self {
+        match (self, other) {
+            (a @ PErr::Custom(_), _) => a,
+            (_, b @ PErr::Custom(_)) => b,
+            // Of two labelled expectations at one token, the one tried first is the more
+            // specific: `(,)` wants a value before it wants a separator.
+            (a @ PErr::Expected { labelled: true, .. }, PErr::Expected { .. }) => a,
+            (
+                PErr::Expected {
+                    labels: la,
+                    labelled: false,
+                    ..
+                },
+                PErr::Expected {
+                    span,
+                    found,
+                    labels: lb,
+                    labelled: false,
+                    line_end,
+                },
+            ) => {
+                let mut merged = PErr::expected(span, found, la.into_iter().chain(lb).flatten());
+                if let PErr::Expected { line_end: l, .. } = &mut merged {
+                    *l = line_end;
+                }
+                merged
+            }
+            (_, b) => b,
+        }
+    }
+}
+
+impl<'s> LabelError<'s, In<'s>, &'static str> for PErr {
+    fn expected_found<E: IntoIterator<Item = &'static str>>(
+        expected: E,
+        found: Option<MaybeRef<'s, Tk>>,
+        span: Span,
+    ) -> Self {
+        PErr::expected(span, found.map(|t| *t), expected)
+    }
+
+    fn label_with(&mut self, label: &'static str) {
+        if let PErr::Expected {
+            labels, labelled, ..
+        } = self
+        {
+            *labels = [Some(label), None, None];
+            *labelled = true;
+        }
+    }
+}
+
+impl<'s> LabelError<'s, In<'s>, DefaultExpected<'s, Tk>> for PErr {
+    fn expected_found<E: IntoIterator<Item = DefaultExpected<'s, Tk>>>(
+        expected: E,
+        found: Option<MaybeRef<'s, Tk>>,
+        span: Span,
+    ) -> Self {
+        let labels = expected.into_iter().filter_map(|e| match e {
+            DefaultExpected::Token(t) => Some(t.kind.noun()),
+            DefaultExpected::EndOfInput => Some("the end of the input"),
+            _ => None,
+        });
+        PErr::expected(span, found.map(|t| *t), labels)
+    }
+}
