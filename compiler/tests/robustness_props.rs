@@ -1,24 +1,29 @@
-//! Property tests of robustness: arbitrary text and arbitrary sequences of the language's tokens
-//! go through analysis (with the solve), rendering, the editor queries and the formatter
-//! without a panic, every diagnostic span lies inside the text, and whatever the formatter
-//! accepts it formats to a fixed point. The same holds for the bundled examples after random
-//! token edits. (The mutation fuzzer in tools/fuzz goes further, with extreme sizes and numbers
-//! in a worker process; these stay small so they run in the ordinary suite.)
+//! Property tests of robustness: arbitrary text, arbitrary sequences of the language's tokens
+//! and broken lines of declarations go through the parser, analysis (with the solve),
+//! rendering, the editor queries and the formatter without a panic; the parser makes progress
+//! on every token; every diagnostic span and every span of the syntax tree lies inside the
+//! text, on character boundaries; and whatever the formatter accepts it formats to a fixed
+//! point. The same holds for the bundled examples after random token edits. (The mutation
+//! fuzzer in tools/fuzz goes further, with extreme sizes and numbers in a worker process;
+//! these stay small so they run in the ordinary suite.)
+
+mod tree_spans;
 
 use caloris_compiler::format::format_source;
-use caloris_compiler::lexer::lex;
+use caloris_compiler::lexer::{lex, Tok};
+use caloris_compiler::parser::parse;
 use caloris_compiler::query;
 use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::source::NoImports;
 use caloris_compiler::span::FileId;
-use caloris_compiler::{analyze, Options};
+use caloris_compiler::syntax::{Item, ItemKind};
+use caloris_compiler::{analyze, Diagnostic, Options};
 use proptest::prelude::*;
 use std::path::PathBuf;
 
-/// Everything a tool does with a text, none of which may panic; spans must lie inside it.
-fn exercise(text: &str) {
-    let a = analyze("prop.heat", text, &NoImports, &Options::default());
-    for d in &a.diagnostics {
+/// Every diagnostic span in the text `text` (file 0) lies inside it, on character boundaries.
+fn assert_diagnostic_spans(text: &str, diags: &[Diagnostic]) {
+    for d in diags {
         if d.primary.span.file == FileId(0) {
             let (s, e) = (d.primary.span.start as usize, d.primary.span.end as usize);
             assert!(
@@ -30,6 +35,44 @@ fn exercise(text: &str) {
             );
         }
     }
+}
+
+/// Declarations at every level of nesting.
+fn count_items(items: &[Item]) -> usize {
+    items
+        .iter()
+        .map(|i| match &i.kind {
+            ItemKind::Repeat { body, .. } | ItemKind::Network { body, .. } => 1 + count_items(body),
+            _ => 1,
+        })
+        .sum()
+}
+
+/// The parser alone: its tree and errors stay inside the text, and it makes progress: every
+/// declaration it keeps and every error it reports costs at least one token, so a recovery
+/// that stood still (and would loop) breaks the bound.
+fn parse_and_check(text: &str) {
+    let (module, diags) = parse(text, FileId(0));
+    assert_diagnostic_spans(text, &diags);
+    tree_spans::assert_tree_spans(text, &module);
+    let tokens = lex(text, FileId(0))
+        .iter()
+        .filter(|t| t.kind != Tok::Comment)
+        .count();
+    let items = count_items(&module.items);
+    assert!(
+        items <= tokens && diags.len() <= tokens + 1,
+        "{items} declarations and {} errors from {tokens} tokens:\n{text}",
+        diags.len()
+    );
+}
+
+/// Everything a tool does with a text, none of which may panic; spans must lie inside it.
+fn exercise(text: &str) {
+    parse_and_check(text);
+    let a = analyze("prop.heat", text, &NoImports, &Options::default());
+    assert_diagnostic_spans(text, &a.diagnostics);
+    tree_spans::assert_tree_spans(text, a.root());
     render_diagnostics(&a.diagnostics, &a.sources, false);
     query::highlights(&a, FileId(0));
     let mut offsets: Vec<usize> = vec![0, text.len() / 3, text.len() / 2, text.len()];
@@ -161,6 +204,33 @@ const VOCAB: &[&str] = &[
     "µm",
     "é",
     "\t",
+    // The rest of the lexer's spellings, bad numbers and strings, and characters it rejects.
+    "<=",
+    ">",
+    "≤",
+    "≥",
+    "−",
+    "·",
+    "×",
+    "+-",
+    "1e99999",
+    "1e-400",
+    "1.2.3 mm",
+    "2..5",
+    "40 kJ/K",
+    "\"open",
+    "$",
+    "℃",
+    "\u{a0}",
+    "\r\n",
+    "left",
+    "top",
+    "front",
+    "previous",
+    "index",
+    "first",
+    "ln",
+    "u_value",
 ];
 
 fn token_text() -> impl Strategy<Value = String> {
@@ -169,6 +239,72 @@ fn token_text() -> impl Strategy<Value = String> {
         for (i, sep) in toks {
             s.push_str(VOCAB[i]);
             s.push_str(["", " ", " ", "\n"][sep as usize]);
+        }
+        s
+    })
+}
+
+/// Whole lines of the language: each kind of declaration, the openings of the blocks, table
+/// rows, build-up elements, region edges and closing braces, so that random sequences of them
+/// open and leave blocks the way an analyst's unfinished file does.
+const LINES: &[&str] = &[
+    "title \"Tool shed\"",
+    "import \"walls.heat\"",
+    "param a = 2 m * (3 m + 1 cm)",
+    "param t = -sqrt(4 K^2) ^ 1",
+    "material m (k = 0.04 W/(m*K), density = 30 kg/m^3)",
+    "node a (fixed = 20 °C)",
+    "node b",
+    "node c (load = 5 W, capacity = 2 kJ/K, initial = 10 °C)",
+    "link l: a to b film(h = 5 W/(m^2*K), area = 1 m^2)",
+    "link w: a to c wall(area = 2 m^2)",
+    "limit hot: temperature(a) < 60 °C",
+    "buildup wall {",
+    "  inside: film(r = 0.13 m^2*K/W)",
+    "  core: layer(m, thickness = 10 cm)",
+    "schedule s (repeat = 24 h) {",
+    "  0 h: 3 °C",
+    "  6 h: -2 °C",
+    "node d (fixed = s)",
+    "repeat r (count = 2, first = a) {",
+    "  node t",
+    "  link k: previous.t to t film(h = 1 W/(m^2*K), area = 1 m^2)",
+    "network n (p, q) {",
+    "  link x: p to q film(h = 2 W/(m^2*K), area = 1 m^2)",
+    "use u: n(p = a, q = b)",
+    "region plate (m, thickness = 2 mm, width = 1 m, height = 1 m, cells_x = 2, cells_y = 2) {",
+    "  left: a",
+    "  right: b film(h = 10 W/(m^2*K))",
+    "}",
+    "}",
+    "transient run (duration = 2 h, output = 10 min)",
+    "case cold (a = 3 m)",
+    "# a comment",
+    "",
+];
+
+/// Lines drawn from [`LINES`], three in eight of them broken: cut short before a token, a token
+/// dropped, or a word of [`VOCAB`] put in before a token.
+fn broken_lines() -> impl Strategy<Value = String> {
+    let line = (0..LINES.len(), 0..8u8, any::<usize>(), 0..VOCAB.len());
+    prop::collection::vec(line, 0..40).prop_map(|lines| {
+        let mut s = String::new();
+        for (i, how, at, word) in lines {
+            let line = LINES[i];
+            let toks = lex(line, FileId(0));
+            let Some(t) = toks.get(at % toks.len().max(1)) else {
+                s.push_str(line);
+                s.push('\n');
+                continue;
+            };
+            let (a, b) = (t.span.start as usize, t.span.end as usize);
+            match how {
+                0 => s.push_str(&line[..a]),
+                1 => s.push_str(&format!("{}{}", &line[..a], &line[b..])),
+                2 => s.push_str(&format!("{}{} {}", &line[..a], VOCAB[word], &line[a..])),
+                _ => s.push_str(line),
+            }
+            s.push('\n');
         }
         s
     })
@@ -284,6 +420,17 @@ proptest! {
 
     #[test]
     fn arbitrary_token_sequences_never_panic(text in token_text()) {
+        exercise(&text);
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 500, ..ProptestConfig::default() })]
+
+    /// Declarations cut short, with a token missing or one too many, inside and outside blocks:
+    /// the inputs error recovery exists for.
+    #[test]
+    fn broken_lines_of_declarations_never_panic(text in broken_lines()) {
         exercise(&text);
     }
 }
