@@ -3,9 +3,9 @@
 //! itself. An unclosed brace drops its declaration (its error names the brace), keeping the
 //! errors found inside it.
 
-use super::error::{PErr, ROW_COLON, ROW_END};
-use super::expr::{committed, name, tok, P};
-use super::items::{arg_list, element_call, skip_to_declaration, MaybeItem};
+use super::error::{PErr, PORT_SEP, ROW_COLON, ROW_END};
+use super::expr::{committed, name, name_in_entry, tok, P};
+use super::items::{arg_list, element_call, misspelt, skip_to_declaration, MaybeItem};
 use super::tokens::{Tk, Word};
 use super::{Cx, Ex, In, MAX_BLOCK_DEPTH};
 use crate::diagnostic::Diagnostic;
@@ -159,7 +159,7 @@ pub fn buildup_elements<'s>(
 
 /// A contextual word before a name: `repeat`, `network`, `use` or `region`.
 fn word<'s>(cx: Cx<'s>, w: &'static str) -> impl Parser<'s, In<'s>, (), Ex> + Clone {
-    any()
+    let exact = any()
         .filter(move |t: &Tk| t.kind == Tok::Ident && t.word == Word::Block && t.before_name)
         .try_map(move |t: Tk, span: Span| {
             if cx.slice(span) == w {
@@ -167,7 +167,8 @@ fn word<'s>(cx: Cx<'s>, w: &'static str) -> impl Parser<'s, In<'s>, (), Ex> + Cl
             } else {
                 Err(PErr::expected(span, Some(t), []))
             }
-        })
+        });
+    choice((exact, misspelt(cx, w).ignored()))
 }
 
 /// `repeat NAME (ARGS) { ... }`, `network NAME (PORTS) { ... }`, `use NAME: NETWORK(ARGS)`,
@@ -191,7 +192,7 @@ pub fn block_items<'s>(
                 .separated_by(tok(Tok::Comma))
                 .collect::<Vec<_>>(),
         )
-        .then_ignore(tok(Tok::RParen).labelled("`,` or `)` after a port name"));
+        .then_ignore(tok(Tok::RParen).labelled(PORT_SEP));
     let network = word(cx, "network")
         .ignore_then(name(cx, "the sub-network's name"))
         .then(ports)
@@ -234,7 +235,7 @@ fn region_edges<'s>(
         "an edge (`left`, `right`, `bottom`, `top`) or face (`front`, `back`)",
     )
     .then_ignore(tok(Tok::Colon).labelled("`:` after the edge, as in `left: hot_bar`"))
-    .then(name(cx, "the node this edge is attached to"))
+    .then(name_in_entry(cx, "the node this edge is attached to"))
     .then(committed(
         element_follows,
         element_call(cx, e, "an element such as `film(h = 10 W/(m^2*K))`"),

@@ -20,6 +20,13 @@ pub const VALUE: &str = "a value (a number with its unit, a name or a bracket)";
 pub const ROW_COLON: &str = "`:` between the time and the value, as in `6 h: -4 °C`";
 pub const ROW_END: &str = "the end of the row (one row per line)";
 pub const END_OF_EXPRESSION: &str = "the end of the expression";
+pub const CALL_SEP: &str = "`,` or `)` in the function's arguments";
+pub const BRACKET_CLOSE: &str = "`)` to close the bracket";
+pub const PORT_SEP: &str = "`,` or `)` after a port name";
+
+/// Expectations of a closing `)`: when the line or file ends first, the `(` left open is the
+/// place to show.
+const CLOSERS: &[&str] = &[ARG_SEP, CALL_SEP, BRACKET_CLOSE, PORT_SEP];
 
 const MAX_LABELS: usize = 3;
 
@@ -95,6 +102,30 @@ impl PErr {
             [one] => one.to_string(),
             [init @ .., last] => format!("{} or {last}", init.join(", ")),
         };
+        let runs_off_line = found.is_none_or(|t| t.first_on_line);
+        if let ([closer], true) = (labels.as_slice(), runs_off_line) {
+            if CLOSERS.contains(closer) {
+                if let Some(open) = cx.open_paren_before(span) {
+                    let stop = match found {
+                        Some(_) => cx.end_before(span),
+                        None => span,
+                    };
+                    let end = if found.is_none() && !line_end {
+                        "file"
+                    } else {
+                        "line"
+                    };
+                    return Diagnostic::error(
+                        "E002",
+                        format!("this `(` is not closed before the end of the {end}"),
+                        open,
+                    )
+                    .with_label("`(` opened here")
+                    .with_secondary(stop, format!("the {end} ends here; expected {closer}"))
+                    .with_help("add `)` after the last argument, on the line where they end");
+                }
+            }
+        }
         let Some(t) = found else {
             if line_end && labels == [ROW_COLON] {
                 return Diagnostic::error(
@@ -130,16 +161,27 @@ impl PErr {
                 .with_help("add `\"` at the end of the string, on the same line"),
             // A declaration keyword on a later line means the previous declaration was left
             // unfinished: point at where it stops, not at the innocent next line.
-            k if k.starts_item() && t.first_on_line => Diagnostic::error(
-                "E002",
-                format!("expected {expected}, found the end of the line"),
-                cx.end_before(span),
-            )
-            .with_label(format!("expected {expected} here"))
-            .with_help(format!(
-                "the declaration stops here; the next line starts a new one with {}",
-                describe(t.kind, cx.slice(span))
-            )),
+            // So does the next entry of a `NAME:` list, or a `}` on a line of its own.
+            _ if t.starts_line_decl
+                || t.first_on_line
+                    && (t.before_colon && t.kind == Tok::Ident || t.kind == Tok::RBrace) =>
+            {
+                let (what, next) = if t.starts_line_decl {
+                    ("declaration", "a new one with")
+                } else {
+                    ("line", "with")
+                };
+                Diagnostic::error(
+                    "E002",
+                    format!("expected {expected}, found the end of the line"),
+                    cx.end_before(span),
+                )
+                .with_label(format!("expected {expected} here"))
+                .with_help(format!(
+                    "the {what} stops here; the next line starts {next} {}",
+                    describe(t.kind, cx.slice(span))
+                ))
+            }
             _ => Diagnostic::error(
                 "E002",
                 format!(

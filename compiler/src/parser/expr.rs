@@ -2,7 +2,7 @@
 //! levels `+ -` and `* /`, read into flat lists so a generated sum of thousands of terms costs
 //! no recursion depth in anything that walks the tree later.
 
-use super::error::{PErr, VALUE};
+use super::error::{PErr, BRACKET_CLOSE, CALL_SEP, VALUE};
 use super::tokens::Tk;
 use super::{Cx, Ex, In, MAX_EXPR_DEPTH};
 use crate::diagnostic::Diagnostic;
@@ -41,6 +41,18 @@ pub fn name<'s>(cx: Cx<'s>, expected: &'static str) -> impl Parser<'s, In<'s>, I
         .labelled(expected)
 }
 
+/// A name that is not the next entry of a list of `NAME:` lines (a build-up's element, a
+/// region's edge): `back:` left empty must not take the next line's `left` as its node.
+pub fn name_in_entry<'s>(
+    cx: Cx<'s>,
+    expected: &'static str,
+) -> impl Parser<'s, In<'s>, Ident, Ex> + Clone {
+    any()
+        .filter(|t: &Tk| t.kind == Tok::Ident && !(t.first_on_line && t.before_colon))
+        .map_with(move |_, e| cx.ident(e.span()))
+        .labelled(expected)
+}
+
 /// A whole expression.
 pub fn expr<'s>(cx: Cx<'s>) -> P<'s, Expr> {
     let mut unary: Recursive<Indirect<'s, 's, In<'s>, Expr, Ex>> = Recursive::declare();
@@ -48,7 +60,18 @@ pub fn expr<'s>(cx: Cx<'s>) -> P<'s, Expr> {
 
     let number = any()
         .filter(|t: &Tk| matches!(t.kind, Tok::Number(_)))
-        .try_map_with(move |t: Tk, e| number(cx, t, e.span()));
+        // A number that cannot be read is reported and stands as a placeholder, so the
+        // declaration it is in is kept and its uses do not turn into further errors.
+        .validate(move |t: Tk, e, emitter| {
+            let span = e.span();
+            number(cx, t, span).unwrap_or_else(|err| {
+                emitter.emit(err);
+                Expr {
+                    kind: ExprKind::Missing,
+                    span,
+                }
+            })
+        });
 
     let call_args = tok(Tok::LParen)
         .ignore_then(
@@ -56,10 +79,16 @@ pub fn expr<'s>(cx: Cx<'s>) -> P<'s, Expr> {
                 .separated_by(tok(Tok::Comma))
                 .collect::<Vec<_>>(),
         )
-        .then_ignore(tok(Tok::RParen).labelled("`,` or `)` in the function's arguments"));
+        .then_ignore(tok(Tok::RParen).labelled(CALL_SEP));
     // Once `(` follows a name it is a call: a broken argument list fails the expression
     // rather than leaving the bracket behind (`.then_ignore(...not())` is the commit).
-    let name_or_call = name(cx, "a name")
+    // A declaration opening the next line is not an operand: `param a = 2 *` followed by
+    // `schedule night {` leaves the expression unfinished at the end of its line.
+    let operand_name = any()
+        .filter(|t: &Tk| t.kind == Tok::Ident && !t.starts_line_decl)
+        .map_with(move |_, e| cx.ident(e.span()))
+        .labelled("a name");
+    let name_or_call = operand_name
         .then(committed(tok(Tok::LParen), call_args))
         .map_with(|(id, args), e| match args {
             None => Expr {
@@ -74,7 +103,7 @@ pub fn expr<'s>(cx: Cx<'s>) -> P<'s, Expr> {
 
     let bracket = tok(Tok::LParen)
         .ignore_then(sum.clone())
-        .then_ignore(tok(Tok::RParen).labelled("`)` to close the bracket"))
+        .then_ignore(tok(Tok::RParen).labelled(BRACKET_CLOSE))
         .map_with(|inner, e| Expr {
             span: e.span(),
             kind: ExprKind::Paren(Box::new(inner)),

@@ -3,9 +3,10 @@
 
 use super::blocks;
 use super::error::{PErr, ARG_SEP};
-use super::expr::{committed, expr, name, tok, P};
+use super::expr::{committed, expr, name, name_in_entry, tok, P};
 use super::tokens::{Tk, Word};
 use super::{Cx, Ex, In};
+use crate::diagnostic::Diagnostic;
 use crate::lexer::Tok;
 use crate::span::Span;
 use crate::syntax::*;
@@ -47,21 +48,21 @@ pub fn item<'s>(cx: Cx<'s>) -> P<'s, MaybeItem> {
     let e = expr(cx);
     let args = |label| arg_list(cx, e.clone(), label);
 
-    let title = tok(Tok::Title)
+    let title = intro(cx, Tok::Title, "title")
         .ignore_then(string(
             cx,
             "the model's title in quotes, e.g. `title \"Garden office wall\"`",
         ))
         .map(|(text, _)| ItemKind::Title { text });
-    let import = tok(Tok::Import)
+    let import = intro(cx, Tok::Import, "import")
         .ignore_then(string(cx, "the path of a model file in quotes"))
         .map(|(path, path_span)| ItemKind::Import { path, path_span });
-    let param = tok(Tok::Param)
+    let param = intro(cx, Tok::Param, "param")
         .ignore_then(name(cx, "the parameter's name"))
         .then_ignore(tok(Tok::Eq).labelled("`=` and the parameter's value"))
         .then(e.clone())
         .map(|(name, value)| ItemKind::Param { name, value });
-    let material = tok(Tok::Material)
+    let material = intro(cx, Tok::Material, "material")
         .ignore_then(name(cx, "the material's name"))
         .then(args(
             "the material's properties in parentheses, e.g. `(k = 0.04 W/(m*K))`",
@@ -71,7 +72,7 @@ pub fn item<'s>(cx: Cx<'s>) -> P<'s, MaybeItem> {
     // A node may stand alone; anything else on its line must be its property list.
     let node_args_follow =
         any().filter(|t: &Tk| t.kind == Tok::LParen || !t.first_on_line && !t.kind.starts_item());
-    let node = tok(Tok::Node)
+    let node = intro(cx, Tok::Node, "node")
         .ignore_then(name(cx, "the node's name"))
         .then(
             committed(node_args_follow, args(
@@ -83,7 +84,7 @@ pub fn item<'s>(cx: Cx<'s>) -> P<'s, MaybeItem> {
             args: args.unwrap_or_default(),
         });
 
-    let link = tok(Tok::Link)
+    let link = intro(cx, Tok::Link, "link")
         .ignore_then(name(cx, "the link's name"))
         .then_ignore(
             tok(Tok::Colon)
@@ -104,7 +105,7 @@ pub fn item<'s>(cx: Cx<'s>) -> P<'s, MaybeItem> {
             element,
         });
 
-    let buildup = tok(Tok::Buildup)
+    let buildup = intro(cx, Tok::Buildup, "buildup")
         .ignore_then(name(cx, "the build-up's name"))
         .then_ignore(tok(Tok::LBrace).labelled("`{` to open the build-up's list of layers"))
         .then(blocks::buildup_elements(cx, e.clone()))
@@ -119,7 +120,7 @@ pub fn item<'s>(cx: Cx<'s>) -> P<'s, MaybeItem> {
             _ => Err(PErr::expected(span, Some(t), [])),
         })
         .labelled("a comparison `<`, `<=`, `>` or `>=`");
-    let limit = tok(Tok::Limit)
+    let limit = intro(cx, Tok::Limit, "limit")
         .ignore_then(name(cx, "the limit's name"))
         .then_ignore(
             tok(Tok::Colon)
@@ -145,25 +146,30 @@ pub fn item<'s>(cx: Cx<'s>) -> P<'s, MaybeItem> {
         );
 
     // `WORD NAME [(ARGS)] [{ ROWS }]` for `schedule`, `case` and `transient`.
-    let declaration = any()
-        .filter(|t: &Tk| t.kind == Tok::Ident && t.word == Word::Declaration && t.before_name)
-        .map_with(move |_, e| cx.ident(e.span()))
-        .then(name(cx, "the declaration's name"))
-        .then(committed(tok(Tok::LParen), args("`(`")))
-        .then(committed(
-            tok(Tok::LBrace),
-            tok(Tok::LBrace).ignore_then(blocks::rows(cx, e.clone())),
-        ))
-        .map(|(((word, name), args), rows)| match rows {
-            // An unclosed table drops the declaration; its error is reported.
-            Some(None) => None,
-            rows => Some(ItemKind::Declaration {
-                word,
-                name,
-                args: args.unwrap_or_default(),
-                rows: rows.flatten(),
-            }),
-        });
+    let declaration = choice((
+        any()
+            .filter(|t: &Tk| t.kind == Tok::Ident && t.word == Word::Declaration && t.before_name)
+            .map_with(move |_, e| cx.ident(e.span())),
+        misspelt(cx, "schedule"),
+        misspelt(cx, "case"),
+        misspelt(cx, "transient"),
+    ))
+    .then(name(cx, "the declaration's name"))
+    .then(committed(tok(Tok::LParen), args("`(`")))
+    .then(committed(
+        tok(Tok::LBrace),
+        tok(Tok::LBrace).ignore_then(blocks::rows(cx, e.clone())),
+    ))
+    .map(|(((word, name), args), rows)| match rows {
+        // An unclosed table drops the declaration; its error is reported.
+        Some(None) => None,
+        rows => Some(ItemKind::Declaration {
+            word,
+            name,
+            args: args.unwrap_or_default(),
+            rows: rows.flatten(),
+        }),
+    });
 
     let contextual = blocks::block_items(cx, e.clone(), item.clone());
 
@@ -189,6 +195,39 @@ pub fn item<'s>(cx: Cx<'s>) -> P<'s, MaybeItem> {
     item.boxed()
 }
 
+/// The keyword `kind`, or a slip for it at the start of a line (reported, then read as meant so
+/// that what it declares exists and its uses raise no further errors).
+fn intro<'s>(cx: Cx<'s>, kind: Tok, word: &'static str) -> impl Parser<'s, In<'s>, (), Ex> + Clone {
+    choice((tok(kind).ignored(), misspelt(cx, word).ignored()))
+}
+
+/// A name first on its line that is a slip for the declaration word `word` (E006, with the
+/// word as a fix); yields the word as written correctly, at the slip's place.
+pub fn misspelt<'s>(cx: Cx<'s>, word: &'static str) -> impl Parser<'s, In<'s>, Ident, Ex> + Clone {
+    any()
+        .filter(move |t: &Tk| t.misspelt == Some(word))
+        .validate(move |_, e, emitter| {
+            let span: Span = e.span();
+            let written = cx.slice(span);
+            emitter.emit(PErr::custom(
+                Diagnostic::error(
+                    "E006",
+                    format!("`{written}` is not a declaration word"),
+                    span,
+                )
+                .with_label(format!("did you mean `{word}`?"))
+                .with_help(format!(
+                    "declarations start with a word of the language, written in lower case: `{word}`"
+                ))
+                .with_fix(format!("write `{word}`"), span, word),
+            ));
+            Ident {
+                name: word.to_string(),
+                span,
+            }
+        })
+}
+
 /// A string in quotes, unescaped, with its span.
 fn string<'s>(
     cx: Cx<'s>,
@@ -210,7 +249,7 @@ pub fn element_call<'s>(
     e: P<'s, Expr>,
     expected: &'static str,
 ) -> impl Parser<'s, In<'s>, ElementCall, Ex> + Clone {
-    name(cx, expected)
+    name_in_entry(cx, expected)
         .then(arg_list(cx, e, "`(` and the element's arguments"))
         .map_with(|(kind, args), e| ElementCall {
             kind,

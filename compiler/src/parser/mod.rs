@@ -14,8 +14,6 @@ mod blocks;
 mod error;
 mod expr;
 mod items;
-#[cfg(test)]
-mod legacy;
 mod tokens;
 
 use crate::diagnostic::Diagnostic;
@@ -91,13 +89,15 @@ pub(crate) struct Cx<'s> {
     pub text: &'s str,
     pub file: FileId,
     pub tokens: &'s [(Tk, Span)],
-    /// Where "the end of the file" is reported: after the last non-blank character.
+    /// Where "the end of the file" is reported: after the last token.
     pub eof: Span,
 }
 
 impl<'s> Cx<'s> {
     fn new(text: &'s str, file: FileId, tokens: &'s [(Tk, Span)]) -> Cx<'s> {
-        let end = text.trim_end().len();
+        // After the last token, not after trailing comments: that is where a declaration left
+        // unfinished stops.
+        let end = tokens.last().map_or(0, |(_, s)| s.end as usize);
         Cx {
             text,
             file,
@@ -119,6 +119,23 @@ impl<'s> Cx<'s> {
             name: self.slice(span).to_string(),
             span,
         }
+    }
+
+    /// The innermost `(` still open before `span`, looking back at most a few thousand
+    /// tokens (enough for any declaration; bounded so many errors stay cheap).
+    pub fn open_paren_before(&self, span: Span) -> Option<Span> {
+        let end = self.tokens.partition_point(|(_, s)| s.start < span.start);
+        let mut depth = 0usize;
+        for &(t, s) in self.tokens[..end].iter().rev().take(4096) {
+            match t.kind {
+                crate::lexer::Tok::RParen => depth += 1,
+                crate::lexer::Tok::LParen if depth == 0 => return Some(s),
+                crate::lexer::Tok::LParen => depth -= 1,
+                _ if t.starts_line_decl => return None,
+                _ => {}
+            }
+        }
+        None
     }
 
     /// The end of the token before the one at `span` (or the file's start).
@@ -155,6 +172,3 @@ impl chumsky::span::Span for Span {
         self.end
     }
 }
-
-#[cfg(test)]
-mod tests;

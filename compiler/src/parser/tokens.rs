@@ -35,6 +35,9 @@ pub struct Tk {
     pub before_paren: bool,
     /// The next token is `=` (a name or keyword before `=` names an argument).
     pub before_eq: bool,
+    /// A name first on its line that is a slip for a declaration word (`nod`, `Link`,
+    /// `build-up`): the word it was meant to be, from [`WORDS`].
+    pub misspelt: Option<&'static str>,
     /// The next token is a name (a contextual word before a name opens a declaration).
     pub before_name: bool,
 }
@@ -43,6 +46,38 @@ impl std::fmt::Display for Tk {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         self.kind.fmt(f)
     }
+}
+
+/// Every word that opens a declaration.
+pub const WORDS: &[&str] = &[
+    "title",
+    "import",
+    "param",
+    "material",
+    "node",
+    "link",
+    "buildup",
+    "limit",
+    "schedule",
+    "case",
+    "transient",
+    "repeat",
+    "network",
+    "use",
+    "region",
+];
+
+/// The declaration word `s` is a slip for: the same letters in another case, or one edit away
+/// (two for longer words); `build-up` and `build_up` for `buildup`.
+pub fn misspelt_word(s: &str) -> Option<&'static str> {
+    if s.len() > 24 {
+        return None;
+    }
+    let lower = s.to_lowercase().replace(['-', '_'], "");
+    WORDS.iter().copied().find(|w| {
+        let d = strsim::damerau_levenshtein(&lower, w);
+        lower == *w || (lower.len() >= 3 && d <= 1) || (lower.len() >= 7 && d <= 2)
+    })
 }
 
 /// Nesting counters carried through a parse (chumsky's parser state).
@@ -64,6 +99,26 @@ pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
         } else {
             raw.push(t);
         }
+    }
+    // `build-up` written with a hyphen lexes as `build - up`; read it as one (misspelt) word.
+    let mut i = 0;
+    while i + 2 < raw.len() {
+        let (a, m, b) = (raw[i], raw[i + 1], raw[i + 2]);
+        let line_start =
+            i == 0 || text[raw[i - 1].span.end as usize..a.span.start as usize].contains('\n');
+        if line_start
+            && a.kind == Tok::Ident
+            && m.kind == Tok::Minus
+            && b.kind == Tok::Ident
+            && a.span.end == m.span.start
+            && m.span.end == b.span.start
+            && text[a.span.range()].eq_ignore_ascii_case("build")
+            && text[b.span.range()].eq_ignore_ascii_case("up")
+        {
+            raw[i].span = a.span.to(b.span);
+            raw.drain(i + 1..i + 3);
+        }
+        i += 1;
     }
     let mut out: Vec<(Tk, Span)> = Vec::with_capacity(raw.len());
     let mut prev_end = 0usize;
@@ -91,9 +146,21 @@ pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
                 && next == Some(Tok::Ident)
                 && match word {
                     Word::Declaration => first_on_line,
-                    Word::Block => true,
+                    // Like the declaration words, a block word opens a declaration only at the
+                    // start of a line (a stray `network notes` mid-line is not one).
+                    Word::Block => first_on_line,
                     Word::Plain => false,
                 }
+        };
+        let misspelt = if t.kind == Tok::Ident
+            && first_on_line
+            && word == Word::Plain
+            && next != Some(Tok::Colon)
+            && next != Some(Tok::Eq)
+        {
+            misspelt_word(&text[t.span.range()])
+        } else {
+            None
         };
         out.push((
             Tk {
@@ -106,6 +173,7 @@ pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
                 before_paren: next == Some(Tok::LParen),
                 before_name: next == Some(Tok::Ident),
                 before_eq: next == Some(Tok::Eq),
+                misspelt,
             },
             t.span,
         ));
