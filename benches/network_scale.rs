@@ -1,5 +1,5 @@
 //! Benchmark (not a test): time and peak memory of `check` and `solve` on generated networks of
-//! 10⁴ to 10⁶ nodes. Run with `cargo bench --bench network_scale` (optionally followed by `--
+//! 10⁴ to 10⁶ nodes, and of the parser alone on the same text. Run with `cargo bench --bench network_scale` (optionally followed by `--
 //! SIZES`, e.g. `-- 10000 100000`). Each size runs in a fresh child process so that the peak
 //! resident memory (VmHWM from /proc) belongs to that size alone.
 //!
@@ -58,6 +58,24 @@ fn peak_rss_mib() -> f64 {
         .map_or(f64::NAN, |kb| kb / 1024.0)
 }
 
+/// The parser alone on the same text: how much of `check` is reading the text.
+fn run_parse(n: usize) {
+    let text = model(n);
+    let t0 = Instant::now();
+    let (module, diags) = caloris_compiler::parser::parse(&text, caloris_compiler::span::FileId(0));
+    let secs = t0.elapsed().as_secs_f64();
+    assert!(diags.is_empty(), "generated model has syntax errors");
+    let mib = text.len() as f64 / (1024.0 * 1024.0);
+    println!(
+        "{:>9} decls {:>15}  parse  {:>8.3} s  peak {:>8.1} MiB  ({:.1} MiB/s of text)",
+        module.items.len(),
+        "",
+        secs,
+        peak_rss_mib(),
+        mib / secs,
+    );
+}
+
 fn run_one(n: usize, solve: bool) {
     let text = model(n);
     let t0 = Instant::now();
@@ -76,13 +94,14 @@ fn run_one(n: usize, solve: bool) {
         assert!(a.solution.is_some(), "no solution");
     }
     println!(
-        "{:>9} nodes {:>9} links  {:<5}  {:>8.3} s  peak {:>8.1} MiB  (model text {:.1} MiB)",
+        "{:>9} nodes {:>9} links  {:<5}  {:>8.3} s  peak {:>8.1} MiB  (model text {:.1} MiB, {:.1} MiB/s)",
         a.network.nodes.len(),
         a.network.links.len(),
         if solve { "solve" } else { "check" },
         secs,
         peak_rss_mib(),
         text.len() as f64 / (1024.0 * 1024.0),
+        text.len() as f64 / (1024.0 * 1024.0) / secs,
     );
 }
 
@@ -93,6 +112,10 @@ fn main() {
         .collect();
     if let [mode, n] = args.as_slice() {
         if let Ok(n) = n.parse() {
+            if mode == "parse" {
+                run_parse(n);
+                return;
+            }
             run_one(n, mode == "solve");
             return;
         }
@@ -105,7 +128,7 @@ fn main() {
     let me = std::env::current_exe().expect("own path");
     println!("Caloris network scale benchmark (release build, one process per row)");
     for n in sizes {
-        for mode in ["check", "solve"] {
+        for mode in ["parse", "check", "solve"] {
             let status = Command::new(&me).args([mode, &n.to_string()]).status();
             if !matches!(status, Ok(s) if s.success()) {
                 println!("{n} nodes {mode}: failed ({status:?})");
