@@ -166,17 +166,20 @@ pub struct Token {
 /// Split a file into tokens. Characters the language does not use become `Tok::Unknown`
 /// tokens, reported by the parser, so lexing never fails.
 pub fn lex(text: &str, file: FileId) -> Vec<Token> {
+    tokens(text, file).collect()
+}
+
+/// The tokens of `text` one by one, for callers that keep them in a form of their own.
+pub fn tokens(text: &str, file: FileId) -> impl Iterator<Item = Token> + '_ {
     let mut lexer = Tok::lexer(text);
-    let mut out = Vec::new();
-    while let Some(res) = lexer.next() {
+    std::iter::from_fn(move || {
+        let res = lexer.next()?;
         let r = lexer.span();
-        let kind = res.unwrap_or(Tok::Unknown);
-        out.push(Token {
-            kind,
+        Some(Token {
+            kind: res.unwrap_or(Tok::Unknown),
             span: Span::new(file, r.start, r.end),
-        });
-    }
-    out
+        })
+    })
 }
 
 impl std::fmt::Display for Tok {

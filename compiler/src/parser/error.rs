@@ -28,7 +28,7 @@ pub const PORT_SEP: &str = "`,` or `)` after a port name";
 /// place to show.
 const CLOSERS: &[&str] = &[ARG_SEP, CALL_SEP, BRACKET_CLOSE, PORT_SEP];
 
-const MAX_LABELS: usize = 3;
+const MAX_LABELS: usize = 2;
 
 #[derive(Clone, Debug)]
 pub enum PErr {
@@ -251,7 +251,7 @@ impl<'s> LabelError<'s, In<'s>, &'static str> for PErr {
             labels, labelled, ..
         } = self
         {
-            *labels = [Some(label), None, None];
+            *labels = [Some(label), None];
             *labelled = true;
         }
     }

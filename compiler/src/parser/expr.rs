@@ -125,7 +125,10 @@ pub fn expr<'s>(cx: Cx<'s>) -> P<'s, Expr> {
             },
         });
 
+    // Unsigned operands first: they are the common case, and each alternative tried and
+    // failed costs an error value.
     let signed = choice((
+        power,
         tok(Tok::Minus)
             .ignore_then(unary.clone())
             .map_with(|inner, e| Expr {
@@ -134,13 +137,17 @@ pub fn expr<'s>(cx: Cx<'s>) -> P<'s, Expr> {
             }),
         // A plus sign adds nothing; the value keeps its own span.
         tok(Tok::Plus).ignore_then(unary.clone()),
-        power,
     ));
 
     // Every level of nesting (a bracket, a function's arguments, a sign, an exponent) passes
     // through here, so this is where the depth is counted and cut off. The counter lives in
     // the parser state, which chumsky rolls back whenever it backtracks.
     let enter = custom(|inp: &mut InputRef<'s, '_, In<'s>, Ex>| {
+        let here = inp.cursor();
+        if inp.state().expr >= MAX_EXPR_DEPTH {
+            let span = inp.span_since(&here);
+            return Err(PErr::expected(span, None, []));
+        }
         inp.state().expr += 1;
         Ok(())
     });
@@ -149,8 +156,8 @@ pub fn expr<'s>(cx: Cx<'s>) -> P<'s, Expr> {
         Ok(())
     });
     unary.define(choice((
-        too_deep(cx),
         enter.ignore_then(signed).then_ignore(leave),
+        too_deep(cx),
     )));
 
     let product = chain(unary, |k| match k {

@@ -173,17 +173,19 @@ pub fn item<'s>(cx: Cx<'s>) -> P<'s, MaybeItem> {
 
     let contextual = blocks::block_items(cx, e.clone(), item.clone());
 
+    // The kinds are told apart by their first token, so their order only matters for speed:
+    // the commonest first.
     let kind = choice((
-        title.map(Some),
-        import.map(Some),
-        param.map(Some),
-        material.map(Some),
         node.map(Some),
         link.map(Some),
-        buildup,
+        param.map(Some),
+        material.map(Some),
         limit.map(Some),
+        buildup,
         declaration,
         contextual,
+        title.map(Some),
+        import.map(Some),
     ))
     .labelled(DECLARATION);
     item.define(kind.map_with(|kind, e| {
@@ -205,7 +207,7 @@ fn intro<'s>(cx: Cx<'s>, kind: Tok, word: &'static str) -> impl Parser<'s, In<'s
 /// word as a fix); yields the word as written correctly, at the slip's place.
 pub fn misspelt<'s>(cx: Cx<'s>, word: &'static str) -> impl Parser<'s, In<'s>, Ident, Ex> + Clone {
     any()
-        .filter(move |t: &Tk| t.misspelt == Some(word))
+        .filter(move |t: &Tk| t.meant() == Some(word))
         .validate(move |_, e, emitter| {
             let span: Span = e.span();
             let written = cx.slice(span);

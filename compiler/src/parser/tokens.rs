@@ -2,7 +2,7 @@
 //! its place that the line-sensitive rules and recovery need, worked out once here so the
 //! grammar never looks at the text or at neighbouring tokens.
 
-use crate::lexer::{lex, Tok};
+use crate::lexer::{tokens, Tok};
 use crate::span::{FileId, Span};
 use crate::syntax::{BLOCK_WORDS, DECLARATION_WORDS};
 
@@ -37,7 +37,7 @@ pub struct Tk {
     pub before_eq: bool,
     /// A name first on its line that is a slip for a declaration word (`nod`, `Link`,
     /// `build-up`): the word it was meant to be, from [`WORDS`].
-    pub misspelt: Option<&'static str>,
+    pub misspelt: Option<u8>,
     /// The next token is a name (a contextual word before a name opens a declaration).
     pub before_name: bool,
 }
@@ -69,15 +69,25 @@ pub const WORDS: &[&str] = &[
 
 /// The declaration word `s` is a slip for: the same letters in another case, or one edit away
 /// (two for longer words); `build-up` and `build_up` for `buildup`.
-pub fn misspelt_word(s: &str) -> Option<&'static str> {
+pub fn misspelt_word(s: &str) -> Option<u8> {
     if s.len() > 24 {
         return None;
     }
     let lower = s.to_lowercase().replace(['-', '_'], "");
-    WORDS.iter().copied().find(|w| {
-        let d = strsim::damerau_levenshtein(&lower, w);
-        lower == *w || (lower.len() >= 3 && d <= 1) || (lower.len() >= 7 && d <= 2)
-    })
+    WORDS
+        .iter()
+        .position(|w| {
+            let d = strsim::damerau_levenshtein(&lower, w);
+            lower == *w || (lower.len() >= 3 && d <= 1) || (lower.len() >= 7 && d <= 2)
+        })
+        .map(|i| i as u8)
+}
+
+impl Tk {
+    /// The declaration word this name is a slip for, if any.
+    pub fn meant(&self) -> Option<&'static str> {
+        self.misspelt.map(|i| WORDS[i as usize])
+    }
 }
 
 /// Nesting counters carried through a parse (chumsky's parser state).
@@ -92,39 +102,16 @@ pub struct Depths {
 /// Lex `text`, set the comments aside and annotate every other token.
 pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
     let mut comments = Vec::new();
-    let mut raw = Vec::new();
-    for t in lex(text, file) {
+    // One vector, filled straight from the lexer and then annotated in place: the token list
+    // is the parser's largest allocation after the tree (a 17 MB model has 3.4 million).
+    let mut out: Vec<(Tk, Span)> = Vec::with_capacity(text.len() / 5);
+    let mut prev_end = 0usize;
+    for t in tokens(text, file) {
         if t.kind == Tok::Comment {
             comments.push(t.span);
-        } else {
-            raw.push(t);
+            continue;
         }
-    }
-    // `build-up` written with a hyphen lexes as `build - up`; read it as one (misspelt) word.
-    let mut i = 0;
-    while i + 2 < raw.len() {
-        let (a, m, b) = (raw[i], raw[i + 1], raw[i + 2]);
-        let line_start =
-            i == 0 || text[raw[i - 1].span.end as usize..a.span.start as usize].contains('\n');
-        if line_start
-            && a.kind == Tok::Ident
-            && m.kind == Tok::Minus
-            && b.kind == Tok::Ident
-            && a.span.end == m.span.start
-            && m.span.end == b.span.start
-            && text[a.span.range()].eq_ignore_ascii_case("build")
-            && text[b.span.range()].eq_ignore_ascii_case("up")
-        {
-            raw[i].span = a.span.to(b.span);
-            raw.drain(i + 1..i + 3);
-        }
-        i += 1;
-    }
-    let mut out: Vec<(Tk, Span)> = Vec::with_capacity(raw.len());
-    let mut prev_end = 0usize;
-    for (i, t) in raw.iter().enumerate() {
-        let start = t.span.start as usize;
-        let first_on_line = i == 0 || text[prev_end..start].contains('\n');
+        let first_on_line = out.is_empty() || text[prev_end..t.span.start as usize].contains('\n');
         prev_end = t.span.end as usize;
         let word = if t.kind == Tok::Ident {
             let s = &text[t.span.range()];
@@ -138,45 +125,72 @@ pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
         } else {
             Word::Plain
         };
-        let next = raw.get(i + 1).map(|n| n.kind);
-        let starts_decl = if t.kind.starts_item() {
-            next != Some(Tok::Eq)
-        } else {
-            t.kind == Tok::Ident
-                && next == Some(Tok::Ident)
-                && match word {
-                    Word::Declaration => first_on_line,
-                    // Like the declaration words, a block word opens a declaration only at the
-                    // start of a line (a stray `network notes` mid-line is not one).
-                    Word::Block => first_on_line,
-                    Word::Plain => false,
-                }
-        };
-        let misspelt = if t.kind == Tok::Ident
-            && first_on_line
-            && word == Word::Plain
-            && next != Some(Tok::Colon)
-            && next != Some(Tok::Eq)
-        {
-            misspelt_word(&text[t.span.range()])
-        } else {
-            None
-        };
         out.push((
             Tk {
                 kind: t.kind,
                 first_on_line,
                 word,
-                starts_decl,
-                starts_line_decl: starts_decl && first_on_line,
-                before_colon: next == Some(Tok::Colon),
-                before_paren: next == Some(Tok::LParen),
-                before_name: next == Some(Tok::Ident),
-                before_eq: next == Some(Tok::Eq),
-                misspelt,
+                starts_decl: false,
+                starts_line_decl: false,
+                before_colon: false,
+                before_paren: false,
+                before_name: false,
+                before_eq: false,
+                misspelt: None,
             },
             t.span,
         ));
     }
+    merge_build_up(text, &mut out);
+    for i in 0..out.len() {
+        let next = out.get(i + 1).map(|(n, _)| n.kind);
+        let (t, span) = &mut out[i];
+        t.starts_decl = if t.kind.starts_item() {
+            next != Some(Tok::Eq)
+        } else {
+            // A contextual word opens a declaration at the start of a line, before a name (a
+            // stray `network notes` mid-line is not one).
+            t.kind == Tok::Ident
+                && next == Some(Tok::Ident)
+                && t.first_on_line
+                && t.word != Word::Plain
+        };
+        t.starts_line_decl = t.starts_decl && t.first_on_line;
+        t.before_colon = next == Some(Tok::Colon);
+        t.before_paren = next == Some(Tok::LParen);
+        t.before_name = next == Some(Tok::Ident);
+        t.before_eq = next == Some(Tok::Eq);
+        if t.kind == Tok::Ident
+            && t.first_on_line
+            && t.word == Word::Plain
+            && !t.before_colon
+            && !t.before_eq
+        {
+            t.misspelt = misspelt_word(&text[span.range()]);
+        }
+    }
+    out.shrink_to_fit();
     (out, comments)
+}
+
+/// `build-up` written with a hyphen at the start of a line lexes as `build - up`; make it one
+/// (misspelt) word so it is reported as such.
+fn merge_build_up(text: &str, out: &mut Vec<(Tk, Span)>) {
+    let mut i = 0;
+    while i + 2 < out.len() {
+        let ((a, sa), (m, sm), (b, sb)) = (out[i], out[i + 1], out[i + 2]);
+        if a.first_on_line
+            && a.kind == Tok::Ident
+            && m.kind == Tok::Minus
+            && b.kind == Tok::Ident
+            && sa.end == sm.start
+            && sm.end == sb.start
+            && text[sa.range()].eq_ignore_ascii_case("build")
+            && text[sb.range()].eq_ignore_ascii_case("up")
+        {
+            out[i].1 = sa.to(sb);
+            out.drain(i + 1..i + 3);
+        }
+        i += 1;
+    }
 }
