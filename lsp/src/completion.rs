@@ -6,10 +6,10 @@
 use crate::proto::lsp;
 use crate::snapshot::Snapshot;
 use caloris_compiler::elements::{self, ArgType};
-use caloris_compiler::limits::MEASURES;
 use caloris_compiler::query::{
     completion_context, expected_dim, ArgOwner, CallInfo, CompletionContext, Slot,
 };
+use caloris_compiler::schema::MEASURES;
 use caloris_compiler::symbols::SymbolKind;
 use caloris_compiler::units::{parse_unit, unit_spellings, Dim};
 use lsp::{CompletionItem, CompletionItemKind, CompletionTextEdit, Position, Range, TextEdit};
@@ -135,7 +135,15 @@ pub fn completion(snap: &Snapshot, pos: Position) -> Vec<CompletionItem> {
         Slot::Unit => units(range, &ctx, snap),
         Slot::Measure => MEASURES
             .iter()
-            .map(|(m, _, d)| item(range, m, &format!("{m}("), CompletionItemKind::FUNCTION, d))
+            .map(|m| {
+                item(
+                    range,
+                    m.name,
+                    &format!("{}(", m.name),
+                    CompletionItemKind::FUNCTION,
+                    m.doc,
+                )
+            })
             .collect(),
         Slot::LimitSubject { measure } if measure == "temperature" => {
             plain(names(&[SymbolKind::Node, SymbolKind::GeneratedNode]))

@@ -8,7 +8,7 @@ use crate::link_figures;
 use crate::proto::lsp;
 use crate::settings::Settings;
 use crate::snapshot::{Snapshot, Stage};
-use caloris_compiler::elements::{self, ArgType, ElementKind, ParamSpec};
+use caloris_compiler::elements::{self, ArgSpec, ElementKind};
 use caloris_compiler::query::{format_significant, network_at, node_balance, target_at, Target};
 use caloris_compiler::span::FileId;
 use caloris_compiler::symbols::{Symbol, SymbolKind};
@@ -541,17 +541,8 @@ fn literal(written: &str, v: Quantity, sys: UnitSystem) -> String {
     out
 }
 
-fn param_doc(p: &ParamSpec) -> String {
-    let ty = match p.ty {
-        ArgType::Material => "the name of a declared material".to_string(),
-        ArgType::Quantity(d) => d.describe(),
-    };
-    let positive = if p.positive {
-        "; must be greater than zero"
-    } else {
-        ""
-    };
-    format!("{} — {ty}{positive}", p.doc)
+fn param_doc(p: &ArgSpec) -> String {
+    p.describe()
 }
 
 /// The hover text of an element kind; `in_buildup` leaves out the area a build-up supplies.

@@ -3,7 +3,7 @@
 
 use crate::proto::lsp;
 use crate::snapshot::Snapshot;
-use caloris_compiler::elements::{self, ArgType};
+use caloris_compiler::elements;
 use caloris_compiler::query::{completion_context, ArgOwner};
 use caloris_compiler::symbols::SymbolKind;
 use lsp::{
@@ -52,13 +52,7 @@ pub fn signature_help(snap: &Snapshot, pos: Position) -> Option<SignatureHelp> {
                     .params()
                     .iter()
                     .filter(|p| !(*in_buildup && p.name == "area"))
-                    .map(|p| {
-                        let ty = match p.ty {
-                            ArgType::Material => "a declared material".to_string(),
-                            ArgType::Quantity(d) => d.describe(),
-                        };
-                        (p.name.to_string(), format!("{} — {ty}", p.doc))
-                    })
+                    .map(|p| (p.name.to_string(), p.describe()))
                     .collect();
                 let mut summary = k.summary().to_string();
                 if *in_buildup {

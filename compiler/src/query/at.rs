@@ -2,8 +2,7 @@
 //! name, a limit's measure or a function.
 
 use crate::analysis::Analysis;
-use crate::elements::{self, ElementKind, ParamSpec};
-use crate::limits::MEASURES;
+use crate::elements::{self, ArgSpec, ElementKind};
 use crate::span::{FileId, Span};
 use crate::symbols::Symbol;
 use crate::syntax::{Arg, ElementCall, Expr, ExprKind, Item, ItemKind};
@@ -30,7 +29,7 @@ pub enum Target<'a> {
     ArgName {
         span: Span,
         kind: &'static dyn ElementKind,
-        param: &'static ParamSpec,
+        param: &'static ArgSpec,
     },
     /// The measure of a limit (`u_value`); `doc` says what it measures.
     Measure {
@@ -82,11 +81,11 @@ fn in_item(item: &Item, offset: u32) -> Option<Target<'_>> {
         }
         ItemKind::Limit { measure, value, .. } => {
             if measure.span.contains(offset) {
-                let &(name, _, doc) = MEASURES.iter().find(|m| m.0 == measure.name)?;
+                let m = crate::schema::measure(&measure.name)?;
                 return Some(Target::Measure {
                     span: measure.span,
-                    name,
-                    doc,
+                    name: m.name,
+                    doc: m.doc,
                 });
             }
             in_expr(value, offset)

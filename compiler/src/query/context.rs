@@ -3,7 +3,7 @@
 //! syntax tree does not hold it yet).
 
 use crate::analysis::Analysis;
-use crate::elements::{self, ArgType};
+use crate::elements;
 use crate::lexer::{lex, Tok, Token};
 use crate::span::{FileId, Span};
 use crate::symbols::SymbolKind;
@@ -101,10 +101,7 @@ pub fn expected_dim(call: &CallInfo, a: &Analysis) -> Option<Dim> {
                 None if call.index == 0 => params.first()?,
                 None => return None,
             };
-            match spec.ty {
-                ArgType::Quantity(d) => Some(d),
-                ArgType::Material => None,
-            }
+            spec.ty.dim()
         }
     }
 }

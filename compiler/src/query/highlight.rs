@@ -4,7 +4,6 @@
 use crate::analysis::Analysis;
 use crate::elements;
 use crate::lexer::{lex, Tok};
-use crate::limits::MEASURES;
 use crate::span::{FileId, Span};
 use crate::symbols::SymbolKind;
 use std::collections::HashMap;
@@ -121,7 +120,7 @@ pub fn highlights(a: &Analysis, file: FileId) -> Vec<Highlight> {
                     Some((Class::ArgName, false))
                 } else if next == Some(Tok::LParen) && elements::lookup(word).is_some() {
                     Some((Class::ElementKind, false))
-                } else if next == Some(Tok::LParen) && MEASURES.iter().any(|m| m.0 == word) {
+                } else if next == Some(Tok::LParen) && crate::schema::measure(word).is_some() {
                     Some((Class::Measure, false))
                 } else if FUNCTIONS.contains(&word) {
                     Some((Class::Function, false))
