@@ -55,7 +55,7 @@ pub const REGION: &[ArgSpec] = &[
         Dim::POWER,
         "heat generated in the region, spread evenly over its cells",
     )
-    .default("0 W"),
+    .default("none"),
 ];
 
 impl ElementKind for RegionArgs {

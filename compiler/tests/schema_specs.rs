@@ -54,7 +54,7 @@ fn value(s: &ArgSpec) -> &'static str {
             _ if d == Dim::MASS => "1 kg",
             _ if d == Dim::DENSITY => "1000 kg/m^3",
             _ if d == Dim::SPECIFIC_HEAT => "1000 J/(kg*K)",
-            _ if d == Dim::new(1, 1, -3, -2) => "1e-4 W/(m*K^2)",
+            _ if d == Dim::CONDUCTIVITY_SLOPE => "1e-4 W/(m*K^2)",
             _ => panic!("no test value for `{}` ({})", s.name, d.describe()),
         },
     }

@@ -110,14 +110,15 @@ impl Cx<'_> {
                 },
                 None if unnamed_first && i == 0 && !specs.is_empty() => &specs[0],
                 None => {
+                    let message = if unnamed_first {
+                        "only the first argument may be written without its name".to_string()
+                    } else {
+                        format!("the arguments of {subject} are written `name = value`")
+                    };
                     self.diags.push(
-                        Diagnostic::error(
-                            "E204",
-                            format!("the arguments of {subject} are written `name = value`"),
-                            arg.span,
-                        )
-                        .with_label("argument without a name")
-                        .with_help(format!("write e.g. `{example}`")),
+                        Diagnostic::error("E204", message, arg.span)
+                            .with_label("argument without a name")
+                            .with_help(format!("write e.g. `{example}`")),
                     );
                     out.ok = false;
                     continue;

@@ -53,7 +53,7 @@ pub fn markdown_reference() -> String {
         table(&mut out, buildup_use(geom));
     }
     out.push_str("### Arguments of the element kinds\n\n");
-    out.push_str("The first argument may be written without its name. Formulas and sources are in [elements.md](elements.md).\n\n");
+    out.push_str("The first argument may be written without its name. Inside a build-up, `area` comes from the link that uses it (for a radial build-up also `inner_radius` and `length`). Formulas and sources are in [elements.md](elements.md).\n\n");
     for k in element_kinds() {
         let _ = writeln!(out, "`{}`: {}\n", k.name(), k.summary());
         table(&mut out, k.params());
