@@ -121,7 +121,7 @@ pub mod material_args {
     use crate::units::Dim;
 
     /// dk/dT: W/(m·K²).
-    pub const SLOPE_DIM: Dim = Dim::new(1, 1, -3, -2);
+    pub const SLOPE_DIM: Dim = Dim::CONDUCTIVITY_SLOPE;
 
     pub fn is_table(e: &Expr) -> bool {
         matches!(&e.kind, ExprKind::Call { func, .. } if func.name == "table")

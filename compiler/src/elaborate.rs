@@ -4,23 +4,25 @@
 //! evaluated on demand, then materials, nodes and links are checked argument by argument, and
 //! build-up uses are expanded into chains of element links with named interface nodes.
 
-use crate::conductivity::material_args as kt;
 use crate::diagnostic::{did_you_mean, Diagnostic};
-use crate::elements::{self, shell, ArgType, ArgValue, Args, ElementKind, Material};
-use crate::eval::{expect_dim, expect_point, Evaluator, NameKinds};
+use crate::elements::{self, shell, Material};
+use crate::eval::{Evaluator, NameKinds};
 use crate::limits::{self, LimitSpec};
 use crate::network::{Group, Link, LinkFigure, Network, Node, NodeId};
 use crate::radial::{self, UseArgs};
 use crate::region;
+use crate::schema;
 use crate::source::Sources;
 use crate::span::Span;
 use crate::symbols::{Symbol, SymbolKind, SymbolTable};
 use crate::syntax::*;
-use crate::units::Dim;
 use std::collections::HashMap;
 
+mod args;
+mod materials;
 mod transient_decls;
 mod value_range;
+use args::Value;
 pub use transient_decls::{biot_number, fits_parameter, Biot, BIOT_LUMPED};
 pub use value_range::range_error;
 
@@ -44,9 +46,6 @@ impl NameKinds for Kinds<'_> {
         self.0.get(name).map(|s| s.kind.article())
     }
 }
-
-/// Range practitioners cite for solid building and engineering materials (common practice).
-const K_TYPICAL: (f64, f64) = (0.01, 1000.0);
 
 /// Elaborate parsed modules (the root first, then imports) into a network.
 pub fn elaborate(
@@ -194,7 +193,8 @@ pub fn elaborate(
     for item in &items {
         if let ItemKind::Node { name, args } = &item.kind {
             cx.owner = format!("node `{}`", name.name);
-            let (fixed, load) = cx.node_args(name, args);
+            let checked = cx.declared("node", name, args);
+            let (fixed, load) = cx.node_args(name, &checked);
             net.nodes.push(Node {
                 name: name.name.clone(),
                 span: name.span,
@@ -202,7 +202,7 @@ pub fn elaborate(
                 load,
                 generated: false,
             });
-            cx.node_dynamics(net.nodes.len() - 1, name, args, fixed.is_some());
+            cx.node_dynamics(net.nodes.len() - 1, name, &checked, fixed.is_some());
         }
     }
 
@@ -503,22 +503,6 @@ impl<'a> Cx<'a> {
         self.sources.text(span.file)
     }
 
-    /// Evaluate an argument value and check its dimension.
-    fn quantity(&mut self, e: &Expr, dim: Dim, what: &str) -> Option<crate::units::Quantity> {
-        let kinds = Kinds(&self.symbols);
-        let q = self.ev.eval(e, &kinds)?;
-        let src = self.sources.text(e.span.file);
-        if let Err(d) = expect_dim(q, dim, what, e, src) {
-            self.diags.push(d);
-            return None;
-        }
-        // A region's cell counts have their own check (E216: whole numbers within a limit).
-        if q.dim == Dim::NONE && value_range::COUNTS.contains(&what) {
-            return Some(q);
-        }
-        self.in_range(q, what, e).then_some(q)
-    }
-
     /// The checked material declared under `name`; `None` for an unknown one and for one that
     /// failed its own checks.
     fn material_named(&self, name: &str) -> Option<&Material> {
@@ -527,255 +511,35 @@ impl<'a> Cx<'a> {
             .and_then(|&i| self.materials.get(i))
     }
 
-    fn positive(&mut self, v: f64, e: &Expr, what: &str) -> bool {
-        if v > 0.0 && v.is_finite() {
-            return true;
-        }
-        let written = self
-            .text(e.span)
-            .get(e.span.range())
-            .unwrap_or("")
-            .to_string();
-        self.diags.push(
-            Diagnostic::error(
-                "E202",
-                format!("{what} must be greater than zero; `{written}` is not"),
-                e.span,
-            )
-            .with_label(if v == 0.0 { "zero" } else { "not positive" })
-            .with_help(format!("give {what} a positive value")),
-        );
-        false
-    }
-
-    fn conductivity_warning(&mut self, k: f64, e: &Expr) {
-        if k < K_TYPICAL.0 || k > K_TYPICAL.1 {
-            self.diags.push(
-                Diagnostic::warning("W101", format!("k = {} lies outside the usual 0.01–1000 W/(m·K)", elements::show(k, Dim::CONDUCTIVITY)), e.span)
-                    .with_label("unusual conductivity")
-                    .with_help("check the value and its unit (a common slip is W/(m·K) vs mW/(m·K)); the range is common practice for solids"),
-            );
-        }
-    }
-
-    fn material(&mut self, name: &Ident, args: &[Arg]) {
-        let mut k = None;
-        let mut density = None;
-        let mut specific_heat = None;
-        let mut k_of_t = kt::Parts::default();
-        let mut seen: HashMap<&str, Span> = HashMap::new();
-        for arg in args {
-            let Some(an) = &arg.name else {
-                self.diags.push(
-                    Diagnostic::error(
-                        "E204",
-                        "material properties are written `name = value`",
-                        arg.span,
-                    )
-                    .with_label("property without a name")
-                    .with_help("write e.g. `k = 0.04 W/(m*K)`"),
-                );
-                continue;
-            };
-            if let Some(prev) = seen.insert(&an.name, an.span) {
-                self.duplicate_arg(an, prev);
-                continue;
-            }
-            match an.name.as_str() {
-                "k" if kt::is_table(&arg.value) => {
-                    k = self.k_table(&arg.value, &mut k_of_t);
-                }
-                "k_slope" => {
-                    k_of_t.slope = self
-                        .quantity(&arg.value, kt::SLOPE_DIM, "k_slope")
-                        .map(|q| (q.value, arg.value.span));
-                    k_of_t.failed |= k_of_t.slope.is_none();
-                }
-                "k_at" => {
-                    if let Some(q) = self.quantity(&arg.value, Dim::TEMPERATURE, "k_at") {
-                        match expect_point(q, "k_at", &arg.value) {
-                            Ok(()) => k_of_t.at = Some((q.value, arg.value.span)),
-                            Err(d) => self.diags.push(d),
-                        }
-                    }
-                    k_of_t.failed |= k_of_t.at.is_none();
-                }
-                "k" => {
-                    if let Some(q) = self.quantity(&arg.value, Dim::CONDUCTIVITY, "k") {
-                        if self.positive(q.value, &arg.value, "k") {
-                            self.conductivity_warning(q.value, &arg.value);
-                            k = Some(q.value);
-                        }
-                    }
-                }
-                "density" => {
-                    density = self
-                        .quantity(&arg.value, Dim::DENSITY, "density")
-                        .filter(|q| self.positive(q.value, &arg.value, "density"))
-                        .map(|q| q.value)
-                }
-                "specific_heat" => {
-                    specific_heat = self
-                        .quantity(&arg.value, Dim::SPECIFIC_HEAT, "specific_heat")
-                        .filter(|q| self.positive(q.value, &arg.value, "specific_heat"))
-                        .map(|q| q.value)
-                }
-                _ => self.unknown_arg(
-                    an,
-                    "a material",
-                    &["k", "k_slope", "k_at", "density", "specific_heat"],
-                ),
-            }
-        }
-        let Some(k) = k else {
-            if !seen.contains_key("k") {
-                self.diags.push(
-                    Diagnostic::error(
-                        "E203",
-                        format!("material `{}` needs a conductivity `k`", name.name),
-                        name.span,
-                    )
-                    .with_label("no `k`")
-                    .with_help("add it, e.g. `(k = 0.04 W/(m*K))`"),
-                );
-            }
-            return;
+    /// Check a declaration's arguments against the schema's entry for `word`.
+    fn declared(&mut self, word: &str, name: &Ident, args: &[Arg]) -> args::Checked {
+        let Some(d) = schema::declaration(word) else {
+            return args::Checked::default();
         };
-        // A k_slope or k_at that failed its own check is reported there; saying the pair is
-        // incomplete as well would only confuse.
-        if k_of_t.failed {
-            return;
-        }
-        let conductivity = match k_of_t.model(k, name) {
-            Ok(c) => c,
-            Err(d) => {
-                self.diags.push(d);
-                return;
+        let subject = format!("{} `{}`", d.noun, name.name);
+        // The schema's example, with the analyst's own name in it.
+        let example = match d.example.split_once(' ') {
+            Some((word, rest)) => {
+                let end = rest
+                    .find(|c: char| !(c.is_alphanumeric() || c == '_'))
+                    .unwrap_or(rest.len());
+                format!("{word} {}{}", name.name, &rest[end..])
             }
+            None => d.example.to_string(),
         };
-        // Only a material that passed its checks gets a slot: a link naming a failed one finds
-        // no slot (and no error of its own), never the slot of the next material.
-        self.material_index
-            .insert(name.name.clone(), self.materials.len());
-        self.materials.push(Material {
-            name: name.name.clone(),
-            span: name.span,
-            k,
-            density,
-            specific_heat,
-            conductivity,
-        });
+        self.decl_args(d.arg_specs(), &subject, &example, name.span, args, false)
     }
 
-    /// `k = table(T₁, k₁, T₂, k₂, …)`: evaluate and check the points; k at the first point is
-    /// the material's nominal k.
-    fn k_table(&mut self, e: &Expr, parts: &mut kt::Parts) -> Option<f64> {
-        let ExprKind::Call { args, .. } = &e.kind else {
-            return None;
+    /// A node's boundary temperature and load (a schedule's value at time 0 for one that
+    /// follows a schedule, as a steady solve uses).
+    fn node_args(&mut self, name: &Ident, c: &args::Checked) -> (Option<f64>, f64) {
+        let value = |n: &str| match c.value(n) {
+            Some(Value::Quantity(q)) => Some(q.value),
+            Some(Value::Schedule(i)) => Some(self.timed.dynamics.schedules[*i].value(0.0)),
+            _ => None,
         };
-        let mut points = Vec::new();
-        let mut ok = true;
-        for pair in args.chunks(2) {
-            let t = self.quantity(&pair[0], Dim::TEMPERATURE, "a table temperature");
-            let t = t.filter(
-                |q| match expect_point(*q, "a table temperature", &pair[0]) {
-                    Ok(()) => true,
-                    Err(d) => {
-                        self.diags.push(d);
-                        false
-                    }
-                },
-            );
-            let k = pair.get(1).and_then(|v| {
-                self.quantity(v, Dim::CONDUCTIVITY, "a table conductivity")
-                    .filter(|q| self.positive(q.value, v, "k"))
-            });
-            match (t, k) {
-                (Some(t), Some(k)) => points.push((t.value, k.value, pair[0].span)),
-                _ => ok = false,
-            }
-        }
-        match kt::check_table(e, args.len(), &points) {
-            Some(d) => {
-                self.diags.push(d);
-                None
-            }
-            None if ok => {
-                parts.table = Some(points.iter().map(|p| (p.0, p.1)).collect());
-                Some(points[0].1)
-            }
-            None => None,
-        }
-    }
-
-    fn node_args(&mut self, name: &Ident, args: &[Arg]) -> (Option<f64>, f64) {
-        let mut fixed = None;
-        let mut load = 0.0;
-        let mut load_span = None;
-        let mut seen: HashMap<&str, Span> = HashMap::new();
-        for arg in args {
-            let Some(an) = &arg.name else {
-                self.diags.push(
-                    Diagnostic::error("E204", "node properties are written `name = value`", arg.span)
-                        .with_label("property without a name")
-                        .with_help("write `fixed = 20 °C` for a boundary temperature or `load = 3 W` for a heat load"),
-                );
-                continue;
-            };
-            if let Some(prev) = seen.insert(&an.name, an.span) {
-                self.duplicate_arg(an, prev);
-                continue;
-            }
-            // A boundary temperature or load that follows a schedule: its value at time 0 here.
-            if let Some(v) = matches!(an.name.as_str(), "fixed" | "load")
-                .then(|| self.scheduled_arg(an, arg))
-                .flatten()
-            {
-                match (an.name.as_str(), v) {
-                    ("fixed", Some(v)) => fixed = Some(v),
-                    (_, Some(v)) => {
-                        load = v;
-                        load_span = Some(an.span);
-                    }
-                    _ => {}
-                }
-                continue;
-            }
-            match an.name.as_str() {
-                "fixed" => {
-                    if let Some(q) = self.quantity(&arg.value, Dim::TEMPERATURE, "fixed") {
-                        match expect_point(q, "fixed", &arg.value) {
-                            Ok(()) if q.value <= 0.0 => self.diags.push(
-                                Diagnostic::error(
-                                    "E202",
-                                    "this temperature is at or below absolute zero",
-                                    arg.value.span,
-                                )
-                                .with_label("below 0 K")
-                                .with_help("check the value and its unit (°C, °F or K)"),
-                            ),
-                            Ok(()) => fixed = Some(q.value),
-                            Err(d) => self.diags.push(d),
-                        }
-                    }
-                }
-                "load" => {
-                    if let Some(q) = self.quantity(&arg.value, Dim::POWER, "load") {
-                        load = q.value;
-                        load_span = Some(an.span);
-                    }
-                }
-                n if transient_decls::NODE_ARGS.contains(&n) => {}
-                _ => self.unknown_arg(
-                    an,
-                    "a node",
-                    &[
-                        "fixed", "load", "capacity", "material", "volume", "mass", "initial",
-                    ],
-                ),
-            }
-        }
-        if let (Some(_), Some(ls)) = (fixed, load_span) {
+        let (fixed, load) = (value("fixed"), value("load"));
+        if let (Some(_), Some(_), Some(ls)) = (fixed, load, c.name_span("load")) {
             self.diags.push(
                 Diagnostic::error(
                     "E209",
@@ -789,7 +553,47 @@ impl<'a> Cx<'a> {
                 .with_help("put the load on a free node linked to it, or remove `fixed`"),
             );
         }
-        (fixed, load)
+        (fixed, load.unwrap_or(0.0))
+    }
+
+    /// The arguments of a link that uses a build-up, checked against the schema's entry for
+    /// its geometry: the area of a plane build-up (needed only when an element takes an area),
+    /// the bore radius (and the length of a cylindrical one) of a radial build-up.
+    fn buildup_use_args(
+        &mut self,
+        call: &ElementCall,
+        els: &[BuildupElement],
+        geom: shell::Geometry,
+    ) -> Option<UseArgs> {
+        let needs_area = els
+            .iter()
+            .any(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| k.takes_area()));
+        let specs: Vec<schema::ArgSpec> = schema::buildup_use(geom)
+            .iter()
+            .map(|s| match s.name {
+                "area" if !needs_area => s.optional(),
+                _ => *s,
+            })
+            .collect();
+        let (subject, example) = match geom {
+            shell::Geometry::Plane => ("build-up", "area = 10 m^2"),
+            shell::Geometry::Cylinder => ("radial build-up", "inner_radius = 27 mm, length = 12 m"),
+            shell::Geometry::Sphere => ("radial build-up", "inner_radius = 1.2 m"),
+        };
+        let name = &call.kind.name;
+        let c = self.decl_args(
+            &specs,
+            &format!("{subject} `{name}`"),
+            &format!("{name}({example})"),
+            call.span,
+            &call.args,
+            true,
+        );
+        c.ok.then(|| UseArgs {
+            area: c.with_span("area"),
+            inner_radius: c.with_span("inner_radius"),
+            length: c.with_span("length"),
+        })
     }
 
     /// Attach a region's edges and faces to their nodes, each through its element if it has one.
@@ -803,12 +607,13 @@ impl<'a> Cx<'a> {
     ) {
         let mut seen: HashMap<&str, Span> = HashMap::new();
         for e in edges {
-            if !region::SIDES.contains(&e.side.name.as_str()) {
-                self.unknown_arg(&e.side, "a region", region::SIDES);
+            let sides: Vec<&'static str> = schema::REGION_SIDES.iter().map(|s| s.0).collect();
+            if !sides.contains(&e.side.name.as_str()) {
+                self.unknown_arg(&e.side, &format!("region `{}`", plan.region.name), &sides);
                 continue;
             }
             if let Some(prev) = seen.insert(&e.side.name, e.side.span) {
-                self.duplicate_arg(&e.side, prev);
+                self.duplicate_arg(&e.side.name, e.side.span, prev);
                 continue;
             }
             let Some(node) = self.node_ref(&e.node, index, buildups) else {
@@ -847,36 +652,6 @@ impl<'a> Cx<'a> {
             };
             plan.attach(net, &e.side.name, node, element);
         }
-    }
-
-    fn duplicate_arg(&mut self, an: &Ident, prev: Span) {
-        self.diags.push(
-            Diagnostic::error("E205", format!("`{}` is given twice", an.name), an.span)
-                .with_label("given again")
-                .with_secondary(prev, "first given here")
-                .with_help("keep one of them"),
-        );
-    }
-
-    fn unknown_arg(&mut self, an: &Ident, what: &str, known: &[&str]) {
-        let list = known
-            .iter()
-            .map(|k| format!("`{k}`"))
-            .collect::<Vec<_>>()
-            .join(", ");
-        let mut d = Diagnostic::error(
-            "E204",
-            format!("{what} has no argument `{}`", an.name),
-            an.span,
-        )
-        .with_label("unknown argument");
-        d = match did_you_mean(&an.name, known.iter().copied()) {
-            Some(s) => d
-                .with_help(format!("did you mean `{s}`? It takes {list}"))
-                .with_fix(format!("Replace with `{s}`"), an.span, s),
-            None => d.with_help(format!("it takes {list}")),
-        };
-        self.diags.push(d);
     }
 
     fn unknown_kind(&mut self, kind: &Ident, buildups: &HashMap<&str, &Vec<BuildupElement>>) {
@@ -946,162 +721,6 @@ impl<'a> Cx<'a> {
         }
         self.diags.push(d);
         None
-    }
-
-    /// Check an element's arguments against its schema. `area` is supplied by the link when the
-    /// element sits in a build-up.
-    fn args(
-        &mut self,
-        kind: &'static dyn ElementKind,
-        args: &[Arg],
-        call_span: Span,
-        supplied: &[(&'static str, f64, Span)],
-    ) -> Option<Args> {
-        let specs = kind.params();
-        let mut values = HashMap::new();
-        let mut ok = true;
-        for (i, arg) in args.iter().enumerate() {
-            let spec = match &arg.name {
-                Some(n) => match specs.iter().find(|s| s.name == n.name) {
-                    Some(s) => s,
-                    None => {
-                        let known: Vec<&str> = specs.iter().map(|s| s.name).collect();
-                        self.unknown_arg(n, &format!("`{}`", kind.name()), &known);
-                        ok = false;
-                        continue;
-                    }
-                },
-                None if i == 0 => &specs[0],
-                None => {
-                    self.diags.push(
-                        Diagnostic::error(
-                            "E204",
-                            "only the first argument may be written without its name",
-                            arg.span,
-                        )
-                        .with_label("argument without a name")
-                        .with_help(format!(
-                            "write `name = value`; `{}` takes {}",
-                            kind.name(),
-                            specs
-                                .iter()
-                                .map(|s| format!("`{}`", s.name))
-                                .collect::<Vec<_>>()
-                                .join(", ")
-                        )),
-                    );
-                    ok = false;
-                    continue;
-                }
-            };
-            let key_span = arg.name.as_ref().map(|n| n.span).unwrap_or(arg.span);
-            if let Some((_, prev)) = values.get(spec.name) {
-                let prev: Span = *prev;
-                self.duplicate_arg(
-                    &Ident {
-                        name: spec.name.to_string(),
-                        span: key_span,
-                    },
-                    prev,
-                );
-                ok = false;
-                continue;
-            }
-            if supplied.iter().any(|s| s.0 == spec.name) {
-                self.diags
-                    .push(radial::supplied_inside(spec.name, arg.span));
-                ok = false;
-                continue;
-            }
-            match spec.ty {
-                ArgType::Material => {
-                    match &arg.value.kind {
-                        ExprKind::Name(id) if self.material_named(&id.name).is_some() => {
-                            self.symbols.add_ref(&id.name, id.span);
-                            if let Some(m) = self.material_named(&id.name).cloned() {
-                                values.insert(spec.name, (ArgValue::Material(m), arg.value.span));
-                            }
-                        }
-                        ExprKind::Name(id)
-                            if self
-                                .symbols
-                                .get(&id.name)
-                                .is_some_and(|s| s.kind == SymbolKind::Material) =>
-                        {
-                            // The material itself failed to check; its error is already reported.
-                            self.symbols.add_ref(&id.name, id.span);
-                            ok = false;
-                        }
-                        ExprKind::Name(id) => {
-                            ok = false;
-                            let known: Vec<&str> =
-                                self.symbols.names_of(SymbolKind::Material).collect();
-                            let mut d = if let Some(s) = self.symbols.get(&id.name) {
-                                Diagnostic::error(
-                                    "E105",
-                                    format!(
-                                        "`{}` is {}, not a material",
-                                        id.name,
-                                        s.kind.article()
-                                    ),
-                                    id.span,
-                                )
-                                .with_label("a material was expected")
-                            } else {
-                                Diagnostic::error(
-                                    "E102",
-                                    format!("unknown material `{}`", id.name),
-                                    id.span,
-                                )
-                                .with_label("no material has this name")
-                            };
-                            d =
-                                match did_you_mean(&id.name, known) {
-                                    Some(s) => d
-                                        .with_help(format!("did you mean `{s}`?"))
-                                        .with_fix(format!("Replace with `{s}`"), id.span, s),
-                                    None => d.with_help(format!(
-                                        "declare it, e.g. `material {} (k = 0.04 W/(m*K))`",
-                                        id.name
-                                    )),
-                                };
-                            self.diags.push(d);
-                        }
-                        _ => {
-                            ok = false;
-                            self.diags.push(
-                            Diagnostic::error("E101", format!("`{}` expects the name of a material", spec.name), arg.value.span)
-                                .with_label("not a material name")
-                                .with_help("name a declared material, or give the conductivity as `k = ...`"),
-                        );
-                        }
-                    }
-                }
-                ArgType::Quantity(dim) => match self.quantity(&arg.value, dim, spec.name) {
-                    Some(q) => {
-                        if spec.positive && !self.positive(q.value, &arg.value, spec.name) {
-                            ok = false;
-                            continue;
-                        }
-                        if dim == Dim::CONDUCTIVITY {
-                            self.conductivity_warning(q.value, &arg.value);
-                        }
-                        values.insert(spec.name, (ArgValue::Quantity(q.value), arg.value.span));
-                    }
-                    None => ok = false,
-                },
-            }
-        }
-        for &(name, v, span) in supplied {
-            if kind.params().iter().any(|p| p.name == name) {
-                values.insert(name, (ArgValue::Quantity(v), span));
-            }
-        }
-        ok.then_some(Args {
-            kind: kind.name(),
-            values,
-            call_span,
-        })
     }
 
     #[allow(clippy::too_many_arguments)]
@@ -1219,54 +838,6 @@ impl<'a> Cx<'a> {
                 });
             }
         }
-    }
-
-    /// The arguments of a link that uses a build-up: the area of a plane build-up, the bore
-    /// radius (and the length of a cylindrical one) of a radial build-up.
-    fn buildup_use_args(
-        &mut self,
-        call: &ElementCall,
-        els: &[BuildupElement],
-        geom: shell::Geometry,
-    ) -> Option<UseArgs> {
-        let allowed = radial::use_arg_names(geom);
-        let mut found: HashMap<&'static str, (f64, Span)> = HashMap::new();
-        for arg in &call.args {
-            let key = arg
-                .name
-                .as_ref()
-                .map(|n| n.name.as_str())
-                .unwrap_or(allowed[0]);
-            match allowed.iter().find(|a| **a == key) {
-                Some(&k) if !found.contains_key(k) => {
-                    let dim = if k == "area" { Dim::AREA } else { Dim::LENGTH };
-                    if let Some(q) = self.quantity(&arg.value, dim, k) {
-                        if self.positive(q.value, &arg.value, k) {
-                            found.insert(k, (q.value, arg.value.span));
-                        }
-                    }
-                }
-                _ => {
-                    let n = arg.name.clone().unwrap_or(Ident {
-                        name: "value".into(),
-                        span: arg.span,
-                    });
-                    self.unknown_arg(&n, &format!("build-up `{}`", call.kind.name), allowed);
-                }
-            }
-        }
-        let needs_area = els
-            .iter()
-            .any(|e| elements::lookup(&e.element.kind.name).is_some_and(|k| k.takes_area()));
-        if let Some(d) = radial::missing_use_args(call, geom, allowed, &found, needs_area) {
-            self.diags.push(d);
-            return None;
-        }
-        Some(UseArgs {
-            area: found.get("area").copied(),
-            inner_radius: found.get("inner_radius").copied(),
-            length: found.get("length").copied(),
-        })
     }
 }
 

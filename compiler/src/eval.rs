@@ -476,20 +476,21 @@ impl<'a> Evaluator<'a> {
         args: &[Expr],
         span: Span,
     ) -> Option<Quantity> {
-        let arity = match func.name.as_str() {
-            "sqrt" | "ln" | "exp" | "abs" => 1,
-            "min" | "max" => 2,
-            _ => {
+        // The functions and their arities come from the schema; the match below computes them.
+        let arity = match crate::schema::function(&func.name) {
+            Some(f) => f.params.len(),
+            None => {
+                let names = crate::schema::FUNCTIONS.iter().map(|f| f.name);
+                let list = names.clone().collect::<Vec<_>>();
+                let (last, rest) = list.split_last().unwrap_or((&"", &[]));
                 let mut d = Diagnostic::error(
                     "E107",
                     format!("unknown function `{}`", func.name),
                     func.span,
                 )
                 .with_label("not a function")
-                .with_help("the functions are sqrt, ln, exp, abs, min and max");
-                if let Some(s) =
-                    did_you_mean(&func.name, ["sqrt", "ln", "exp", "abs", "min", "max"])
-                {
+                .with_help(format!("the functions are {} and {last}", rest.join(", ")));
+                if let Some(s) = did_you_mean(&func.name, names) {
                     d = d.with_help(format!("did you mean `{s}`?")).with_fix(
                         format!("Replace with `{s}`"),
                         func.span,

@@ -297,6 +297,8 @@ impl Expander<'_> {
     ) -> Option<(usize, Option<String>)> {
         let mut count = None;
         let mut first = None;
+        // A misspelt `count` is reported once, as the unknown name.
+        let mut suggested_count = false;
         for (i, a) in args.iter().enumerate() {
             let key = a
                 .name
@@ -318,20 +320,36 @@ impl Expander<'_> {
                     ),
                 },
                 _ => {
+                    // The names a repetition takes are the schema's (`schema::REPEAT`).
                     let span = a.name.as_ref().map(|n| n.span).unwrap_or(a.span);
-                    self.diags.push(
-                        Diagnostic::error(
-                            "E204",
-                            format!("`repeat` takes `count` and `first`, not `{key}`"),
+                    let known = crate::schema::REPEAT.iter().map(|s| s.name);
+                    let list = list(known.clone());
+                    let mut d = Diagnostic::error(
+                        "E204",
+                        format!("`repeat` takes {list}, not `{key}`"),
+                        span,
+                    )
+                    .with_label("unknown argument");
+                    let suggestion = did_you_mean(key, known);
+                    suggested_count |= suggestion == Some("count");
+                    d = match suggestion {
+                        Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
+                            format!("Replace with `{s}`"),
                             span,
-                        )
-                        .with_label("unknown argument")
-                        .with_help("write `repeat seg (count = 10, first = base) { ... }`"),
-                    );
+                            s,
+                        ),
+                        None => {
+                            d.with_help("write `repeat seg (count = 10, first = base) { ... }`")
+                        }
+                    };
+                    self.diags.push(d);
                 }
             }
         }
         let Some(c) = count else {
+            if suggested_count {
+                return None;
+            }
             self.diags.push(
                 Diagnostic::error(
                     "E203",

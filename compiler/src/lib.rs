@@ -28,6 +28,7 @@ pub mod radial;
 pub mod region;
 pub mod render;
 pub mod results;
+pub mod schema;
 pub mod solve;
 pub mod source;
 pub mod span;

@@ -3,6 +3,7 @@
 use crate::diagnostic::{did_you_mean, Diagnostic};
 use crate::eval::{expect_dim, expect_point};
 use crate::network::Network;
+use crate::schema::MEASURES;
 use crate::source::Sources;
 use crate::span::Span;
 use crate::symbols::SymbolTable;
@@ -21,46 +22,16 @@ pub enum Measure {
     RValue,
 }
 
-pub const MEASURES: &[(&str, Measure, &str)] = &[
-    ("temperature", Measure::Temperature, "temperature of a node"),
-    (
-        "heat_flow",
-        Measure::HeatFlow,
-        "heat flow through a link, positive from its first node to its second",
-    ),
-    (
-        "heat_flux",
-        Measure::HeatFlux,
-        "heat flow per area of a link that has an area",
-    ),
-    (
-        "u_value",
-        Measure::UValue,
-        "U-value 1/(R·A) of a link with an area or a build-up",
-    ),
-    (
-        "r_value",
-        Measure::RValue,
-        "R-value R·A of a link with an area or a build-up",
-    ),
-];
-
 impl Measure {
+    /// Its entry in the schema ([`MEASURES`]): name, dimension, doc.
+    fn spec(self) -> Option<&'static crate::schema::MeasureSpec> {
+        MEASURES.iter().find(|m| m.measure == self)
+    }
     pub fn name(self) -> &'static str {
-        MEASURES
-            .iter()
-            .find(|m| m.1 == self)
-            .map(|m| m.0)
-            .unwrap_or("")
+        self.spec().map(|m| m.name).unwrap_or("")
     }
     pub fn dim(self) -> Dim {
-        match self {
-            Measure::Temperature => Dim::TEMPERATURE,
-            Measure::HeatFlow => Dim::POWER,
-            Measure::HeatFlux => Dim::HEAT_FLUX,
-            Measure::UValue => Dim::HEAT_TRANSFER_COEFF,
-            Measure::RValue => Dim::AREA_RESISTANCE,
-        }
+        self.spec().map(|m| m.dim).unwrap_or(Dim::NONE)
     }
 }
 
@@ -93,8 +64,8 @@ pub fn resolve_measure(
     net: &Network,
     symbols: &mut SymbolTable,
 ) -> Result<(Measure, Subject), Option<Diagnostic>> {
-    let Some(&(_, m, _)) = MEASURES.iter().find(|m| m.0 == measure.name) else {
-        let names = MEASURES.iter().map(|m| m.0);
+    let Some(m) = crate::schema::measure(&measure.name).map(|m| m.measure) else {
+        let names = MEASURES.iter().map(|m| m.name);
         let mut d = Diagnostic::error(
             "E401",
             format!("unknown measure `{}`", measure.name),
@@ -103,7 +74,7 @@ pub fn resolve_measure(
         .with_label("not a measure");
         let list = MEASURES
             .iter()
-            .map(|m| format!("`{}`", m.0))
+            .map(|m| format!("`{}`", m.name))
             .collect::<Vec<_>>()
             .join(", ");
         d = match did_you_mean(&measure.name, names) {

@@ -7,9 +7,8 @@
 use crate::diagnostic::Diagnostic;
 use crate::elements::{self, shell, shell::Geometry, Args, Built, ElementKind};
 use crate::span::Span;
-use crate::syntax::{BuildupElement, ElementCall, Ident};
+use crate::syntax::{BuildupElement, Ident};
 use crate::units::Dim;
-use std::collections::HashMap;
 use std::f64::consts::PI;
 
 /// What the link using a build-up supplies to its elements.
@@ -48,69 +47,14 @@ impl UseArgs {
     }
 }
 
-/// The arguments a link using a build-up of this geometry takes; the first may go unnamed.
-pub fn use_arg_names(geom: Geometry) -> &'static [&'static str] {
+/// The names [`UseArgs::supplied`] gives the elements of a build-up of this geometry, so that
+/// the editor does not offer them inside one.
+pub fn supplied_names(geom: Geometry) -> &'static [&'static str] {
     match geom {
         Geometry::Plane => &["area"],
-        Geometry::Cylinder => &["inner_radius", "length"],
-        Geometry::Sphere => &["inner_radius"],
+        Geometry::Cylinder => &["length", "area", "inner_radius"],
+        Geometry::Sphere => &["inner_radius", "area"],
     }
-}
-
-/// E203 when a use lacks the area (plane) or the bore (radial).
-pub fn missing_use_args(
-    call: &ElementCall,
-    geom: Geometry,
-    allowed: &[&str],
-    found: &HashMap<&'static str, (f64, Span)>,
-    needs_area: bool,
-) -> Option<Diagnostic> {
-    if geom == Geometry::Plane {
-        return (needs_area && call.args.is_empty()).then(|| {
-            Diagnostic::error(
-                "E203",
-                format!("build-up `{}` needs the `area` it covers", call.kind.name),
-                call.span,
-            )
-            .with_label("`area` missing")
-            .with_help(format!("add it, e.g. `{}(area = 10 m^2)`", call.kind.name))
-        });
-    }
-    // Only what is not written at all: an argument that failed its own check is reported already.
-    let _ = found;
-    let written = |k: &str| {
-        call.args.iter().enumerate().any(|(i, a)| {
-            a.name
-                .as_ref()
-                .map_or(i == 0 && k == allowed[0], |n| n.name == k)
-        })
-    };
-    let missing: Vec<&str> = allowed.iter().copied().filter(|k| !written(k)).collect();
-    if missing.is_empty() {
-        return None;
-    }
-    let example = if geom == Geometry::Cylinder {
-        "inner_radius = 27 mm, length = 12 m"
-    } else {
-        "inner_radius = 1.2 m"
-    };
-    let list = missing
-        .iter()
-        .map(|m| format!("`{m}`"))
-        .collect::<Vec<_>>()
-        .join(" and ");
-    Some(
-        Diagnostic::error(
-            "E203",
-            format!("build-up `{}` is radial and needs {list}", call.kind.name),
-            call.span,
-        )
-        .with_label(format!("{list} missing"))
-        .with_help(format!(
-            "give the bore where the build-up is used, e.g. `{}({example})`",
-            call.kind.name
-        )),
-    )
 }
 
 /// E210: an element states what the build-up's use supplies.

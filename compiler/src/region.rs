@@ -15,7 +15,7 @@
 
 use crate::diagnostic::Diagnostic;
 use crate::elements::shell::{conduction_law, conductivity};
-use crate::elements::{q, show, ArgType, Args, Built, ElementKind, ParamSpec};
+use crate::elements::{material, q, show, ArgSpec, Args, Built, ElementKind};
 use crate::network::{Link, LinkId, LinkLaw, Network, Node, NodeId};
 use crate::span::Span;
 use crate::units::Dim;
@@ -27,32 +27,35 @@ pub const MAX_CELLS: usize = 250_000;
 /// The region's own arguments, checked like an element's.
 pub struct RegionArgs;
 
-const REGION: &[ParamSpec] = &[
-    ParamSpec {
-        name: "material",
-        ty: ArgType::Material,
-        positive: false,
-        doc: "the region's material (gives k)",
-    },
+/// The arguments of a region (the schema's entry for `region`).
+pub const REGION: &[ArgSpec] = &[
+    material("the region's material (gives k)").either("k"),
     q(
         "k",
         Dim::CONDUCTIVITY,
         "conductivity, instead of a material",
-    ),
+    )
+    .either("material"),
     q(
         "thickness",
         Dim::LENGTH,
         "thickness t of the plate (out of the plane)",
-    ),
-    q("width", Dim::LENGTH, "size along x (left to right)"),
-    q("height", Dim::LENGTH, "size along y (bottom to top)"),
-    q("cells_x", Dim::NONE, "number of cells along x"),
-    q("cells_y", Dim::NONE, "number of cells along y"),
+    )
+    .required(),
+    q("width", Dim::LENGTH, "size along x (left to right)").required(),
+    q("height", Dim::LENGTH, "size along y (bottom to top)").required(),
+    q("cells_x", Dim::NONE, "number of cells along x")
+        .required()
+        .count(MAX_CELLS as u32),
+    q("cells_y", Dim::NONE, "number of cells along y")
+        .required()
+        .count(MAX_CELLS as u32),
     q(
         "load",
         Dim::POWER,
         "heat generated in the region, spread evenly over its cells",
-    ),
+    )
+    .default("none"),
 ];
 
 impl ElementKind for RegionArgs {
@@ -62,7 +65,7 @@ impl ElementKind for RegionArgs {
     fn summary(&self) -> &'static str {
         "a rectangular plate or wall section meshed into cells"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         REGION
     }
     fn build(&self, _: &Args) -> Result<Built, Diagnostic> {
@@ -73,9 +76,6 @@ impl ElementKind for RegionArgs {
         })
     }
 }
-
-/// The four edges and two faces an attachment may name.
-pub const SIDES: &[&str] = &["left", "right", "bottom", "top", "front", "back"];
 
 /// A region as meshed, kept in the network for results.
 #[derive(Clone, Debug, Serialize)]
@@ -149,27 +149,10 @@ pub struct Plan {
     load: f64,
 }
 
+/// A number of cells: a whole number from 1 to [`MAX_CELLS`], checked with the arguments
+/// (`Range::Count`).
 fn count(a: &Args, name: &str) -> Result<usize, Diagnostic> {
-    let v = a.require(name, "cells_x = 20")?;
-    if !(1.0..=MAX_CELLS as f64).contains(&v) {
-        return Err(Diagnostic::error(
-            "E216",
-            format!("`{name}` must be a whole number from 1 to {MAX_CELLS}; {v} is not"),
-            a.span(name),
-        )
-        .with_label("not a usable number of cells")
-        .with_help("give the number of cells, e.g. `cells_x = 20`; check the number for a slip"));
-    }
-    if v.fract() != 0.0 {
-        return Err(Diagnostic::error(
-            "E216",
-            format!("`{name}` must be a whole number of cells; {v} is not"),
-            a.span(name),
-        )
-        .with_label("not a whole number")
-        .with_help("give the number of cells, e.g. `cells_x = 20`"));
-    }
-    Ok(v as usize)
+    Ok(a.require(name, "cells_x = 20")? as usize)
 }
 
 impl Plan {

@@ -48,12 +48,24 @@ Read when Eglot loads; after changing it, evaluate
   '("title" "import" "param" "material" "node" "link" "buildup" "limit" "to")
   "Keywords of the Caloris language.")
 
-(defconst caloris-builtin-functions
-  '("sqrt" "ln" "exp" "abs" "min" "max"
-    "temperature" "heat_flow" "heat_flux" "u_value" "r_value"
-    "layer" "film" "contact" "resistance" "conductance"
+;; The word lists below are checked against the compiler's schema by
+;; tests/editor_grammars.rs: every word of the language, and no other.
+(defconst caloris-functions
+  '("sqrt" "ln" "exp" "abs" "min" "max")
+  "Functions of Caloris expressions.")
+
+(defconst caloris-measures
+  '("temperature" "heat_flow" "heat_flux" "u_value" "r_value")
+  "What a Caloris limit may measure.")
+
+(defconst caloris-element-kinds
+  '("layer" "film" "contact" "resistance" "conductance"
     "cylinder" "sphere" "radiation" "buried_pipe" "buried_sphere"
     "parallel_cylinders" "fin" "heated_slab" "heated_rod")
+  "Element kinds of Caloris links.")
+
+(defconst caloris-builtin-functions
+  (append caloris-functions caloris-measures caloris-element-kinds)
   "Functions, measures and element kinds that Caloris provides.")
 
 (defconst caloris--name-re "[[:alpha:]_][[:alnum:]_]*"

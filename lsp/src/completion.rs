@@ -1,54 +1,22 @@
-//! Completion: keywords at the start of a declaration, names in scope where a name goes,
-//! element kinds and build-ups for a link's kind, argument names inside an element call,
+//! Completion: declaration words at the start of a declaration, names in scope where a name
+//! goes, element kinds and build-ups for a link's kind, argument names inside an argument list,
 //! materials where a material goes, and unit spellings after a number (those of the expected
-//! dimension first).
+//! dimension first). Words and arguments come from the compiler's schema.
 
 use crate::proto::lsp;
 use crate::snapshot::Snapshot;
-use caloris_compiler::elements::{self, ArgType};
-use caloris_compiler::limits::MEASURES;
+use caloris_compiler::elements;
 use caloris_compiler::query::{
-    completion_context, expected_dim, ArgOwner, CallInfo, CompletionContext, Slot,
+    buildup_use_args, completion_context, expected_dim, ArgOwner, CallInfo, CompletionContext, Slot,
 };
+use caloris_compiler::schema::{self, ArgSpec, ArgType};
 use caloris_compiler::symbols::SymbolKind;
 use caloris_compiler::units::{parse_unit, unit_spellings, Dim};
-use lsp::{CompletionItem, CompletionItemKind, CompletionTextEdit, Position, Range, TextEdit};
-
-const KEYWORDS: &[(&str, &str)] = &[
-    ("title", "the model's title: title \"Garden office wall\""),
-    (
-        "import",
-        "materials, parameters and build-ups of another file: import \"lib/materials.heat\"",
-    ),
-    ("param", "a named value: param wall_area = 2.4 m * 4 m"),
-    (
-        "material",
-        "a material: material wood_fibre (k = 0.04 W/(m*K))",
-    ),
-    ("node", "a temperature node: node room (fixed = 20 °C)"),
-    (
-        "link",
-        "heat path between two nodes: link wall: room to outdoor layer(...)",
-    ),
-    (
-        "buildup",
-        "layers and films in series, used by links: buildup wall { ... }",
-    ),
-    (
-        "limit",
-        "a design limit: limit touch: temperature(case) < 60 °C",
-    ),
-];
-
-const FUNCTIONS: &[(&str, &str)] = &[
-    ("sqrt", "square root"),
-    ("ln", "natural logarithm (dimensionless)"),
-    ("exp", "exponential (dimensionless)"),
-    ("abs", "absolute value"),
-    ("min", "smaller of two values"),
-    ("max", "larger of two values"),
-    ("pi", "π"),
-];
+use caloris_compiler::Analysis;
+use lsp::{
+    CompletionItem, CompletionItemKind, CompletionTextEdit, Documentation, Position, Range,
+    TextEdit,
+};
 
 /// Prefixed and compound spellings offered besides the unit table's own.
 const COMMON_UNITS: &[&str] = &[
@@ -112,9 +80,22 @@ pub fn completion(snap: &Snapshot, pos: Position) -> Vec<CompletionItem> {
             .collect::<Vec<_>>()
     };
     match &ctx.slot {
-        Slot::Keyword => KEYWORDS
+        Slot::Keyword => schema::DECLARATIONS
             .iter()
-            .map(|(k, d)| item(range, k, &format!("{k} "), CompletionItemKind::KEYWORD, d))
+            .map(|d| {
+                let mut it = item(
+                    range,
+                    d.word,
+                    &format!("{} ", d.word),
+                    CompletionItemKind::KEYWORD,
+                    d.doc,
+                );
+                it.documentation = Some(Documentation::String(format!(
+                    "{}\n\ne.g. {}",
+                    d.form, d.example
+                )));
+                it
+            })
             .collect(),
         Slot::Node => plain(names(&[SymbolKind::Node, SymbolKind::GeneratedNode])),
         Slot::LinkKind => {
@@ -125,7 +106,7 @@ pub fn completion(snap: &Snapshot, pos: Position) -> Vec<CompletionItem> {
         Slot::ElementKind => element_kinds(range),
         Slot::ArgName => arg_names(snap, &ctx, range),
         Slot::ArgValue => {
-            let material = ctx.call.as_ref().is_some_and(wants_material);
+            let material = ctx.call.as_ref().is_some_and(|c| wants_material(c, a));
             if material {
                 plain(names(&[SymbolKind::Material]))
             } else {
@@ -133,9 +114,17 @@ pub fn completion(snap: &Snapshot, pos: Position) -> Vec<CompletionItem> {
             }
         }
         Slot::Unit => units(range, &ctx, snap),
-        Slot::Measure => MEASURES
+        Slot::Measure => schema::MEASURES
             .iter()
-            .map(|(m, _, d)| item(range, m, &format!("{m}("), CompletionItemKind::FUNCTION, d))
+            .map(|m| {
+                item(
+                    range,
+                    m.name,
+                    &format!("{}(", m.name),
+                    CompletionItemKind::FUNCTION,
+                    m.doc,
+                )
+            })
             .collect(),
         Slot::LimitSubject { measure } if measure == "temperature" => {
             plain(names(&[SymbolKind::Node, SymbolKind::GeneratedNode]))
@@ -195,83 +184,74 @@ fn element_kinds(range: Range) -> Vec<CompletionItem> {
         .collect()
 }
 
-fn wants_material(call: &CallInfo) -> bool {
-    let ArgOwner::Element { kind, .. } = &call.owner else {
-        return false;
-    };
-    let Some(params) = elements::lookup(kind).map(|k| k.params()) else {
-        return false;
-    };
-    let spec = match &call.arg {
-        Some(n) => params.iter().find(|p| p.name == n),
-        None if call.index == 0 => params.first(),
+/// The arguments of the list the cursor is in, from the schema (`case`: none, its arguments
+/// are the model's parameters).
+pub fn owner_specs(owner: &ArgOwner, a: &Analysis) -> &'static [ArgSpec] {
+    match owner {
+        ArgOwner::Declaration { word } => {
+            schema::declaration(word).map_or(&[][..], |d| d.arg_specs())
+        }
+        ArgOwner::Element { kind, .. } => match elements::lookup(kind) {
+            Some(k) => k.params(),
+            None => buildup_use_args(a, kind).unwrap_or(&[]),
+        },
+    }
+}
+
+/// The spec of the argument under the cursor.
+fn current_spec(call: &CallInfo, a: &Analysis) -> Option<&'static ArgSpec> {
+    let specs = owner_specs(&call.owner, a);
+    match &call.arg {
+        Some(n) => specs.iter().find(|p| p.name == n),
+        None if call.index == 0 && matches!(call.owner, ArgOwner::Element { .. }) => specs.first(),
         None => None,
-    };
-    spec.is_some_and(|p| p.ty == ArgType::Material)
+    }
+}
+
+fn wants_material(call: &CallInfo, a: &Analysis) -> bool {
+    current_spec(call, a).is_some_and(|p| p.ty == ArgType::Material)
 }
 
 fn arg_names(snap: &Snapshot, ctx: &CompletionContext, range: Range) -> Vec<CompletionItem> {
     let Some(call) = &ctx.call else {
         return Vec::new();
     };
-    let field = |name: &str, doc: &str| {
-        item(
+    let a = &snap.analysis;
+    let given = |n: &str| call.given.iter().any(|g| g == n);
+    let field = |name: &str, detail: &str, doc: Option<String>| {
+        let mut it = item(
             range,
             name,
             &format!("{name} = "),
             CompletionItemKind::FIELD,
-            doc,
-        )
+            detail,
+        );
+        it.documentation = doc.map(Documentation::String);
+        it
     };
-    let given = |n: &str| call.given.iter().any(|g| g == n);
     let mut out: Vec<CompletionItem> = match &call.owner {
-        ArgOwner::Node => [
-            ("fixed", "boundary temperature: fixed = 20 °C"),
-            ("load", "heat put into the node: load = 3 W"),
-        ]
-        .iter()
-        .filter(|(n, _)| !given(n))
-        .map(|(n, d)| field(n, d))
-        .collect(),
-        ArgOwner::Material => [
-            ("k", "thermal conductivity: k = 0.04 W/(m*K)"),
-            ("density", "density: density = 2300 kg/m^3"),
-            (
-                "specific_heat",
-                "specific heat capacity: specific_heat = 1000 J/(kg*K)",
-            ),
-        ]
-        .iter()
-        .filter(|(n, _)| !given(n))
-        .map(|(n, d)| field(n, d))
-        .collect(),
-        ArgOwner::Element { kind, in_buildup } => {
-            let is_buildup = snap
-                .analysis
-                .symbols
-                .get(kind)
-                .is_some_and(|s| s.kind == SymbolKind::Buildup);
-            if is_buildup {
-                if given("area") {
-                    Vec::new()
-                } else {
-                    vec![field("area", "the area the build-up covers")]
-                }
-            } else if let Some(k) = elements::lookup(kind) {
-                k.params()
-                    .iter()
-                    .filter(|p| !(given(p.name) || (*in_buildup && p.name == "area")))
-                    .map(|p| field(p.name, p.doc))
-                    .collect()
-            } else {
-                Vec::new()
-            }
+        // A case sets the model's parameters.
+        ArgOwner::Declaration { word: "case" } => a
+            .symbols
+            .names_of(SymbolKind::Param)
+            .filter(|p| !given(p))
+            .map(|p| field(p, "parameter", None))
+            .collect(),
+        owner => {
+            let supplied: &[&str] = match owner {
+                ArgOwner::Element { supplied, .. } => supplied,
+                ArgOwner::Declaration { .. } => &[],
+            };
+            owner_specs(owner, a)
+                .iter()
+                .filter(|p| !(given(p.name) || supplied.contains(&p.name)))
+                .map(|p| field(p.name, p.doc, Some(p.describe())))
+                .collect()
         }
     };
-    if call.index == 0 && wants_material(call) {
+    if call.index == 0 && wants_material(call, a) {
         out.extend(
-            snap.analysis
-                .symbols
+            a.symbols
                 .names_of(SymbolKind::Material)
                 .map(|m| item(range, m, m, CompletionItemKind::STRUCT, "material")),
         );
@@ -280,14 +260,20 @@ fn arg_names(snap: &Snapshot, ctx: &CompletionContext, range: Range) -> Vec<Comp
 }
 
 fn expression(range: Range, mut params: Vec<CompletionItem>) -> Vec<CompletionItem> {
-    params.extend(FUNCTIONS.iter().map(|(f, d)| {
-        let insert = if *f == "pi" {
-            f.to_string()
-        } else {
-            format!("{f}(")
-        };
-        item(range, f, &insert, CompletionItemKind::FUNCTION, d)
+    params.extend(schema::FUNCTIONS.iter().map(|f| {
+        item(
+            range,
+            f.name,
+            &format!("{}(", f.name),
+            CompletionItemKind::FUNCTION,
+            f.doc,
+        )
     }));
+    params.extend(
+        schema::CONSTANTS
+            .iter()
+            .map(|(c, d)| item(range, c, c, CompletionItemKind::CONSTANT, d)),
+    );
     params
 }
 

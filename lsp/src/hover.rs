@@ -8,8 +8,9 @@ use crate::link_figures;
 use crate::proto::lsp;
 use crate::settings::Settings;
 use crate::snapshot::{Snapshot, Stage};
-use caloris_compiler::elements::{self, ArgType, ElementKind, ParamSpec};
+use caloris_compiler::elements::{self, ElementKind};
 use caloris_compiler::query::{format_significant, network_at, node_balance, target_at, Target};
+use caloris_compiler::schema::{self, DeclSpec};
 use caloris_compiler::span::FileId;
 use caloris_compiler::symbols::{Symbol, SymbolKind};
 use caloris_compiler::units::{format_number, Dim, Quantity, TempKind, UnitSystem};
@@ -31,11 +32,11 @@ pub fn hover(snap: &Snapshot, pos: Position, settings: &Settings) -> Option<Hove
             literal(&snap.text()[span.range()], quantity, sys)
         }
         Target::ElementKind { kind, .. } => element_kind(kind, false),
-        Target::ArgName { kind, param, .. } => format!(
-            "**{}** — argument of `{}`\n\n{}",
+        Target::Declaration { decl, .. } => declaration(decl),
+        Target::ArgName { owner, param, .. } => format!(
+            "**{}** — argument of `{owner}`\n\n{}",
             param.name,
-            kind.name(),
-            param_doc(param)
+            param.describe()
         ),
         Target::Measure { name, doc, .. } => format!("**{name}** — limit measure\n\n{doc}"),
         Target::Function { name, .. } => function(name)?,
@@ -541,17 +542,26 @@ fn literal(written: &str, v: Quantity, sys: UnitSystem) -> String {
     out
 }
 
-fn param_doc(p: &ParamSpec) -> String {
-    let ty = match p.ty {
-        ArgType::Material => "the name of a declared material".to_string(),
-        ArgType::Quantity(d) => d.describe(),
-    };
-    let positive = if p.positive {
-        "; must be greater than zero"
-    } else {
-        ""
-    };
-    format!("{} — {ty}{positive}", p.doc)
+/// The hover text of a declaration word: what it declares, how it is written, an example and
+/// its arguments, from the schema.
+fn declaration(d: &DeclSpec) -> String {
+    let mut out = format!(
+        "**{}** — {}\n\n```heat\n{}\n```\n\ne.g. `{}`",
+        d.word, d.doc, d.form, d.example
+    );
+    if !d.reserved {
+        out.push_str(
+            "\n\nA contextual word: it begins a declaration only at the start of a line, followed by a name; elsewhere it is an ordinary name.",
+        );
+    }
+    let specs = d.arg_specs();
+    if !specs.is_empty() {
+        out.push_str("\n\nArguments:\n");
+        for p in specs {
+            let _ = write!(out, "\n- `{}`: {}", p.name, p.describe());
+        }
+    }
+    out
 }
 
 /// The hover text of an element kind; `in_buildup` leaves out the area a build-up supplies.
@@ -566,23 +576,15 @@ pub fn element_kind(kind: &dyn ElementKind, in_buildup: bool) -> String {
         .iter()
         .filter(|p| !(in_buildup && p.name == "area"))
     {
-        let _ = write!(out, "\n- `{}`: {}", p.name, param_doc(p));
+        let _ = write!(out, "\n- `{}`: {}", p.name, p.describe());
     }
     out
 }
 
 fn function(name: &str) -> Option<String> {
-    let doc = match name {
-        "sqrt" => {
-            "square root; the argument's dimension must have even powers (`sqrt(4 m^2)` = `2 m`)"
-        }
-        "ln" => "natural logarithm of a dimensionless number greater than zero",
-        "exp" => "e raised to a dimensionless number",
-        "abs" => "absolute value, same unit",
-        "min" => "the smaller of two values of the same dimension",
-        "max" => "the larger of two values of the same dimension",
-        "pi" => "π = 3.14159…",
-        _ => return None,
-    };
-    Some(format!("**{name}** — {doc}"))
+    if let Some(f) = schema::function(name) {
+        return Some(format!("**{}** — {}", f.signature(), f.doc));
+    }
+    let (c, doc) = schema::CONSTANTS.iter().find(|c| c.0 == name)?;
+    Some(format!("**{c}** — {doc}"))
 }

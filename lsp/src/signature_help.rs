@@ -1,11 +1,13 @@
-//! Signature help inside an argument list: the arguments an element kind, a build-up use, a
-//! node or a material takes, with the one under the cursor active.
+//! Signature help inside an argument list: the arguments an element kind, a build-up use or a
+//! declaration (node, material, schedule, transient run, region, repetition) takes, from the
+//! compiler's schema, with the one under the cursor active.
 
+use crate::completion::owner_specs;
 use crate::proto::lsp;
 use crate::snapshot::Snapshot;
-use caloris_compiler::elements::{self, ArgType};
+use caloris_compiler::elements;
 use caloris_compiler::query::{completion_context, ArgOwner};
-use caloris_compiler::symbols::SymbolKind;
+use caloris_compiler::schema;
 use lsp::{
     Documentation, ParameterInformation, ParameterLabel, Position, SignatureHelp,
     SignatureInformation,
@@ -13,61 +15,43 @@ use lsp::{
 
 pub fn signature_help(snap: &Snapshot, pos: Position) -> Option<SignatureHelp> {
     let call = completion_context(snap.text(), snap.offset(pos)).call?;
-    let (name, summary, params): (String, String, Vec<(String, String)>) = match &call.owner {
-        ArgOwner::Node => (
-            "node".into(),
-            "a temperature node: fixed (a boundary) or free, with an optional heat load".into(),
-            vec![
-                ("fixed".into(), "boundary temperature, e.g. 20 °C".into()),
-                ("load".into(), "heat put into the node, e.g. 3 W".into()),
-            ],
-        ),
-        ArgOwner::Material => (
-            "material".into(),
-            "a material; `k` is required".into(),
-            vec![
-                ("k".into(), "thermal conductivity, W/(m·K)".into()),
-                ("density".into(), "density, kg/m³".into()),
-                (
-                    "specific_heat".into(),
-                    "specific heat capacity, J/(kg·K)".into(),
-                ),
-            ],
-        ),
-        ArgOwner::Element { kind, in_buildup } => {
-            if snap
-                .analysis
-                .symbols
-                .get(kind)
-                .is_some_and(|s| s.kind == SymbolKind::Buildup)
-            {
-                (
-                    kind.clone(),
-                    format!("build-up `{kind}` in series between the link's nodes"),
-                    vec![("area".into(), "the area the build-up covers".into())],
-                )
-            } else {
-                let k = elements::lookup(kind)?;
-                let params = k
-                    .params()
-                    .iter()
-                    .filter(|p| !(*in_buildup && p.name == "area"))
-                    .map(|p| {
-                        let ty = match p.ty {
-                            ArgType::Material => "a declared material".to_string(),
-                            ArgType::Quantity(d) => d.describe(),
-                        };
-                        (p.name.to_string(), format!("{} — {ty}", p.doc))
-                    })
-                    .collect();
+    let a = &snap.analysis;
+    let specs = owner_specs(&call.owner, a);
+    let (name, summary, supplied): (String, String, &[&str]) = match &call.owner {
+        // A case's arguments are the model's parameters: completion lists them.
+        ArgOwner::Declaration { word: "case" } => return None,
+        ArgOwner::Declaration { word } => {
+            let d = schema::declaration(word)?;
+            (d.word.to_string(), format!("{}: {}", d.doc, d.form), &[])
+        }
+        ArgOwner::Element {
+            kind,
+            in_buildup,
+            supplied,
+        } => match elements::lookup(kind) {
+            Some(k) => {
                 let mut summary = k.summary().to_string();
                 if *in_buildup {
-                    summary.push_str("; the area comes from the link that uses the build-up");
+                    summary.push_str(&format!(
+                        "; {} from the link that uses the build-up",
+                        list(supplied)
+                    ));
                 }
-                (kind.clone(), summary, params)
+                (kind.clone(), summary, supplied)
             }
-        }
+            None if !specs.is_empty() => (
+                kind.clone(),
+                format!("build-up `{kind}` in series between the link's nodes"),
+                &[],
+            ),
+            None => return None,
+        },
     };
+    let params: Vec<(String, String)> = specs
+        .iter()
+        .filter(|p| !supplied.contains(&p.name))
+        .map(|p| (p.name.to_string(), p.describe()))
+        .collect();
     let mut label = format!("{name}(");
     let mut parameters = Vec::new();
     for (i, (p, doc)) in params.iter().enumerate() {
@@ -98,4 +82,14 @@ pub fn signature_help(snap: &Snapshot, pos: Position) -> Option<SignatureHelp> {
         active_signature: Some(0),
         active_parameter: active.map(|a| a as u32),
     })
+}
+
+/// `` `area` `` or `` `length`, `area` and `inner_radius` ``.
+fn list(names: &[&str]) -> String {
+    let quoted: Vec<String> = names.iter().map(|n| format!("`{n}`")).collect();
+    match quoted.split_last() {
+        Some((last, [])) => format!("{last} comes"),
+        Some((last, rest)) => format!("{} and {last} come", rest.join(", ")),
+        None => "nothing comes".to_string(),
+    }
 }

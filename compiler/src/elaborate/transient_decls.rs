@@ -3,11 +3,12 @@
 //! check, and the `case` and `transient` declarations. A child of `elaborate` so that it checks
 //! arguments with the same context (evaluator, symbols, materials, diagnostics).
 
+use super::args::{Checked, Value};
 use super::{Cx, Kinds};
 use crate::diagnostic::{did_you_mean, Diagnostic};
 use crate::elements::{self, Material};
-use crate::eval::expect_point;
 use crate::network::{Network, NodeId};
+use crate::schema::ArgSpec;
 use crate::span::Span;
 use crate::symbols::SymbolKind;
 use crate::syntax::{Arg, ExprKind, Ident, Item, ItemKind, Row};
@@ -17,11 +18,6 @@ use crate::transient::model::{
 use crate::transient::schedule::Schedule;
 use crate::units::{Dim, Quantity, TempKind};
 use std::collections::HashMap;
-
-/// Node arguments handled here rather than by the steady node check.
-pub(super) const NODE_ARGS: &[&str] = &["capacity", "material", "volume", "mass", "initial"];
-
-const RUN_ARGS: &[&str] = &["duration", "step", "output", "tolerance", "start"];
 
 /// Biot number above which a body is not well described by one temperature (common practice).
 pub const BIOT_LUMPED: f64 = 0.1;
@@ -88,7 +84,7 @@ impl Cx<'_> {
                 continue;
             };
             if let Some(prev) = seen.insert(&an.name, an.span) {
-                self.duplicate_arg(an, prev);
+                self.duplicate_arg(&an.name, an.span, prev);
                 continue;
             }
             out.push((an, arg));
@@ -98,18 +94,7 @@ impl Cx<'_> {
 
     fn schedule(&mut self, name: &Ident, args: &[Arg], rows: Option<&[Row]>) {
         self.owner = format!("schedule `{}`", name.name);
-        let mut repeat = None;
-        for (an, arg) in self.named_args(args, "a schedule", "repeat = 24 h") {
-            match an.name.as_str() {
-                "repeat" => {
-                    repeat = self
-                        .quantity(&arg.value, Dim::TIME, "repeat")
-                        .filter(|q| self.positive(q.value, &arg.value, "repeat"))
-                        .map(|q| q.value)
-                }
-                _ => self.unknown_arg(an, "a schedule", &["repeat"]),
-            }
-        }
+        let repeat = self.declared("schedule", name, args).get("repeat");
         let Some(rows) = rows.filter(|r| !r.is_empty()) else {
             self.diags.push(
                 Diagnostic::error("E203", format!("schedule `{}` has no rows", name.name), name.span)
@@ -220,29 +205,29 @@ impl Cx<'_> {
         });
     }
 
-    /// The schedule an argument names, when it names one that suits `fixed` or `load`.
-    fn fitting_schedule(&self, what: &str, value: &crate::syntax::Expr) -> Option<usize> {
-        let ExprKind::Name(id) = &value.kind else {
-            return None;
-        };
-        let &i = self.timed.schedule_index.get(&id.name)?;
+    /// Whether schedule `i` fits an argument of dimension `dim`: a schedule of temperatures on
+    /// a scale above 0 K for a temperature, of the same dimension otherwise.
+    fn schedule_fits(&self, dim: Dim, i: usize) -> bool {
         let s = &self.timed.dynamics.schedules[i];
-        let fits = match what {
-            "fixed" => {
-                s.dim == Dim::TEMPERATURE
-                    && s.kind != TempKind::Difference
-                    && s.points.iter().all(|p| p.1 > 0.0)
-            }
-            _ => s.dim == Dim::POWER,
-        };
-        fits.then_some(i)
+        if dim == Dim::TEMPERATURE {
+            s.dim == Dim::TEMPERATURE
+                && s.kind != TempKind::Difference
+                && s.points.iter().all(|p| p.1 > 0.0)
+        } else {
+            s.dim == dim
+        }
     }
 
-    /// `fixed = NAME` or `load = NAME` naming a schedule: the schedule's value at time 0 (what a
-    /// steady solve uses), or `Some(None)` when it does not fit (reported here). `None` when the
-    /// value is not the name of a schedule, so the ordinary check applies.
-    pub(super) fn scheduled_arg(&mut self, an: &Ident, arg: &Arg) -> Option<Option<f64>> {
-        let ExprKind::Name(id) = &arg.value.kind else {
+    /// An argument that may follow a schedule (`fixed = NAME`, `load = NAME`) naming one: its
+    /// index, or `Some(None)` when it does not fit or failed its own checks (reported). `None`
+    /// when the value is not the name of a schedule, so the ordinary check applies.
+    pub(super) fn schedule_value(
+        &mut self,
+        spec: &ArgSpec,
+        dim: Dim,
+        value: &crate::syntax::Expr,
+    ) -> Option<Option<usize>> {
+        let ExprKind::Name(id) = &value.kind else {
             return None;
         };
         if self.symbols.get(&id.name)?.kind != SymbolKind::Schedule {
@@ -254,21 +239,23 @@ impl Cx<'_> {
         let Some(&i) = self.timed.schedule_index.get(&id.name) else {
             return Some(None);
         };
-        if self.fitting_schedule(&an.name, &arg.value).is_some() {
-            return Some(Some(self.timed.dynamics.schedules[i].value(0.0)));
+        if self.schedule_fits(dim, i) {
+            return Some(Some(i));
         }
         let s = &self.timed.dynamics.schedules[i];
-        let (dim, expects) = if an.name == "fixed" {
-            (Dim::TEMPERATURE, "temperatures")
+        let expects = if dim == Dim::TEMPERATURE {
+            "temperatures".to_string()
+        } else if dim == Dim::POWER {
+            "heat loads (a power)".to_string()
         } else {
-            (Dim::POWER, "heat loads (a power)")
+            format!("values of {}", dim.describe())
         };
         let d = if s.dim != dim {
             Diagnostic::error(
                 "E101",
                 format!(
                     "`{}` expects a schedule of {expects}; `{}` gives {}",
-                    an.name,
+                    spec.name,
                     id.name,
                     s.dim.describe()
                 ),
@@ -281,8 +268,8 @@ impl Cx<'_> {
             Diagnostic::error(
                 "E103",
                 format!(
-                    "`fixed` expects temperatures on a scale; schedule `{}` gives differences",
-                    id.name
+                    "`{}` expects temperatures on a scale; schedule `{}` gives differences",
+                    spec.name, id.name
                 ),
                 id.span,
             )
@@ -303,110 +290,58 @@ impl Cx<'_> {
         Some(None)
     }
 
-    /// Capacity, initial temperature and schedules of a node just added to the network.
-    pub(super) fn node_dynamics(&mut self, node: NodeId, name: &Ident, args: &[Arg], fixed: bool) {
-        let mut seen: HashMap<&str, ()> = HashMap::new();
-        let mut capacity: Option<(f64, Span)> = None;
-        let mut material: Option<(Material, Span)> = None;
-        let mut material_failed = false;
-        let mut volume: Option<(f64, Span)> = None;
-        let mut mass: Option<(f64, Span)> = None;
-        let mut initial: Option<(f64, Span)> = None;
-        let mut given: Vec<&Ident> = Vec::new();
-        let mut failed = false;
-        for arg in args {
-            let Some(an) = &arg.name else { continue };
-            if seen.insert(&an.name, ()).is_some() {
-                continue; // reported by the node check
+    /// Capacity, initial temperature and schedules of a node just added to the network, from
+    /// its checked arguments.
+    pub(super) fn node_dynamics(&mut self, node: NodeId, name: &Ident, c: &Checked, fixed: bool) {
+        for (arg, what) in [("fixed", Driven::Fixed), ("load", Driven::Load)] {
+            if let (Some(&Value::Schedule(schedule)), Some(span)) =
+                (c.value(arg), c.value_span(arg))
+            {
+                self.timed.dynamics.bindings.push(Binding {
+                    node,
+                    what,
+                    schedule,
+                    span,
+                });
             }
-            let v = &arg.value;
-            match an.name.as_str() {
-                "fixed" | "load" => {
-                    if let Some(schedule) = self.fitting_schedule(&an.name, v) {
-                        let what = if an.name == "fixed" {
-                            Driven::Fixed
-                        } else {
-                            Driven::Load
-                        };
-                        self.timed.dynamics.bindings.push(Binding {
-                            node,
-                            what,
-                            schedule,
-                            span: v.span,
-                        });
-                    }
-                    continue;
-                }
-                "capacity" => match self
-                    .quantity(v, Dim::CAPACITY, "capacity")
-                    .filter(|q| self.positive(q.value, v, "capacity"))
-                {
-                    Some(q) => capacity = Some((q.value, an.span)),
-                    None => failed = true,
-                },
-                "material" => match self.material_ref(v) {
-                    Some(m) => material = Some((m, an.span)),
-                    None => material_failed = true,
-                },
-                "volume" => match self
-                    .quantity(v, Dim::VOLUME, "volume")
-                    .filter(|q| self.positive(q.value, v, "volume"))
-                {
-                    Some(q) => volume = Some((q.value, an.span)),
-                    None => failed = true,
-                },
-                "mass" => match self
-                    .quantity(v, Dim::MASS, "mass")
-                    .filter(|q| self.positive(q.value, v, "mass"))
-                {
-                    Some(q) => mass = Some((q.value, an.span)),
-                    None => failed = true,
-                },
-                "initial" => match self.quantity(v, Dim::TEMPERATURE, "initial") {
-                    Some(q) => match expect_point(q, "initial", v) {
-                        Err(d) => {
-                            self.diags.push(d);
-                            failed = true;
-                        }
-                        Ok(()) if q.value <= 0.0 => {
-                            self.diags.push(
-                                Diagnostic::error(
-                                    "E202",
-                                    "this temperature is at or below absolute zero",
-                                    v.span,
-                                )
-                                .with_label("below 0 K")
-                                .with_help("check the value and its unit (°C, °F or K)"),
-                            );
-                            failed = true;
-                        }
-                        Ok(()) => initial = Some((q.value, an.span)),
-                    },
-                    None => failed = true,
-                },
-                _ => continue,
-            }
-            given.push(an);
         }
+        let named = |n: &str| c.get(n).zip(c.name_span(n));
+        let capacity = named("capacity");
+        let material = match (c.value("material"), c.name_span("material")) {
+            (Some(Value::Material(m)), Some(s)) => Some((m.clone(), s)),
+            _ => None,
+        };
+        let material_failed = c.failed("material");
+        let (volume, mass, initial) = (named("volume"), named("mass"), named("initial"));
+        let storing = ["capacity", "material", "volume", "mass", "initial"];
+        let given: Vec<(&str, Span)> = c
+            .written
+            .iter()
+            .copied()
+            .filter(|w| storing.contains(&w.0))
+            .collect();
+        // What failed, or stands without what it needs (both reported already), says no more.
+        let mut failed = ["capacity", "volume", "mass", "initial"]
+            .iter()
+            .any(|n| c.failed(n))
+            || (c.is_written("capacity") && c.is_written("material"))
+            || (!c.is_written("material") && (c.is_written("volume") || c.is_written("mass")));
         if fixed {
-            if let Some(an) = given.first() {
+            if let Some(&(arg, span)) = given.first() {
                 self.diags.push(
-                    Diagnostic::error("E702", format!("node `{}` is fixed, so `{}` has no effect", name.name, an.name), an.span)
+                    Diagnostic::error("E702", format!("node `{}` is fixed, so `{arg}` has no effect", name.name), span)
                         .with_label("on a boundary temperature")
                         .with_help("a fixed node's temperature is given for all time; put the capacity on a free node linked to it, or remove `fixed`"),
                 );
             }
             return;
         }
-        let mut c = None;
+        let mut stored = None;
         match (capacity, &material) {
-            (Some(_), Some((_, ms))) => {
-                let capacity_span = capacity.map(|c| c.1).unwrap_or(*ms);
-                self.alternatives("capacity", "material", capacity_span, *ms);
-                failed = true;
-            }
+            // Both given: E207 from the schema's `Instead` check.
+            (Some(_), Some(_)) => {}
             (Some((value, span)), None) => {
-                c = Some(NodeCapacity {
+                stored = Some(NodeCapacity {
                     node,
                     capacity: value,
                     span,
@@ -414,26 +349,14 @@ impl Cx<'_> {
                 })
             }
             (None, Some((m, span))) => {
-                c = self.material_capacity(node, name, m, *span, volume, mass)
+                stored = self.material_capacity(node, name, m, *span, volume, mass)
             }
-            (None, None) => {
-                if let Some((_, s)) = volume.or(mass) {
-                    let which = if volume.is_some() { "volume" } else { "mass" };
-                    if !material_failed {
-                        self.diags.push(
-                            Diagnostic::error("E203", format!("`{which}` gives a capacity only together with a `material`"), s)
-                                .with_label("no `material` on this node")
-                                .with_help(format!("add the material, e.g. `material = water, {which} = ...`, or state `capacity = ...` directly")),
-                        );
-                    }
-                    failed = true;
-                }
-            }
+            (None, None) => {}
         }
-        if material.is_some() && c.is_none() {
+        if material.is_some() && stored.is_none() {
             failed = true;
         }
-        if let Some(c) = c {
+        if let Some(c) = stored {
             self.timed.dynamics.capacities.push(c);
         } else if let Some((_, s)) = initial {
             if !failed && !material_failed {
@@ -534,52 +457,6 @@ impl Cx<'_> {
                 volume,
             }),
         })
-    }
-
-    fn material_ref(&mut self, v: &crate::syntax::Expr) -> Option<Material> {
-        let ExprKind::Name(id) = &v.kind else {
-            self.diags.push(
-                Diagnostic::error("E101", "`material` expects the name of a material", v.span)
-                    .with_label("not a material name")
-                    .with_help(
-                        "name a declared material, or give the capacity as `capacity = ...`",
-                    ),
-            );
-            return None;
-        };
-        if let Some(m) = self.material_named(&id.name).cloned() {
-            self.symbols.add_ref(&id.name, id.span);
-            return Some(m);
-        }
-        if self
-            .symbols
-            .get(&id.name)
-            .is_some_and(|s| s.kind == SymbolKind::Material)
-        {
-            // The material failed its own check, which is reported there.
-            self.symbols.add_ref(&id.name, id.span);
-            return None;
-        }
-        let known: Vec<&str> = self.symbols.names_of(SymbolKind::Material).collect();
-        let mut d = match self.symbols.get(&id.name) {
-            Some(s) => Diagnostic::error(
-                "E105",
-                format!("`{}` is {}, not a material", id.name, s.kind.article()),
-                id.span,
-            )
-            .with_label("a material was expected"),
-            None => Diagnostic::error("E102", format!("unknown material `{}`", id.name), id.span)
-                .with_label("no material has this name"),
-        };
-        d = match did_you_mean(&id.name, known) {
-            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(format!("Replace with `{s}`"), id.span, s),
-            None => d.with_help(format!(
-                "declare it, e.g. `material {} (k = 0.6 W/(m*K), density = 1000 kg/m^3, specific_heat = 4180 J/(kg*K))`",
-                id.name
-            )),
-        };
-        self.diags.push(d);
-        None
     }
 
     /// After links and limits: the Biot-number check, cases and transient runs.
@@ -690,75 +567,20 @@ impl Cx<'_> {
 
     fn run(&mut self, name: &Ident, args: &[Arg]) {
         self.owner = format!("transient run `{}`", name.name);
-        let mut spec = RunSpec {
+        let c = self.declared("transient", name, args);
+        // Missing (E203) or failed its own check: reported either way.
+        let Some(duration) = c.get("duration") else {
+            return;
+        };
+        let spec = RunSpec {
             name: name.name.clone(),
             span: name.span,
-            duration: 0.0,
-            step: None,
-            output: None,
-            tolerance: None,
-            start: 0.0,
+            duration,
+            step: c.get("step"),
+            output: c.get("output"),
+            tolerance: c.get("tolerance"),
+            start: c.get("start").unwrap_or(0.0),
         };
-        let mut ok = true;
-        let mut has_duration = false;
-        for (an, arg) in self.named_args(args, "a transient run", "duration = 12 h") {
-            let v = &arg.value;
-            let what = an.name.as_str();
-            match what {
-                "duration" | "step" | "output" => match self
-                    .quantity(v, Dim::TIME, what)
-                    .filter(|q| self.positive(q.value, v, what))
-                {
-                    Some(q) if what == "duration" => {
-                        spec.duration = q.value;
-                        has_duration = true;
-                    }
-                    Some(q) if what == "step" => spec.step = Some(q.value),
-                    Some(q) => spec.output = Some(q.value),
-                    None => ok = false,
-                },
-                "start" => match self.quantity(v, Dim::TIME, what) {
-                    Some(q) => spec.start = q.value,
-                    None => ok = false,
-                },
-                "tolerance" => match self.quantity(v, Dim::TEMPERATURE, what) {
-                    Some(q) if q.kind == TempKind::Point => {
-                        ok = false;
-                        self.diags.push(
-                            Diagnostic::error("E103", "`tolerance` is a temperature difference, not a temperature on a scale", v.span)
-                                .with_label("a temperature on a scale")
-                                .with_help("write it in K or Δ°C, e.g. `tolerance = 0.01 K`"),
-                        );
-                    }
-                    Some(q) if self.positive(q.value, v, what) => spec.tolerance = Some(q.value),
-                    _ => ok = false,
-                },
-                _ => {
-                    ok = false;
-                    self.unknown_arg(an, "a transient run", RUN_ARGS);
-                }
-            }
-        }
-        let duration_written = args
-            .iter()
-            .any(|a| a.name.as_ref().is_some_and(|n| n.name == "duration"));
-        if !has_duration {
-            if !duration_written {
-                self.diags.push(
-                    Diagnostic::error(
-                        "E203",
-                        format!("transient run `{}` needs a `duration`", name.name),
-                        name.span,
-                    )
-                    .with_label("`duration` missing")
-                    .with_help(format!(
-                        "add it, e.g. `transient {} (duration = 12 h)`",
-                        name.name
-                    )),
-                );
-            }
-            return;
-        }
         if let Some(step) = spec.step {
             if spec.duration / step > crate::transient::MAX_STEPS as f64 {
                 self.diags.push(
@@ -778,11 +600,7 @@ impl Cx<'_> {
         }
         if let Some(every) = spec.output {
             if spec.duration / every > crate::transient::MAX_OUTPUTS as f64 {
-                let span = args
-                    .iter()
-                    .find(|a| a.name.as_ref().is_some_and(|n| n.name == "output"))
-                    .map(|a| a.value.span)
-                    .unwrap_or(name.span);
+                let span = c.value_span("output").unwrap_or(name.span);
                 self.diags.push(
                     Diagnostic::error(
                         "E708",
@@ -798,7 +616,7 @@ impl Cx<'_> {
                 return;
             }
         }
-        if ok {
+        if c.ok {
             self.timed.studies.runs.push(spec);
         }
     }

@@ -11,10 +11,6 @@ use crate::syntax::Expr;
 use crate::units::range::{self, OutOfRange};
 use crate::units::{format_number, Dim, Quantity};
 
-/// Arguments that are counts with a limit of their own (a region's cells, E216), which says
-/// more than the range of values. A fin `count` has no such limit and keeps the range check.
-pub const COUNTS: &[&str] = &["cells_x", "cells_y"];
-
 /// The diagnostic for a value outside the range, or `None` when it is within it. `what` names
 /// the parameter (`area`, or a phrase such as `a table conductivity`) and `owner` what it
 /// belongs to (`` `film` in link `wall` ``, ``node `room` ``), or is empty.

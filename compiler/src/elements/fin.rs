@@ -8,56 +8,58 @@
 // split the element API.
 #![allow(clippy::result_large_err)]
 
-use super::{q, show, ArgType, Args, Built, ElementKind, ParamSpec};
+use super::{material, q, show, ArgSpec, Args, Built, ElementKind};
 use crate::diagnostic::Diagnostic;
 use crate::units::Dim;
 use std::f64::consts::PI;
 
 pub struct Fin;
 
-const FIN: &[ParamSpec] = &[
-    ParamSpec {
-        name: "material",
-        ty: ArgType::Material,
-        positive: false,
-        doc: "the fin's material (gives k)",
-    },
+/// Most identical fins one link may stand for (a typing slip must not pass as a count).
+pub const MAX_COUNT: u32 = 1_000_000;
+
+const FIN: &[ArgSpec] = &[
+    material("the fin's material (gives k)").either("k"),
     q(
         "k",
         Dim::CONDUCTIVITY,
         "conductivity of the fin, instead of a material",
-    ),
-    q("length", Dim::LENGTH, "length L from base to tip"),
+    )
+    .either("material"),
+    q("length", Dim::LENGTH, "length L from base to tip").required(),
     q(
         "thickness",
         Dim::LENGTH,
         "thickness t of a straight rectangular fin",
-    ),
+    )
+    .either("diameter"),
     q(
         "width",
         Dim::LENGTH,
         "width w of a straight rectangular fin",
-    ),
+    )
+    .either("diameter"),
     q(
         "diameter",
         Dim::LENGTH,
         "diameter D of a pin fin, instead of thickness and width",
-    ),
+    )
+    .either("thickness"),
     q(
         "h",
         Dim::HEAT_TRANSFER_COEFF,
         "heat transfer coefficient on the fin's sides",
-    ),
+    )
+    .required(),
     q(
         "tip_h",
         Dim::HEAT_TRANSFER_COEFF,
-        "heat transfer coefficient on the tip; without it the tip is adiabatic",
-    ),
-    q(
-        "count",
-        Dim::NONE,
-        "number of identical fins in parallel (default 1)",
-    ),
+        "heat transfer coefficient on the tip",
+    )
+    .default("none: an adiabatic tip"),
+    q("count", Dim::NONE, "number of identical fins in parallel")
+        .count(MAX_COUNT)
+        .default("1"),
 ];
 
 /// The fin's solution at its arguments.
@@ -117,16 +119,8 @@ pub fn solve(a: &Args) -> Result<FinSolution, Diagnostic> {
             ),
         )
     };
+    // A whole number from 1 to MAX_COUNT: checked with the arguments (`Range::Count`).
     let count = a.get("count").unwrap_or(1.0);
-    if count.fract() != 0.0 {
-        return Err(Diagnostic::error(
-            "E216",
-            format!("`count` must be a whole number of fins; {count} is not"),
-            a.span("count"),
-        )
-        .with_label("not a whole number")
-        .with_help("give the number of identical fins, e.g. `count = 12`"));
-    }
     let m = (h * p / (k * ac)).sqrt();
     let big_m = (h * p * k * ac).sqrt();
     let ml = m * l;
@@ -170,7 +164,7 @@ impl ElementKind for Fin {
     fn summary(&self) -> &'static str {
         "straight or pin fin from base to fluid: G = √(hPkA_c)·tanh(mL) (adiabatic tip), efficiency reported"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         FIN
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {

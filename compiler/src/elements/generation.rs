@@ -16,7 +16,7 @@
 #![allow(clippy::result_large_err)]
 
 use super::shell::conductivity;
-use super::{q, show, ArgType, Args, Built, ElementKind, ParamSpec};
+use super::{material, q, show, ArgSpec, Args, Built, ElementKind};
 use crate::diagnostic::Diagnostic;
 use crate::network::LinkLaw;
 use crate::units::Dim;
@@ -50,44 +50,37 @@ pub struct Expansion {
 pub struct HeatedSlab;
 pub struct HeatedRod;
 
-const SLAB: &[ParamSpec] = &[
-    ParamSpec {
-        name: "material",
-        ty: ArgType::Material,
-        positive: false,
-        doc: "the slab's material (gives k)",
-    },
+const SLAB: &[ArgSpec] = &[
+    material("the slab's material (gives k)").either("k"),
     q(
         "k",
         Dim::CONDUCTIVITY,
         "conductivity, instead of a material",
-    ),
+    )
+    .either("material"),
     q(
         "thickness",
         Dim::LENGTH,
         "thickness L between the two faces",
-    ),
-    q("area", Dim::AREA, "face area A"),
-    q("q", Dim::VOLUMETRIC_POWER, "generated heat per volume q̇"),
-    q("power", Dim::POWER, "total generated heat, instead of q"),
+    )
+    .required(),
+    q("area", Dim::AREA, "face area A").required(),
+    q("q", Dim::VOLUMETRIC_POWER, "generated heat per volume q̇").either("power"),
+    q("power", Dim::POWER, "total generated heat, instead of q").either("q"),
 ];
 
-const ROD: &[ParamSpec] = &[
-    ParamSpec {
-        name: "material",
-        ty: ArgType::Material,
-        positive: false,
-        doc: "the rod's material (gives k)",
-    },
+const ROD: &[ArgSpec] = &[
+    material("the rod's material (gives k)").either("k"),
     q(
         "k",
         Dim::CONDUCTIVITY,
         "conductivity, instead of a material",
-    ),
-    q("radius", Dim::LENGTH, "rod radius r₀"),
-    q("length", Dim::LENGTH, "rod length L"),
-    q("q", Dim::VOLUMETRIC_POWER, "generated heat per volume q̇"),
-    q("power", Dim::POWER, "total generated heat, instead of q"),
+    )
+    .either("material"),
+    q("radius", Dim::LENGTH, "rod radius r₀").required(),
+    q("length", Dim::LENGTH, "rod length L").required(),
+    q("q", Dim::VOLUMETRIC_POWER, "generated heat per volume q̇").either("power"),
+    q("power", Dim::POWER, "total generated heat, instead of q").either("q"),
 ];
 
 /// q̇ from `q` or from `power` over the volume.
@@ -143,7 +136,7 @@ impl ElementKind for HeatedSlab {
     fn summary(&self) -> &'static str {
         "plane slab with uniform heat generation between two faces: midplane node `LINK.centre`, rise q̇L²/(8k) over the mean face temperature"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         SLAB
     }
     fn internal_nodes(&self) -> &'static [&'static str] {
@@ -177,7 +170,7 @@ impl ElementKind for HeatedRod {
     fn summary(&self) -> &'static str {
         "solid rod with uniform heat generation, from its axis (FROM) to its surface (TO): R = 1/(4πkL), rise q̇r₀²/(4k)"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         ROD
     }
     fn single_link(&self) -> bool {

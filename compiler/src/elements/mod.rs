@@ -31,31 +31,7 @@ pub struct Material {
     pub conductivity: Option<crate::conductivity::Conductivity>,
 }
 
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub enum ArgType {
-    Quantity(Dim),
-    /// The name of a declared material.
-    Material,
-}
-
-/// One argument an element accepts.
-#[derive(Clone, Copy, Debug)]
-pub struct ParamSpec {
-    pub name: &'static str,
-    pub ty: ArgType,
-    /// Must be greater than zero (thickness, area, k, h, ...).
-    pub positive: bool,
-    pub doc: &'static str,
-}
-
-pub const fn q(name: &'static str, dim: Dim, doc: &'static str) -> ParamSpec {
-    ParamSpec {
-        name,
-        ty: ArgType::Quantity(dim),
-        positive: true,
-        doc,
-    }
-}
+pub use crate::schema::{material, quantity as q, ArgSpec, ArgType};
 
 #[derive(Clone, Debug)]
 pub enum ArgValue {
@@ -145,8 +121,9 @@ pub trait ElementKind: Sync {
     fn name(&self) -> &'static str;
     /// One line for completion and hover.
     fn summary(&self) -> &'static str;
-    /// The arguments; the first is the main argument that may be written without its name.
-    fn params(&self) -> &'static [ParamSpec];
+    /// The arguments (see `crate::schema`); the first is the main argument that may be written
+    /// without its name.
+    fn params(&self) -> &'static [ArgSpec];
     /// Whether the element takes an `area` (so a build-up can supply it).
     fn takes_area(&self) -> bool {
         self.params().iter().any(|p| p.name == "area")

@@ -1,6 +1,6 @@
 //! Plane layers, convection films, contact resistances and explicit resistances/conductances.
 
-use super::{q, show, ArgType, Args, Built, ElementKind, ParamSpec};
+use super::{material, q, show, ArgSpec, Args, Built, ElementKind};
 use crate::diagnostic::Diagnostic;
 use crate::units::Dim;
 
@@ -13,20 +13,16 @@ pub struct Contact;
 pub struct Resistance;
 pub struct Conductance;
 
-const LAYER: &[ParamSpec] = &[
-    ParamSpec {
-        name: "material",
-        ty: ArgType::Material,
-        positive: false,
-        doc: "a declared material (gives k)",
-    },
+const LAYER: &[ArgSpec] = &[
+    material("a declared material (gives k)").either("k"),
     q(
         "k",
         Dim::CONDUCTIVITY,
         "thermal conductivity, instead of a material",
-    ),
-    q("thickness", Dim::LENGTH, "layer thickness L"),
-    q("area", Dim::AREA, "area the heat crosses"),
+    )
+    .either("material"),
+    q("thickness", Dim::LENGTH, "layer thickness L").required(),
+    q("area", Dim::AREA, "area the heat crosses").required(),
 ];
 
 impl ElementKind for Layer {
@@ -36,7 +32,7 @@ impl ElementKind for Layer {
     fn summary(&self) -> &'static str {
         "plane layer: R = L/(k·A) (Fourier's law)"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         LAYER
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
@@ -69,14 +65,15 @@ impl ElementKind for Layer {
     }
 }
 
-const FILM: &[ParamSpec] = &[
-    q("h", Dim::HEAT_TRANSFER_COEFF, "heat transfer coefficient"),
+const FILM: &[ArgSpec] = &[
+    q("h", Dim::HEAT_TRANSFER_COEFF, "heat transfer coefficient").either("r"),
     q(
         "r",
         Dim::AREA_RESISTANCE,
         "surface resistance per area, instead of h (e.g. ISO 6946 Rsi/Rse)",
-    ),
-    q("area", Dim::AREA, "surface area"),
+    )
+    .either("h"),
+    q("area", Dim::AREA, "surface area").required(),
 ];
 
 impl ElementKind for Film {
@@ -86,7 +83,7 @@ impl ElementKind for Film {
     fn summary(&self) -> &'static str {
         "convection film: R = 1/(h·A) (Newton's law of cooling), or R = r/A"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         FILM
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
@@ -125,9 +122,9 @@ impl ElementKind for Film {
     }
 }
 
-const CONTACT: &[ParamSpec] = &[
-    q("r", Dim::AREA_RESISTANCE, "contact resistance per area R″"),
-    q("area", Dim::AREA, "contact area"),
+const CONTACT: &[ArgSpec] = &[
+    q("r", Dim::AREA_RESISTANCE, "contact resistance per area R″").required(),
+    q("area", Dim::AREA, "contact area").required(),
 ];
 
 impl ElementKind for Contact {
@@ -137,7 +134,7 @@ impl ElementKind for Contact {
     fn summary(&self) -> &'static str {
         "contact resistance: R = R″/A"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         CONTACT
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
@@ -157,7 +154,7 @@ impl ElementKind for Contact {
     }
 }
 
-const RESISTANCE: &[ParamSpec] = &[q("r", Dim::RESISTANCE, "thermal resistance")];
+const RESISTANCE: &[ArgSpec] = &[q("r", Dim::RESISTANCE, "thermal resistance").required()];
 
 impl ElementKind for Resistance {
     fn name(&self) -> &'static str {
@@ -166,7 +163,7 @@ impl ElementKind for Resistance {
     fn summary(&self) -> &'static str {
         "a stated thermal resistance R (K/W)"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         RESISTANCE
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
@@ -179,7 +176,7 @@ impl ElementKind for Resistance {
     }
 }
 
-const CONDUCTANCE: &[ParamSpec] = &[q("g", Dim::CONDUCTANCE, "thermal conductance")];
+const CONDUCTANCE: &[ArgSpec] = &[q("g", Dim::CONDUCTANCE, "thermal conductance").required()];
 
 impl ElementKind for Conductance {
     fn name(&self) -> &'static str {
@@ -188,7 +185,7 @@ impl ElementKind for Conductance {
     fn summary(&self) -> &'static str {
         "a stated thermal conductance G (W/K)"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         CONDUCTANCE
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {

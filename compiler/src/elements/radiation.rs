@@ -4,7 +4,7 @@
 // split the element API.
 #![allow(clippy::result_large_err)]
 
-use super::{q, show, Args, Built, ElementKind, ParamSpec};
+use super::{q, show, ArgSpec, Args, Built, ElementKind};
 use crate::diagnostic::Diagnostic;
 use crate::laws::STEFAN_BOLTZMANN;
 use crate::network::LinkLaw;
@@ -15,46 +15,39 @@ use crate::units::Dim;
 /// surroundings (A₂ → ∞) A_x = ε₁A₁.
 pub struct Radiation;
 
-const RADIATION: &[ParamSpec] = &[
+const RADIATION: &[ArgSpec] = &[
     q(
         "emissivity",
         Dim::NONE,
-        "emissivity ε of the FROM surface (0 < ε ≤ 1)",
-    ),
-    q("area", Dim::AREA, "area A of the FROM surface"),
+        "emissivity ε of the FROM surface: 0.9 for paint or glass, 0.05–0.2 for bright metal (common practice)",
+    )
+    .fraction()
+    .required(),
+    q("area", Dim::AREA, "area A of the FROM surface").required(),
     q(
         "emissivity_to",
         Dim::NONE,
         "emissivity of the TO surface, for two surfaces that see each other",
-    ),
-    q("area_to", Dim::AREA, "area of the TO surface"),
+    )
+    .fraction()
+    .with("view_factor"),
+    q("area_to", Dim::AREA, "area of the TO surface").with("emissivity_to"),
     q(
         "view_factor",
         Dim::NONE,
-        "view factor F from the FROM surface to the TO surface (0 < F ≤ 1)",
-    ),
-];
-
-/// E213: a dimensionless argument outside its physical range.
-fn out_of_range(a: &Args, name: &str, value: f64, what: &str, help: &str) -> Diagnostic {
-    Diagnostic::error(
-        "E213",
-        format!("{what} must lie between 0 and 1; `{name}` is {value}"),
-        a.span(name),
+        "view factor F: the fraction of the radiation leaving the FROM surface that reaches the TO surface",
     )
-    .with_label("outside 0 … 1")
-    .with_help(help.to_string())
-}
+    .fraction()
+    .with("area_to"),
+];
 
 impl Radiation {
     /// The exchange area A_x (m²) and the formula text.
     fn exchange_area(&self, a: &Args) -> Result<(f64, String), Diagnostic> {
         let e1 = a.require("emissivity", "emissivity = 0.9")?;
         let a1 = a.require("area", "area = 1.5 m^2")?;
-        let eps_help = "an emissivity is a fraction: 0.9 for paint or glass, 0.05–0.2 for bright metal (common practice)";
-        if e1 > 1.0 {
-            return Err(out_of_range(a, "emissivity", e1, "an emissivity", eps_help));
-        }
+        // Emissivities and the view factor lie in 0 … 1: checked with the arguments
+        // (`Range::Fraction`, E213).
         let pair = ["emissivity_to", "area_to", "view_factor"];
         let given: Vec<&str> = pair
             .iter()
@@ -92,18 +85,6 @@ impl Radiation {
             a.get("area_to").unwrap_or(f64::NAN),
             a.get("view_factor").unwrap_or(f64::NAN),
         );
-        if e2 > 1.0 {
-            return Err(out_of_range(
-                a,
-                "emissivity_to",
-                e2,
-                "an emissivity",
-                eps_help,
-            ));
-        }
-        if f12 > 1.0 {
-            return Err(out_of_range(a, "view_factor", f12, "a view factor", "a view factor is the fraction of the radiation leaving one surface that reaches the other"));
-        }
         // Reciprocity A₁F₁₂ = A₂F₂₁ with F₂₁ ≤ 1.
         if a1 * f12 > a2 * (1.0 + 1e-12) {
             return Err(Diagnostic::error(
@@ -139,7 +120,7 @@ impl ElementKind for Radiation {
     fn summary(&self) -> &'static str {
         "grey-body radiation: Q = σ·A_x·(T₁⁴ − T₂⁴) (Stefan–Boltzmann law), nonlinear"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         RADIATION
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {

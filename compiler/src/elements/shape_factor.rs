@@ -6,7 +6,7 @@
 #![allow(clippy::result_large_err)]
 
 use super::shell::{conduction_law, conductivity};
-use super::{q, show, ArgType, Args, Built, ElementKind, ParamSpec};
+use super::{material, q, show, ArgSpec, Args, Built, ElementKind};
 use crate::diagnostic::Diagnostic;
 use crate::network::LinkLaw;
 use crate::units::Dim;
@@ -20,46 +20,44 @@ pub struct BuriedSphere;
 /// S = 2πL/arccosh((4w² − D₁² − D₂²)/(2D₁D₂)).
 pub struct ParallelCylinders;
 
-const MEDIUM: ParamSpec = ParamSpec {
-    name: "material",
-    ty: ArgType::Material,
-    positive: false,
-    doc: "the surrounding medium (soil, concrete), gives k",
-};
-const MEDIUM_K: ParamSpec = q(
+const MEDIUM: ArgSpec = material("the surrounding medium (soil, concrete), gives k").either("k");
+const MEDIUM_K: ArgSpec = q(
     "k",
     Dim::CONDUCTIVITY,
     "conductivity of the medium, instead of a material",
-);
+)
+.either("material");
 
-const PIPE: &[ParamSpec] = &[
+const PIPE: &[ArgSpec] = &[
     MEDIUM,
     MEDIUM_K,
-    q("diameter", Dim::LENGTH, "outer diameter D of the pipe"),
+    q("diameter", Dim::LENGTH, "outer diameter D of the pipe").required(),
     q(
         "depth",
         Dim::LENGTH,
         "depth z of the pipe's axis below the surface",
-    ),
-    q("length", Dim::LENGTH, "buried length L (L ≫ D)"),
+    )
+    .required(),
+    q("length", Dim::LENGTH, "buried length L (L ≫ D)").required(),
 ];
-const SPHERE: &[ParamSpec] = &[
+const SPHERE: &[ArgSpec] = &[
     MEDIUM,
     MEDIUM_K,
-    q("diameter", Dim::LENGTH, "diameter D of the sphere"),
+    q("diameter", Dim::LENGTH, "diameter D of the sphere").required(),
     q(
         "depth",
         Dim::LENGTH,
         "depth z of the sphere's centre below the surface",
-    ),
+    )
+    .required(),
 ];
-const PAIR: &[ParamSpec] = &[
+const PAIR: &[ArgSpec] = &[
     MEDIUM,
     MEDIUM_K,
-    q("diameter", Dim::LENGTH, "diameter D₁ of the FROM cylinder"),
-    q("diameter_to", Dim::LENGTH, "diameter D₂ of the TO cylinder"),
-    q("spacing", Dim::LENGTH, "distance w between the two axes"),
-    q("length", Dim::LENGTH, "length L of the run (L ≫ D, w)"),
+    q("diameter", Dim::LENGTH, "diameter D₁ of the FROM cylinder").required(),
+    q("diameter_to", Dim::LENGTH, "diameter D₂ of the TO cylinder").required(),
+    q("spacing", Dim::LENGTH, "distance w between the two axes").required(),
+    q("length", Dim::LENGTH, "length L of the run (L ≫ D, w)").required(),
 ];
 
 /// E215: the geometry is outside the range where the shape factor holds.
@@ -92,7 +90,7 @@ impl ElementKind for BuriedPipe {
     fn summary(&self) -> &'static str {
         "horizontal pipe buried in the ground: S = 2πL/arccosh(2z/D), R = 1/(k·S)"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         PIPE
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
@@ -132,7 +130,7 @@ impl ElementKind for BuriedSphere {
     fn summary(&self) -> &'static str {
         "sphere buried in the ground: S = 2πD/(1 − D/(4z)), R = 1/(k·S)"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         SPHERE
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
@@ -171,7 +169,7 @@ impl ElementKind for ParallelCylinders {
     fn summary(&self) -> &'static str {
         "two parallel cylinders in a medium: S = 2πL/arccosh((4w² − D₁² − D₂²)/(2D₁D₂)), R = 1/(k·S)"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         PAIR
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {

@@ -7,7 +7,7 @@
 // split the element API.
 #![allow(clippy::result_large_err)]
 
-use super::{q, show, ArgType, Args, Built, ElementKind, ParamSpec};
+use super::{material, q, show, ArgSpec, Args, Built, ElementKind};
 use crate::diagnostic::Diagnostic;
 use crate::units::Dim;
 use std::f64::consts::PI;
@@ -21,40 +21,39 @@ pub struct Sphere;
 macro_rules! shell_params {
     ($($extra:expr),*) => {
         &[
-            ParamSpec {
-                name: "material",
-                ty: ArgType::Material,
-                positive: false,
-                doc: "a declared material (gives k)",
-            },
+            material("a declared material (gives k)").either("k"),
             q(
                 "k",
                 Dim::CONDUCTIVITY,
                 "thermal conductivity, instead of a material",
-            ),
+            )
+            .either("material"),
             q(
                 "inner_radius",
                 Dim::LENGTH,
                 "inner radius r₁ (supplied by the build-up inside one)",
-            ),
-            q("outer_radius", Dim::LENGTH, "outer radius r₂"),
+            )
+            .required(),
+            q("outer_radius", Dim::LENGTH, "outer radius r₂").either("thickness"),
             q(
                 "thickness",
                 Dim::LENGTH,
                 "wall thickness r₂ − r₁, instead of the outer radius",
-            ),
+            )
+            .either("outer_radius"),
             $($extra),*
         ]
     };
 }
 
-const CYLINDER: &[ParamSpec] = shell_params!(q(
+const CYLINDER: &[ArgSpec] = shell_params!(q(
     "length",
     Dim::LENGTH,
     "length of the pipe run L (supplied by the build-up inside one)"
-));
+)
+.required());
 
-const SPHERE: &[ParamSpec] = shell_params!();
+const SPHERE: &[ArgSpec] = shell_params!();
 
 /// The geometry both shells share: conductivity and the two radii, checked.
 pub struct Radii {
@@ -111,7 +110,7 @@ impl ElementKind for Cylinder {
     fn summary(&self) -> &'static str {
         "cylindrical shell: R = ln(r₂/r₁)/(2π·k·L) (Fourier's law in radial coordinates)"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         CYLINDER
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {
@@ -146,7 +145,7 @@ impl ElementKind for Sphere {
     fn summary(&self) -> &'static str {
         "spherical shell: R = (1/r₁ − 1/r₂)/(4π·k) (Fourier's law in spherical coordinates)"
     }
-    fn params(&self) -> &'static [ParamSpec] {
+    fn params(&self) -> &'static [ArgSpec] {
         SPHERE
     }
     fn build(&self, a: &Args) -> Result<Built, Diagnostic> {

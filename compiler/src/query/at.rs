@@ -1,9 +1,10 @@
-//! What the cursor is on: a declared name, a quantity literal, an element kind, an argument
-//! name, a limit's measure or a function.
+//! What the cursor is on: a declared name, a quantity literal, a declaration word, an element
+//! kind, an argument name, a limit's measure or a function. Words and arguments are looked up
+//! in the schema (`crate::schema`).
 
 use crate::analysis::Analysis;
-use crate::elements::{self, ElementKind, ParamSpec};
-use crate::limits::MEASURES;
+use crate::elements::{self, ElementKind};
+use crate::schema::{self, ArgSpec, DeclSpec};
 use crate::span::{FileId, Span};
 use crate::symbols::Symbol;
 use crate::syntax::{Arg, ElementCall, Expr, ExprKind, Item, ItemKind};
@@ -26,11 +27,14 @@ pub enum Target<'a> {
         span: Span,
         kind: &'static dyn ElementKind,
     },
-    /// A named argument of an element call (`thickness` in `thickness = 140 mm`).
+    /// The word that begins a declaration (`node`, `transient`).
+    Declaration { span: Span, decl: &'static DeclSpec },
+    /// A named argument (`thickness` in `thickness = 140 mm`) of an element kind, a build-up
+    /// use or a declaration, which `owner` names (`layer`, `node`, `timber_wall`).
     ArgName {
         span: Span,
-        kind: &'static dyn ElementKind,
-        param: &'static ParamSpec,
+        owner: &'a str,
+        param: &'static ArgSpec,
     },
     /// The measure of a limit (`u_value`); `doc` says what it measures.
     Measure {
@@ -49,6 +53,7 @@ impl Target<'_> {
             Target::Symbol { span, .. }
             | Target::Literal { span, .. }
             | Target::ElementKind { span, .. }
+            | Target::Declaration { span, .. }
             | Target::ArgName { span, .. }
             | Target::Measure { span, .. }
             | Target::Function { span, .. } => *span,
@@ -67,82 +72,146 @@ pub fn target_at(a: &Analysis, file: FileId, offset: u32) -> Option<Target<'_>> 
     }
     let module = &a.modules.iter().find(|(id, _)| *id == file)?.1;
     let item = module.items.iter().find(|i| i.span.contains(offset))?;
-    in_item(item, offset)
+    At {
+        a,
+        text: a.sources.text(file),
+        offset,
+    }
+    .item(item)
 }
 
-fn in_item(item: &Item, offset: u32) -> Option<Target<'_>> {
-    match &item.kind {
-        ItemKind::Param { value, .. } => in_expr(value, offset),
-        ItemKind::Material { args, .. } | ItemKind::Node { args, .. } => {
-            args.iter().find_map(|a| in_expr(&a.value, offset))
+/// What an item's parts are looked up against.
+struct At<'a> {
+    a: &'a Analysis,
+    text: &'a str,
+    offset: u32,
+}
+
+impl<'a> At<'a> {
+    fn item(&self, item: &'a Item) -> Option<Target<'a>> {
+        let offset = self.offset;
+        if let Some(t) = self.word(item) {
+            return Some(t);
         }
-        ItemKind::Link { element, .. } => in_call(element, offset),
-        ItemKind::Buildup { elements, .. } => {
-            elements.iter().find_map(|e| in_call(&e.element, offset))
-        }
-        ItemKind::Limit { measure, value, .. } => {
-            if measure.span.contains(offset) {
-                let &(name, _, doc) = MEASURES.iter().find(|m| m.0 == measure.name)?;
-                return Some(Target::Measure {
-                    span: measure.span,
-                    name,
-                    doc,
-                });
+        let decl_args = |word: &'static str, args: &'a [Arg]| {
+            let specs = schema::declaration(word).map_or(&[][..], |d| d.arg_specs());
+            self.args(word, specs, args)
+        };
+        match &item.kind {
+            ItemKind::Param { value, .. } => in_expr(value, offset),
+            ItemKind::Material { args, .. } => decl_args("material", args),
+            ItemKind::Node { args, .. } => decl_args("node", args),
+            ItemKind::Link { element, .. } => self.call(element),
+            ItemKind::Buildup { elements, .. } => {
+                elements.iter().find_map(|e| self.call(&e.element))
             }
-            in_expr(value, offset)
-        }
-        ItemKind::Declaration { args, rows, .. } => args
-            .iter()
-            .map(|a| &a.value)
-            .chain(rows.iter().flatten().flat_map(|r| [&r.key, &r.value]))
-            .find_map(|e| in_expr(e, offset)),
-        ItemKind::Repeat { args, body, .. } => args
-            .iter()
-            .find_map(|a| in_expr(&a.value, offset))
-            .or_else(|| {
+            ItemKind::Limit { measure, value, .. } => {
+                if measure.span.contains(offset) {
+                    let m = schema::measure(&measure.name)?;
+                    return Some(Target::Measure {
+                        span: measure.span,
+                        name: m.name,
+                        doc: m.doc,
+                    });
+                }
+                in_expr(value, offset)
+            }
+            ItemKind::Declaration {
+                word, args, rows, ..
+            } => {
+                let specs = schema::declaration(&word.name).map_or(&[][..], |d| d.arg_specs());
+                self.args(&word.name, specs, args).or_else(|| {
+                    rows.iter()
+                        .flatten()
+                        .flat_map(|r| [&r.key, &r.value])
+                        .find_map(|e| in_expr(e, offset))
+                })
+            }
+            ItemKind::Repeat { args, body, .. } => decl_args("repeat", args).or_else(|| {
                 body.iter()
                     .find(|i| i.span.contains(offset))
-                    .and_then(|i| in_item(i, offset))
+                    .and_then(|i| self.item(i))
             }),
-        ItemKind::Network { body, .. } => body
-            .iter()
-            .find(|i| i.span.contains(offset))
-            .and_then(|i| in_item(i, offset)),
-        ItemKind::Use { args, .. } => args.iter().find_map(|a| in_expr(&a.value, offset)),
-        ItemKind::Region { args, edges, .. } => args
-            .iter()
-            .find_map(|a| in_expr(&a.value, offset))
-            .or_else(|| {
+            ItemKind::Network { body, .. } => body
+                .iter()
+                .find(|i| i.span.contains(offset))
+                .and_then(|i| self.item(i)),
+            ItemKind::Use { args, .. } => args.iter().find_map(|a| in_expr(&a.value, offset)),
+            ItemKind::Region { args, edges, .. } => decl_args("region", args).or_else(|| {
                 edges
                     .iter()
                     .filter_map(|e| e.element.as_ref())
-                    .find_map(|c| in_call(c, offset))
+                    .find_map(|c| self.call(c))
             }),
-        ItemKind::Title { .. } | ItemKind::Import { .. } => None,
-    }
-}
-
-fn in_call(call: &ElementCall, offset: u32) -> Option<Target<'_>> {
-    let kind = elements::lookup(&call.kind.name);
-    if call.kind.span.contains(offset) {
-        return kind.map(|kind| Target::ElementKind {
-            span: call.kind.span,
-            kind,
-        });
-    }
-    call.args.iter().find_map(|arg: &Arg| {
-        if let (Some(name), Some(kind)) = (&arg.name, kind) {
-            if name.span.contains(offset) {
-                let param = kind.params().iter().find(|p| p.name == name.name)?;
-                return Some(Target::ArgName {
-                    span: name.span,
-                    kind,
-                    param,
-                });
-            }
+            ItemKind::Title { .. } | ItemKind::Import { .. } => None,
         }
-        in_expr(&arg.value, offset)
-    })
+    }
+
+    /// The declaration word that begins the item, when the cursor is on it.
+    fn word(&self, item: &Item) -> Option<Target<'a>> {
+        let word = match &item.kind {
+            ItemKind::Declaration { word, .. } => word.name.as_str(),
+            ItemKind::Title { .. } => "title",
+            ItemKind::Import { .. } => "import",
+            ItemKind::Param { .. } => "param",
+            ItemKind::Material { .. } => "material",
+            ItemKind::Node { .. } => "node",
+            ItemKind::Link { .. } => "link",
+            ItemKind::Buildup { .. } => "buildup",
+            ItemKind::Limit { .. } => "limit",
+            ItemKind::Repeat { .. } => "repeat",
+            ItemKind::Network { .. } => "network",
+            ItemKind::Use { .. } => "use",
+            ItemKind::Region { .. } => "region",
+        };
+        let span = Span {
+            end: item.span.start + word.len() as u32,
+            ..item.span
+        };
+        let written = self.text.get(span.range())?;
+        (written == word && span.contains(self.offset)).then_some(())?;
+        Some(Target::Declaration {
+            span,
+            decl: schema::declaration(word)?,
+        })
+    }
+
+    /// An argument name of `owner` (looked up in `specs`) or a value, under the cursor.
+    fn args(
+        &self,
+        owner: &'a str,
+        specs: &'static [ArgSpec],
+        args: &'a [Arg],
+    ) -> Option<Target<'a>> {
+        args.iter().find_map(|arg: &'a Arg| {
+            if let Some(name) = &arg.name {
+                if name.span.contains(self.offset) {
+                    return Some(Target::ArgName {
+                        span: name.span,
+                        owner,
+                        param: schema::find(specs, &name.name)?,
+                    });
+                }
+            }
+            in_expr(&arg.value, self.offset)
+        })
+    }
+
+    /// An element call or a build-up use (`timber_wall(area = ...)`).
+    fn call(&self, call: &'a ElementCall) -> Option<Target<'a>> {
+        let kind = elements::lookup(&call.kind.name);
+        if call.kind.span.contains(self.offset) {
+            return kind.map(|kind| Target::ElementKind {
+                span: call.kind.span,
+                kind,
+            });
+        }
+        let specs = match kind {
+            Some(k) => k.params(),
+            None => super::buildup_use_args(self.a, &call.kind.name).unwrap_or(&[]),
+        };
+        self.args(&call.kind.name, specs, &call.args)
+    }
 }
 
 fn in_expr(e: &Expr, offset: u32) -> Option<Target<'_>> {

@@ -3,24 +3,27 @@
 //! syntax tree does not hold it yet).
 
 use crate::analysis::Analysis;
-use crate::elements::{self, ArgType};
+use crate::elements::{self, shell};
 use crate::lexer::{lex, Tok, Token};
+use crate::schema;
 use crate::span::{FileId, Span};
-use crate::symbols::SymbolKind;
 use crate::units::Dim;
 
 /// Whose argument list the cursor is in.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub enum ArgOwner {
-    /// An element call or a build-up use: `layer(...)`, `timber_wall(...)`.
+    /// An element call or a build-up use: `layer(...)`, `timber_wall(...)`. Inside a
+    /// build-up, `supplied` are the arguments the link that uses it gives the element (its
+    /// area; for a radial build-up also the radius it starts at and the length).
     Element {
         kind: String,
         in_buildup: bool,
+        supplied: &'static [&'static str],
     },
-    Material,
-    Node,
+    /// A declaration introduced by `word` (`node`, `material`, `transient`, `case`, ...), whose
+    /// arguments the schema lists (`case`: the model's parameters).
+    Declaration { word: &'static str },
 }
-
 /// The argument list the cursor is in: its owner, the index of the argument under the cursor
 /// and its name when written `name = ...`.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -76,37 +79,43 @@ fn is_word(k: Tok) -> bool {
 /// The dimension the argument under the cursor expects, when it is a quantity.
 pub fn expected_dim(call: &CallInfo, a: &Analysis) -> Option<Dim> {
     let name = call.arg.as_deref();
-    match &call.owner {
-        ArgOwner::Node => match name? {
-            "fixed" => Some(Dim::TEMPERATURE),
-            "load" => Some(Dim::POWER),
-            _ => None,
-        },
-        ArgOwner::Material => match name? {
-            "k" => Some(Dim::CONDUCTIVITY),
-            "density" => Some(Dim::DENSITY),
-            "specific_heat" => Some(Dim::SPECIFIC_HEAT),
-            _ => None,
-        },
-        ArgOwner::Element { kind, .. } => {
-            if a.symbols
-                .get(kind)
-                .is_some_and(|s| s.kind == SymbolKind::Buildup)
-            {
-                return Some(Dim::AREA);
-            }
-            let params = elements::lookup(kind)?.params();
-            let spec = match name {
-                Some(n) => params.iter().find(|p| p.name == n)?,
-                None if call.index == 0 => params.first()?,
-                None => return None,
-            };
-            match spec.ty {
-                ArgType::Quantity(d) => Some(d),
-                ArgType::Material => None,
-            }
+    let specs = match &call.owner {
+        ArgOwner::Declaration { word: "case" } => {
+            // A case gives a parameter a value of the parameter's own dimension.
+            let p = a.params.iter().find(|p| Some(p.0.as_str()) == name)?;
+            return p.1.map(|q| q.dim);
         }
+        ArgOwner::Declaration { word } => schema::declaration(word)?.arg_specs(),
+        ArgOwner::Element { kind, .. } => match elements::lookup(kind) {
+            Some(k) => k.params(),
+            None => super::buildup_use_args(a, kind)?,
+        },
+    };
+    let spec = match name {
+        Some(n) => specs.iter().find(|p| p.name == n)?,
+        None if call.index == 0 && matches!(call.owner, ArgOwner::Element { .. }) => {
+            specs.first()?
+        }
+        None => return None,
+    };
+    spec.ty.dim()
+}
+
+/// Whether token `i` of `toks` begins a declaration: a keyword, or a contextual word first on
+/// its line and followed by a name.
+fn starts_decl(text: &str, toks: &[Token], i: usize) -> bool {
+    let t = toks[i];
+    if t.kind.starts_item() {
+        return true;
     }
+    let word = &text[t.span.range()];
+    let line_start = text[..t.span.start as usize]
+        .rfind('\n')
+        .map_or(0, |p| p + 1);
+    t.kind == Tok::Ident
+        && schema::contextual_words().any(|w| w == word)
+        && text[line_start..t.span.start as usize].trim().is_empty()
+        && toks.get(i + 1).is_some_and(|n| n.kind == Tok::Ident)
 }
 
 /// The completion context at byte `offset` of `text`.
@@ -187,7 +196,10 @@ pub fn completion_context(text: &str, offset: u32) -> CompletionContext {
         .map(|i| i + 1)
         .unwrap_or(0);
     let fresh_line = text[line_start..replace.start as usize].trim().is_empty();
-    let Some(k) = before.iter().rposition(|t| t.kind.starts_item()) else {
+    let Some(k) = (0..before.len())
+        .rev()
+        .find(|&i| starts_decl(text, &before, i))
+    else {
         let slot = if fresh_line {
             Slot::Keyword
         } else {
@@ -226,16 +238,22 @@ pub fn completion_context(text: &str, offset: u32) -> CompletionContext {
             None,
         ),
         Tok::Material | Tok::Node => {
-            let owner = if decl[0].kind == Tok::Material {
-                ArgOwner::Material
+            let word = if decl[0].kind == Tok::Material {
+                "material"
             } else {
-                ArgOwner::Node
+                "node"
             };
             match rest.iter().position(|t| t.kind == Tok::LParen) {
-                Some(p) => args(&rest[p + 1..], owner, text, replace),
+                Some(p) => args(
+                    &rest[p + 1..],
+                    ArgOwner::Declaration { word },
+                    text,
+                    replace,
+                ),
                 None => nothing(replace),
             }
         }
+        Tok::Ident => contextual(words(&decl[0]), rest, fresh_line, text, replace),
         Tok::Link => match rest.len() {
             2 | 4 => ctx(Slot::Node, None),
             5 => ctx(Slot::LinkKind, None),
@@ -243,6 +261,7 @@ pub fn completion_context(text: &str, offset: u32) -> CompletionContext {
                 let owner = ArgOwner::Element {
                     kind: words(&rest[5]).to_string(),
                     in_buildup: false,
+                    supplied: &[],
                 };
                 args(&rest[7..], owner, text, replace)
             }
@@ -366,11 +385,17 @@ fn buildup(rest: &[Token], text: &str, replace: Span) -> CompletionContext {
     let body = &rest[brace + 1..];
     let mut state = 0;
     let mut i = 0;
+    // The element kinds so far decide the build-up's geometry, so what its use supplies.
+    let mut kinds: Vec<&str> = Vec::new();
     while i < body.len() {
         let t = body[i];
         match (state, t.kind) {
             (_, Tok::RBrace) => return nothing,
-            (0, Tok::Ident) | (1, Tok::Colon) | (2, Tok::Ident) => state += 1,
+            (2, Tok::Ident) => {
+                kinds.push(&text[t.span.range()]);
+                state += 1
+            }
+            (0, Tok::Ident) | (1, Tok::Colon) => state += 1,
             (3, Tok::LParen) => {
                 // Find the matching `)`; if it is not there, the cursor is inside.
                 let mut depth = 0;
@@ -393,11 +418,13 @@ fn buildup(rest: &[Token], text: &str, replace: Span) -> CompletionContext {
                     }
                     None => {
                         let kind = text[body[i - 1].span.range()].to_string();
+                        let geom = shell::geometry(kinds.iter().copied());
                         return args(
                             &body[i + 1..],
                             ArgOwner::Element {
                                 kind,
                                 in_buildup: true,
+                                supplied: crate::radial::supplied_names(geom),
                             },
                             text,
                             replace,
@@ -416,5 +443,45 @@ fn buildup(rest: &[Token], text: &str, replace: Span) -> CompletionContext {
             call: None,
         },
         _ => nothing,
+    }
+}
+
+/// The context inside a declaration introduced by a contextual word (`rest` follows the word).
+fn contextual(
+    word: &str,
+    rest: &[Token],
+    fresh_line: bool,
+    text: &str,
+    replace: Span,
+) -> CompletionContext {
+    let slot = |slot| CompletionContext {
+        slot,
+        replace,
+        call: None,
+    };
+    let Some(decl) = schema::declaration(word) else {
+        return slot(Slot::Nothing);
+    };
+    // Inside the braces of a repetition or a sub-network, declarations follow.
+    if rest.iter().any(|t| t.kind == Tok::LBrace) {
+        let body = matches!(decl.word, "repeat" | "network");
+        return slot(if body && fresh_line {
+            Slot::Keyword
+        } else {
+            Slot::Nothing
+        });
+    }
+    let takes_args = matches!(
+        decl.args,
+        schema::DeclArgs::Fixed(_) | schema::DeclArgs::Parameters
+    );
+    match rest.iter().position(|t| t.kind == Tok::LParen) {
+        Some(p) if takes_args => args(
+            &rest[p + 1..],
+            ArgOwner::Declaration { word: decl.word },
+            text,
+            replace,
+        ),
+        _ => slot(Slot::Nothing),
     }
 }

@@ -4,7 +4,7 @@
 use crate::analysis::Analysis;
 use crate::elements;
 use crate::lexer::{lex, Tok};
-use crate::limits::MEASURES;
+use crate::schema;
 use crate::span::{FileId, Span};
 use crate::symbols::SymbolKind;
 use std::collections::HashMap;
@@ -37,7 +37,10 @@ pub struct Highlight {
     pub declaration: bool,
 }
 
-const FUNCTIONS: &[&str] = &["sqrt", "ln", "exp", "abs", "min", "max", "pi"];
+/// A standard function or constant of expressions (see `crate::schema`).
+fn is_function(word: &str) -> bool {
+    schema::function(word).is_some() || schema::CONSTANTS.iter().any(|c| c.0 == word)
+}
 
 /// Highlights of one file of the analysis, in text order. Names that resolve to nothing (a
 /// typo the diagnostics already report) get no class.
@@ -121,9 +124,11 @@ pub fn highlights(a: &Analysis, file: FileId) -> Vec<Highlight> {
                     Some((Class::ArgName, false))
                 } else if next == Some(Tok::LParen) && elements::lookup(word).is_some() {
                     Some((Class::ElementKind, false))
-                } else if next == Some(Tok::LParen) && MEASURES.iter().any(|m| m.0 == word) {
+                } else if next == Some(Tok::LParen) && schema::measure(word).is_some() {
                     Some((Class::Measure, false))
-                } else if FUNCTIONS.contains(&word) {
+                } else if contextual_keyword(text, &tokens, i) {
+                    Some((Class::Keyword, false))
+                } else if is_function(word) {
                     Some((Class::Function, false))
                 } else {
                     None
@@ -140,4 +145,17 @@ pub fn highlights(a: &Analysis, file: FileId) -> Vec<Highlight> {
         }
     }
     out
+}
+
+/// Whether token `i` is a contextual declaration word (`schedule`, `region`, ...) where it
+/// begins a declaration: first on its line and followed by a name.
+fn contextual_keyword(text: &str, tokens: &[crate::lexer::Token], i: usize) -> bool {
+    let t = tokens[i];
+    let word = &text[t.span.range()];
+    let line_start = text[..t.span.start as usize]
+        .rfind('\n')
+        .map_or(0, |p| p + 1);
+    schema::contextual_words().any(|w| w == word)
+        && text[line_start..t.span.start as usize].trim().is_empty()
+        && tokens.get(i + 1).is_some_and(|n| n.kind == Tok::Ident)
 }

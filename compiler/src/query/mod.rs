@@ -9,6 +9,7 @@
 
 mod at;
 mod balance;
+mod buildups;
 mod context;
 mod convert;
 mod highlight;
@@ -17,6 +18,7 @@ mod rename;
 
 pub use at::{target_at, Target};
 pub use balance::{node_balance, preferred_system, NodeBalance};
+pub use buildups::{buildup_geometry, buildup_use_args};
 pub use context::{completion_context, expected_dim, ArgOwner, CallInfo, CompletionContext, Slot};
 pub use convert::{format_significant, unit_conversions, Conversion};
 pub use highlight::{highlights, Class, Highlight};

@@ -266,7 +266,8 @@ fn completion_context_by_place() {
         c.call.map(|c| c.owner),
         Some(ArgOwner::Element {
             kind: "layer".into(),
-            in_buildup: true
+            in_buildup: true,
+            supplied: &["area"],
         })
     );
     assert_eq!(ctx("buildup w {\n  |").slot, Slot::Nothing);
@@ -291,6 +292,51 @@ fn completion_context_by_place() {
     assert_eq!(u.slot, Slot::Unit);
     assert_eq!(u.replace.end - u.replace.start, 1);
     assert_eq!(ctx("title \"a |").slot, Slot::Nothing);
+}
+
+#[test]
+fn contextual_declarations_and_radial_build_ups_have_their_own_argument_lists() {
+    let owner = |src: &str| ctx(src).call.map(|c| c.owner);
+    let decl = |word| Some(ArgOwner::Declaration { word });
+    assert_eq!(
+        owner("node a (fixed = 1 °C)\ntransient run (|"),
+        decl("transient")
+    );
+    assert_eq!(owner("schedule night (|"), decl("schedule"));
+    assert_eq!(owner("region plate (al, |"), decl("region"));
+    assert_eq!(owner("repeat seg (|"), decl("repeat"));
+    assert_eq!(owner("case windy (|"), decl("case"));
+    assert_eq!(owner("node a (|"), decl("node"));
+    assert_eq!(owner("material m (k = 1 W/(m*K), |"), decl("material"));
+    // Not a declaration: `case` is an ordinary name after `=`, and a node may be called `use`.
+    assert_eq!(
+        owner("link x: a to b layer(k = case|"),
+        Some(ArgOwner::Element {
+            kind: "layer".into(),
+            in_buildup: false,
+            supplied: &[],
+        })
+    );
+    // The first line inside a repetition's braces starts a declaration.
+    assert_eq!(ctx("repeat seg (count = 3) {\n  |").slot, Slot::Keyword);
+    assert_eq!(ctx("schedule s {\n  |").slot, Slot::Nothing);
+    // Elements of a radial build-up get their radius and length from the use, too.
+    let c = ctx(
+        "buildup lagging {\n  wall: cylinder(k = 50 W/(m*K), thickness = 3 mm)\n  foam: cylinder(|",
+    );
+    assert_eq!(
+        c.call.map(|c| c.owner),
+        Some(ArgOwner::Element {
+            kind: "cylinder".into(),
+            in_buildup: true,
+            supplied: &["length", "area", "inner_radius"],
+        })
+    );
+    let a = solved(WALL);
+    let dim = |src: &str| ctx(src).call.as_ref().and_then(|c| expected_dim(c, &a));
+    assert_eq!(dim("transient run (duration = 2 |"), Some(Dim::TIME));
+    assert_eq!(dim("node n (capacity = 2 |"), Some(Dim::CAPACITY));
+    assert_eq!(dim("material m (k_at = 2 |"), Some(Dim::TEMPERATURE));
 }
 
 #[test]

@@ -36,6 +36,8 @@ impl Dim {
     pub const ENERGY: Dim = Dim::new(2, 1, -2, 0);
     /// W/(m·K)
     pub const CONDUCTIVITY: Dim = Dim::new(1, 1, -3, -1);
+    /// W/(m·K²): how a conductivity changes with temperature (`k_slope` of a linear k(T)).
+    pub const CONDUCTIVITY_SLOPE: Dim = Dim::new(1, 1, -3, -2);
     /// W/(m²·K), also the U-value
     pub const HEAT_TRANSFER_COEFF: Dim = Dim::new(0, 1, -3, -1);
     /// m²·K/W
@@ -255,6 +257,11 @@ const NAMED: &[Named] = &[
         dim: Dim::CONDUCTIVITY,
         name: "thermal conductivity",
         si: "W/(m·K)",
+    },
+    Named {
+        dim: Dim::CONDUCTIVITY_SLOPE,
+        name: "conductivity slope",
+        si: "W/(m·K²)",
     },
     Named {
         dim: Dim::HEAT_TRANSFER_COEFF,
