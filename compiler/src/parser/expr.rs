@@ -189,7 +189,7 @@ fn chain<'s>(
     });
     operand
         .clone()
-        .then(op.clone().then(operand).repeated().collect::<Vec<_>>())
+        .then(op.then(operand).repeated().collect::<Vec<_>>())
         // An operator left over means the operand after it was broken: fail here.
         .then_ignore(op.not())
         .map(|(first, rest)| {

@@ -36,7 +36,7 @@ pub fn skip_to_declaration<'s>(in_block: bool) -> impl Parser<'s, In<'s>, (), Ex
     any()
         .then(
             any()
-                .filter(move |t: &Tk| !t.starts_decl && !(in_block && t.kind == Tok::RBrace))
+                .filter(move |t: &Tk| !(t.starts_decl || in_block && t.kind == Tok::RBrace))
                 .repeated(),
         )
         .ignored()

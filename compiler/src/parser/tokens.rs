@@ -3,6 +3,7 @@
 //! grammar never looks at the text or at neighbouring tokens.
 
 use crate::lexer::{tokens, Tok};
+use crate::schema::DECLARATIONS;
 use crate::span::{FileId, Span};
 use crate::syntax::{BLOCK_WORDS, DECLARATION_WORDS};
 
@@ -36,7 +37,7 @@ pub struct Tk {
     /// The next token is `=` (a name or keyword before `=` names an argument).
     pub before_eq: bool,
     /// A name first on its line that is a slip for a declaration word (`nod`, `Link`,
-    /// `build-up`): the word it was meant to be, from [`WORDS`].
+    /// `build-up`): the word it was meant to be, as an index into the schema's declarations.
     pub misspelt: Option<u8>,
     /// The next token is a name (a contextual word before a name opens a declaration).
     pub before_name: bool,
@@ -48,25 +49,6 @@ impl std::fmt::Display for Tk {
     }
 }
 
-/// Every word that opens a declaration.
-pub const WORDS: &[&str] = &[
-    "title",
-    "import",
-    "param",
-    "material",
-    "node",
-    "link",
-    "buildup",
-    "limit",
-    "schedule",
-    "case",
-    "transient",
-    "repeat",
-    "network",
-    "use",
-    "region",
-];
-
 /// The declaration word `s` is a slip for: the same letters in another case, or one edit away
 /// (two for longer words); `build-up` and `build_up` for `buildup`.
 pub fn misspelt_word(s: &str) -> Option<u8> {
@@ -74,11 +56,12 @@ pub fn misspelt_word(s: &str) -> Option<u8> {
         return None;
     }
     let lower = s.to_lowercase().replace(['-', '_'], "");
-    WORDS
+    DECLARATIONS
         .iter()
-        .position(|w| {
+        .position(|decl| {
+            let w = decl.word;
             let d = strsim::damerau_levenshtein(&lower, w);
-            lower == *w || (lower.len() >= 3 && d <= 1) || (lower.len() >= 7 && d <= 2)
+            lower == w || (lower.len() >= 3 && d <= 1) || (lower.len() >= 7 && d <= 2)
         })
         .map(|i| i as u8)
 }
@@ -86,7 +69,7 @@ pub fn misspelt_word(s: &str) -> Option<u8> {
 impl Tk {
     /// The declaration word this name is a slip for, if any.
     pub fn meant(&self) -> Option<&'static str> {
-        self.misspelt.map(|i| WORDS[i as usize])
+        self.misspelt.map(|i| DECLARATIONS[i as usize].word)
     }
 }
 
