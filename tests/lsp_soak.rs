@@ -9,15 +9,16 @@
 
 #[path = "../lsp/tests/support/client.rs"]
 mod client;
+#[path = "../lsp/tests/support/corpus.rs"]
+mod corpus;
 #[path = "../lsp/tests/support/fixture.rs"]
 mod fixture;
 
 use client::{position_of, RpcClient};
-use fixture::{CABIN, MATERIALS};
+use fixture::{ScratchProject, CABIN};
 use serde_json::{json, Value};
 use std::collections::HashSet;
 use std::io::Read;
-use std::path::PathBuf;
 use std::process::{Command, Stdio};
 use std::sync::{Arc, Mutex};
 use std::time::Duration;
@@ -60,15 +61,7 @@ const TYPED: &[&str] = &[
 ];
 
 fn examples() -> Vec<String> {
-    let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("examples");
-    let mut files: Vec<PathBuf> = std::fs::read_dir(dir)
-        .expect("examples")
-        .flatten()
-        .map(|e| e.path())
-        .filter(|p| p.extension().is_some_and(|e| e == "heat"))
-        .collect();
-    files.sort();
-    files
+    corpus::examples()
         .iter()
         .map(|p| std::fs::read_to_string(p).expect("example"))
         .collect()
@@ -188,13 +181,6 @@ fn feature_request(rng: &mut Rng, uri: &str, text: &str) -> (&'static str, Value
     }
 }
 
-struct Project(PathBuf);
-impl Drop for Project {
-    fn drop(&mut self) {
-        let _ = std::fs::remove_dir_all(&self.0);
-    }
-}
-
 /// Responses among `msgs`: their ids leave `pending`; an error other than a cancellation
 /// (the server may drop a request a newer edit made stale) is a failure.
 fn settle(msgs: &[Value], pending: &mut HashSet<i64>, methods: &[(i64, &str)]) {
@@ -222,13 +208,9 @@ fn settle(msgs: &[Value], pending: &mut HashSet<i64>, methods: &[(i64, &str)]) {
 
 #[test]
 fn the_server_survives_thousands_of_random_edits() {
-    let dir = std::env::temp_dir().join(format!("caloris-soak-{}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&dir);
-    std::fs::create_dir_all(dir.join(".git")).expect("dir");
-    let _guard = Project(dir.clone());
-    std::fs::write(dir.join("materials.heat"), MATERIALS).expect("library");
-    let root = format!("file://{}", dir.display());
-    let uri = format!("file://{}/model.heat", dir.display());
+    let project = ScratchProject::new("soak");
+    let root = project.root_uri();
+    let uri = project.uri("model.heat");
 
     let mut child = Command::new(env!("CARGO_BIN_EXE_caloris"))
         .arg("lsp")

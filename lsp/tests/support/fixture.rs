@@ -203,3 +203,36 @@ pub fn outline(list: &[lsp::DocumentSymbol]) -> String {
     walk(list, 0, &mut out);
     out
 }
+
+/// A project folder in the temp directory for a server that reads files: marked as a project
+/// root by `.git`, holding [`MATERIALS`] as `materials.heat`, removed when dropped.
+pub struct ScratchProject {
+    pub dir: PathBuf,
+}
+
+impl ScratchProject {
+    /// `caloris-NAME-PID` in the temp directory, empty but for the library.
+    pub fn new(name: &str) -> ScratchProject {
+        let dir = std::env::temp_dir().join(format!("caloris-{name}-{}", std::process::id()));
+        let _ = std::fs::remove_dir_all(&dir);
+        std::fs::create_dir_all(dir.join(".git")).expect("project folder");
+        std::fs::write(dir.join("materials.heat"), MATERIALS).expect("material library");
+        ScratchProject { dir }
+    }
+
+    /// The folder's URI, for `initialize`.
+    pub fn root_uri(&self) -> String {
+        format!("file://{}", self.dir.display())
+    }
+
+    /// The URI of `file` in the folder.
+    pub fn uri(&self, file: &str) -> String {
+        format!("file://{}", self.dir.join(file).display())
+    }
+}
+
+impl Drop for ScratchProject {
+    fn drop(&mut self) {
+        let _ = std::fs::remove_dir_all(&self.dir);
+    }
+}
