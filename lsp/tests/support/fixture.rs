@@ -154,17 +154,24 @@ pub fn apply(edit: &WorkspaceEdit, texts: &[(&str, &str)]) -> String {
             .find(|t| t.0 == name)
             .map(|t| t.1)
             .unwrap_or_else(|| panic!("no text for {name}"));
-        let mut edits = edits.clone();
-        edits.sort_by_key(|e| (e.range.start.line, e.range.start.character));
-        let mut result = text.to_string();
-        for e in edits.iter().rev() {
-            let start = offset(&result, e.range.start);
-            let end = offset(&result, e.range.end);
-            result.replace_range(start..end, &e.new_text);
-        }
+        let result = apply_edits(text, edits);
         out.push_str(&format!("--- {name} ({} edits)\n{result}", edits.len()));
     }
     out
+}
+
+/// `text` with `edits` made, their ranges read in the original text (as the protocol has
+/// them), last first.
+pub fn apply_edits(text: &str, edits: &[lsp::TextEdit]) -> String {
+    let mut edits = edits.to_vec();
+    edits.sort_by_key(|e| (e.range.start.line, e.range.start.character));
+    let mut result = text.to_string();
+    for e in edits.iter().rev() {
+        let start = offset(&result, e.range.start);
+        let end = offset(&result, e.range.end);
+        result.replace_range(start..end, &e.new_text);
+    }
+    result
 }
 
 fn offset(text: &str, p: Position) -> usize {
