@@ -11,7 +11,7 @@ use client::{position_of, RpcClient};
 use fixture::{ScratchProject, CABIN};
 use serde_json::{json, Value};
 use std::process::{Command, Stdio};
-use std::time::Duration;
+use std::time::{Duration, Instant};
 
 const T: Duration = Duration::from_secs(30);
 
@@ -404,4 +404,47 @@ fn deep_and_long_documents_do_not_take_the_server_down() {
     assert!(shown.contains("Temperature **"), "{shown}");
     c.shutdown();
     assert_eq!(wait_exit(&mut child), Some(0));
+}
+
+/// An editor that goes away (its end of the pipes closed) while an analysis runs: the server
+/// ends at once rather than finishing the analysis for no one. It used to wait for every
+/// analysis on its blocking threads, and two servers left behind by a failed test ran on
+/// for over 25 minutes.
+#[test]
+fn the_server_ends_when_its_client_goes_away_mid_analysis() {
+    let project = ScratchProject::new("stdio-gone");
+    // 100 000 copies of fourteen nested repetitions of one empty copy: about 13 s of
+    // expansion in a debug build, in little memory.
+    let text = format!(
+        "repeat outer (count = 100000) {{\n{}{}}}\n",
+        "repeat r (count = 1) {\n".repeat(14),
+        "}\n".repeat(14)
+    );
+    let (mut child, mut c) = spawn();
+    c.initialize(&project.root_uri());
+    c.open(&project.uri("model.heat"), 1, &text);
+    // Long enough for the analysis to start, far shorter than it takes.
+    std::thread::sleep(Duration::from_millis(1500));
+    assert!(
+        matches!(child.try_wait(), Ok(None)),
+        "still serving while analysing"
+    );
+    drop(c);
+    let gone = Instant::now();
+    let mut status = None;
+    while gone.elapsed() < Duration::from_secs(5) {
+        if let Ok(Some(s)) = child.try_wait() {
+            status = Some(s);
+            break;
+        }
+        std::thread::sleep(Duration::from_millis(50));
+    }
+    if status.is_none() {
+        let _ = child.kill();
+        let _ = child.wait();
+    }
+    assert!(
+        status.is_some(),
+        "the server still ran 5 s after its client went away"
+    );
 }
