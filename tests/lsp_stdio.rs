@@ -8,10 +8,10 @@ mod client;
 mod fixture;
 
 use client::{position_of, RpcClient};
-use fixture::{CABIN, MATERIALS};
+use fixture::{ScratchProject, CABIN};
 use serde_json::{json, Value};
 use std::process::{Command, Stdio};
-use std::time::Duration;
+use std::time::{Duration, Instant};
 
 const T: Duration = Duration::from_secs(30);
 
@@ -28,13 +28,6 @@ fn spawn() -> (std::process::Child, RpcClient) {
     (child, RpcClient::new(Box::new(stdout), Box::new(stdin)))
 }
 
-struct Project(std::path::PathBuf);
-impl Drop for Project {
-    fn drop(&mut self) {
-        let _ = std::fs::remove_dir_all(&self.0);
-    }
-}
-
 fn at(text: &str, needle: &str) -> Value {
     position_of(
         text,
@@ -45,15 +38,11 @@ fn at(text: &str, needle: &str) -> Value {
 
 #[test]
 fn a_session_over_stdio_uses_every_feature() {
-    let dir = std::env::temp_dir().join(format!("caloris-stdio-{}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&dir);
-    std::fs::create_dir_all(dir.join(".git")).expect("dir");
-    let _guard = Project(dir.clone());
-    std::fs::write(dir.join("materials.heat"), MATERIALS).expect("lib");
-    std::fs::write(dir.join("model.heat"), CABIN).expect("model");
-    let root = format!("file://{}", dir.display());
-    let model = format!("file://{}/model.heat", dir.display());
-    let lib = format!("file://{}/materials.heat", dir.display());
+    let project = ScratchProject::new("stdio");
+    std::fs::write(project.dir.join("model.heat"), CABIN).expect("model");
+    let root = project.root_uri();
+    let model = project.uri("model.heat");
+    let lib = project.uri("materials.heat");
 
     let (mut child, mut c) = spawn();
     let init = c.initialize(&root);
@@ -353,13 +342,9 @@ fn hover_gets_the_transient_run_of_the_frost_example() {
 /// them and goes on answering for another document.
 #[test]
 fn deep_and_long_documents_do_not_take_the_server_down() {
-    let dir = std::env::temp_dir().join(format!("caloris-stdio-deep-{}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&dir);
-    std::fs::create_dir_all(dir.join(".git")).expect("dir");
-    let _guard = Project(dir.clone());
-    std::fs::write(dir.join("materials.heat"), MATERIALS).expect("lib");
-    std::fs::write(dir.join("model.heat"), CABIN).expect("model");
-    let doc = |name: &str| format!("file://{}/{name}", dir.display());
+    let project = ScratchProject::new("stdio-deep");
+    std::fs::write(project.dir.join("model.heat"), CABIN).expect("model");
+    let doc = |name: &str| project.uri(name);
     let corpus = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
         .join("tests/cases/reliability/lsp_stack_overflow_parens_1000.heat");
     let brackets = |n: usize| {
@@ -385,7 +370,7 @@ fn deep_and_long_documents_do_not_take_the_server_down() {
     ];
 
     let (mut child, mut c) = spawn();
-    c.initialize(&format!("file://{}", dir.display()));
+    c.initialize(&project.root_uri());
     for (name, text, errors) in &heavy {
         let uri = doc(name);
         c.open(&uri, 1, text);
@@ -419,4 +404,47 @@ fn deep_and_long_documents_do_not_take_the_server_down() {
     assert!(shown.contains("Temperature **"), "{shown}");
     c.shutdown();
     assert_eq!(wait_exit(&mut child), Some(0));
+}
+
+/// An editor that goes away (its end of the pipes closed) while an analysis runs: the server
+/// ends at once rather than finishing the analysis for no one. It used to wait for every
+/// analysis on its blocking threads, and two servers left behind by a failed test ran on
+/// for over 25 minutes.
+#[test]
+fn the_server_ends_when_its_client_goes_away_mid_analysis() {
+    let project = ScratchProject::new("stdio-gone");
+    // 100 000 copies of fourteen nested repetitions of one empty copy: about 13 s of
+    // expansion in a debug build, in little memory.
+    let text = format!(
+        "repeat outer (count = 100000) {{\n{}{}}}\n",
+        "repeat r (count = 1) {\n".repeat(14),
+        "}\n".repeat(14)
+    );
+    let (mut child, mut c) = spawn();
+    c.initialize(&project.root_uri());
+    c.open(&project.uri("model.heat"), 1, &text);
+    // Long enough for the analysis to start, far shorter than it takes.
+    std::thread::sleep(Duration::from_millis(1500));
+    assert!(
+        matches!(child.try_wait(), Ok(None)),
+        "still serving while analysing"
+    );
+    drop(c);
+    let gone = Instant::now();
+    let mut status = None;
+    while gone.elapsed() < Duration::from_secs(5) {
+        if let Ok(Some(s)) = child.try_wait() {
+            status = Some(s);
+            break;
+        }
+        std::thread::sleep(Duration::from_millis(50));
+    }
+    if status.is_none() {
+        let _ = child.kill();
+        let _ = child.wait();
+    }
+    assert!(
+        status.is_some(),
+        "the server still ran 5 s after its client went away"
+    );
 }

@@ -3,37 +3,19 @@
 //! end with an ordinary exit status (never a panic, an abort or a kill), within a time limit,
 //! and `solve` reports exactly the error codes the file expects of itself.
 
+#[path = "../lsp/tests/support/corpus.rs"]
+mod corpus;
+
+use corpus::{expected_errors, reliability_cases};
 use std::collections::BTreeSet;
 use std::io::Read;
-use std::path::{Path, PathBuf};
+use std::path::Path;
 use std::process::{Command, Stdio};
 use std::time::{Duration, Instant};
 
 /// Far above what any of these takes (each ends in well under a second in a release build);
 /// only a hang or a runaway allocation comes near it.
 const LIMIT: Duration = Duration::from_secs(60);
-
-fn cases() -> Vec<PathBuf> {
-    let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/cases/reliability");
-    let mut files: Vec<PathBuf> = std::fs::read_dir(dir)
-        .expect("reliability cases")
-        .flatten()
-        .map(|e| e.path())
-        .filter(|p| p.extension().is_some_and(|x| x == "heat"))
-        .collect();
-    files.sort();
-    assert!(files.len() >= 20, "the reliability corpus is in place");
-    files
-}
-
-/// The error codes a case expects (`# expect: error CODE at L:C`).
-fn expected_errors(text: &str) -> BTreeSet<String> {
-    text.lines()
-        .filter_map(|l| l.strip_prefix("# expect: error "))
-        .filter_map(|rest| rest.split_whitespace().next())
-        .map(str::to_string)
-        .collect()
-}
 
 /// The codes of the errors the rendered report shows (`[E220] Error: ...`).
 fn reported_errors(output: &str) -> BTreeSet<String> {
@@ -107,7 +89,7 @@ fn run(args: &[&str], file: &Path) -> Ran {
 #[test]
 fn every_reproducer_ends_in_an_ordinary_exit_from_every_command() {
     let mut failures = Vec::new();
-    for file in cases() {
+    for file in reliability_cases() {
         let name = file
             .file_name()
             .unwrap_or_default()

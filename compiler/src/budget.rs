@@ -32,6 +32,10 @@ pub struct Counter<'a> {
     pub networks: &'a HashMap<String, &'a [Item]>,
     pub count: &'a mut dyn FnMut(&Expr) -> Option<f64>,
     memo: HashMap<String, Size>,
+    /// Whether to name the nesting in [`Size::chain`]. Only a refused block's message needs
+    /// it, and the expander counts every nested block once per copy of what encloses it, so
+    /// the names are left out of the counts that fit (see [`Counter::describing`]).
+    describe: bool,
 }
 
 impl<'a> Counter<'a> {
@@ -43,7 +47,14 @@ impl<'a> Counter<'a> {
             networks,
             count,
             memo: HashMap::new(),
+            describe: false,
         }
+    }
+
+    /// The same count with the chain of nested blocks named, for the message of E220.
+    pub fn describing(mut self) -> Self {
+        self.describe = true;
+        self
     }
 
     /// What `items` would make, nested at most `depth_left` more levels (deeper blocks are
@@ -72,10 +83,13 @@ impl<'a> Counter<'a> {
                 }
                 let copies = self.arg(args, "count", 0).unwrap_or(1);
                 let inner = self.size_of(body, depth_left - 1);
-                let mut chain = vec![format!("`repeat {}` ({} copies)", name.name, group(copies))];
-                chain.extend(inner.chain);
+                let chain = self.chain(inner.chain, || {
+                    format!("`repeat {}` ({} copies)", name.name, group(copies))
+                });
                 Size {
-                    total: copies.saturating_mul(inner.total),
+                    // A copy that makes nothing still costs its expansion: each counts at
+                    // least one, so 10¹⁰ copies of an empty body are refused too.
+                    total: copies.saturating_mul(inner.total.max(1)),
                     chain,
                 }
             }
@@ -102,8 +116,9 @@ impl<'a> Counter<'a> {
                         s
                     }
                 };
-                let mut chain = vec![format!("`use {}` of `{}`", name.name, network.name)];
-                chain.extend(inner.chain);
+                let chain = self.chain(inner.chain, || {
+                    format!("`use {}` of `{}`", name.name, network.name)
+                });
                 Size {
                     // The use itself counts one: an empty network used 10¹⁰ times is still
                     // 10¹⁰ expansions.
@@ -119,9 +134,12 @@ impl<'a> Counter<'a> {
                     // Past the region's own limit: the region reports E216 and makes nothing.
                     cells = 0;
                 }
+                let chain = self.chain(Vec::new(), || {
+                    format!("`region {}` ({} cells)", name.name, group(cells))
+                });
                 Size {
                     total: cells.saturating_add(1),
-                    chain: vec![format!("`region {}` ({} cells)", name.name, group(cells))],
+                    chain,
                 }
             }
             _ => Size {
@@ -129,6 +147,16 @@ impl<'a> Counter<'a> {
                 chain: Vec::new(),
             },
         }
+    }
+
+    /// `this` block in front of the chain `inner` nested in it, when describing.
+    fn chain(&self, inner: Vec<String>, this: impl FnOnce() -> String) -> Vec<String> {
+        if !self.describe {
+            return Vec::new();
+        }
+        let mut chain = vec![this()];
+        chain.extend(inner);
+        chain
     }
 
     /// A whole, positive count argument (named, or the first positional one when

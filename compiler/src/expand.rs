@@ -11,6 +11,8 @@
 // split the element API.
 #![allow(clippy::result_large_err)]
 
+mod previous;
+
 use crate::budget::{over_budget, Counter};
 use crate::diagnostic::{did_you_mean, Diagnostic};
 use crate::eval::{Evaluator, NameKinds};
@@ -123,7 +125,8 @@ pub fn check_budget(
         q.filter(|q| q.dim == Dim::NONE).map(|q| q.value)
     };
     let networks = HashMap::new();
-    let mut counter = Counter::new(&networks, &mut count);
+    // Called once per model, so the nesting is named as it is counted.
+    let mut counter = Counter::new(&networks, &mut count).describing();
     let mut made: u64 = 0;
     for item in modules.iter().flat_map(|m| &m.items) {
         let size = counter.item(item, MAX_DEPTH);
@@ -183,6 +186,9 @@ impl Expander<'_> {
         let size = Counter::new(&self.bodies_of, &mut count).item(item, MAX_DEPTH - depth);
         let fits = self.made.saturating_add(size.total) <= self.budget;
         if !fits {
+            let size = Counter::new(&self.bodies_of, &mut count)
+                .describing()
+                .item(item, MAX_DEPTH - depth);
             let (what, span) = match &item.kind {
                 ItemKind::Repeat { name, .. } => ("`repeat`", name.span),
                 ItemKind::Use { name, .. } => ("`use`", name.span),
@@ -243,7 +249,13 @@ impl Expander<'_> {
                             };
                             let copy: Vec<Item> =
                                 body.iter().map(|b| r.item(b, &mut self.diags)).collect();
+                            let before = self.made;
                             out.extend(self.items(&copy, depth + 1));
+                            // Counted as the size count counts it: a copy that made nothing
+                            // counts one (see `budget::Counter`).
+                            if self.made == before {
+                                self.made += 1;
+                            }
                         }
                     }
                 }
@@ -380,7 +392,7 @@ impl Expander<'_> {
             );
             return None;
         }
-        let uses_previous = body_mentions_previous(body);
+        let uses_previous = previous::mentions_previous(body);
         if uses_previous && first.is_none() {
             self.diags.push(
                 Diagnostic::error("E203", format!("`repeat {}` uses `previous`, which copy 1 does not have", name.name), name.span)
@@ -558,12 +570,6 @@ fn declared(body: &[Item]) -> HashSet<String> {
     body.iter()
         .filter_map(|i| i.name().map(|n| n.name.clone()))
         .collect()
-}
-
-fn body_mentions_previous(body: &[Item]) -> bool {
-    // Cheap and sufficient: the serialised tree names `previous.` only where the analyst wrote it.
-    body.iter()
-        .any(|i| serde_json::to_string(i).is_ok_and(|s| s.contains("\"previous.")))
 }
 
 /// Renames one copy of a body.

@@ -37,6 +37,7 @@ pub mod symbols;
 pub mod syntax;
 pub mod transient;
 pub mod units;
+pub mod vocabulary;
 
 pub use analysis::{analyze, Analysis, Options};
 pub use diagnostic::{Diagnostic, Severity};

@@ -66,6 +66,11 @@ pub struct SymbolTable {
     /// scanning fallback.
     #[serde(skip)]
     index: HashMap<String, usize>,
+    /// How many symbols went through [`SymbolTable::push`]. While that is all of them the
+    /// index is complete and a name it lacks is unknown without a scan: an unknown name in
+    /// each of 10 000 copies of a `repeat` would otherwise scan the whole table each time.
+    #[serde(skip)]
+    pushed: usize,
 }
 
 impl SymbolTable {
@@ -76,10 +81,12 @@ impl SymbolTable {
                 .or_insert(self.symbols.len());
         }
         self.symbols.push(symbol);
+        self.pushed += 1;
     }
     fn position(&self, name: &str) -> Option<usize> {
         match self.index.get(name) {
             Some(&i) => Some(i),
+            None if self.pushed == self.symbols.len() => None,
             None => self
                 .symbols
                 .iter()
@@ -117,5 +124,35 @@ impl SymbolTable {
             .iter()
             .filter(move |s| s.kind == kind)
             .map(|s| s.name.as_str())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::span::FileId;
+
+    fn symbol(name: &str) -> Symbol {
+        let span = Span::new(FileId(0), 0, 1);
+        Symbol {
+            name: name.to_string(),
+            kind: SymbolKind::Node,
+            def: span,
+            decl: span,
+            refs: Vec::new(),
+            parent: None,
+        }
+    }
+
+    #[test]
+    fn finds_symbols_pushed_either_way() {
+        let mut t = SymbolTable::default();
+        t.push(symbol("room"));
+        assert!(t.get("room").is_some());
+        assert!(t.get("attic").is_none());
+        // Pushed past the index: found by the scan.
+        t.symbols.push(symbol("attic"));
+        assert_eq!(t.get("attic").map(|s| s.name.as_str()), Some("attic"));
+        assert!(t.get("cellar").is_none());
     }
 }

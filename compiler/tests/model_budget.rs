@@ -239,3 +239,39 @@ fn uses_of_a_missing_network_count_and_cycles_are_never_expanded() {
     );
     assert!(start.elapsed().as_secs() < 20);
 }
+
+#[test]
+fn copies_of_an_empty_body_count_one_each() {
+    // 10^10 copies that make nothing: counted as nothing they were all expanded, for ever.
+    let src = format!(
+        "{ENDS}repeat outer (count = 100000) {{\n  repeat inner (count = 100000) {{\n  }}\n}}\n"
+    );
+    let start = Instant::now();
+    let a = run(&src);
+    let errs = errors(&a);
+    assert_eq!(errs.len(), 1, "{errs:?}");
+    assert_eq!(errs[0].0, "E220");
+    assert!(
+        errs[0].1.contains("would make 10 000 000 000"),
+        "{}",
+        errs[0].1
+    );
+    assert!(start.elapsed().as_secs() < 20);
+
+    // Exactly so: 1 500 copies, each a chain of two repeats of one empty copy (one each), and
+    // the two end nodes fit a budget of 1 502, not one of 1 501.
+    let src = format!(
+        "{ENDS}repeat outer (count = 1500) {{\n  repeat a (count = 1) {{\n    repeat b (count = 1) {{\n    }}\n  }}\n}}\n"
+    );
+    for (budget, fits) in [(1_502, true), (1_501, false)] {
+        let a = run_with(
+            &src,
+            &Options {
+                size_budget: Some(budget),
+                ..Options::default()
+            },
+        );
+        let codes: Vec<&str> = errors(&a).iter().map(|e| e.0).collect();
+        assert_eq!(codes.is_empty(), fits, "budget {budget}: {codes:?}");
+    }
+}

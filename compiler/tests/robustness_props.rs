@@ -17,9 +17,11 @@ use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::source::NoImports;
 use caloris_compiler::span::FileId;
 use caloris_compiler::syntax::{Item, ItemKind};
+use caloris_compiler::vocabulary;
 use caloris_compiler::{analyze, Diagnostic, Options};
 use proptest::prelude::*;
 use std::path::PathBuf;
+use std::sync::OnceLock;
 
 /// Every diagnostic span in the text `text` (file 0) lies inside it, on character boundaries.
 fn assert_diagnostic_spans(text: &str, diags: &[Diagnostic]) {
@@ -112,51 +114,10 @@ fn assert_fixed_point(text: &str) {
     }
 }
 
-/// Words and marks of the language, numbers with units, names and layout. Counts stay small
-/// so that repetitions cannot multiply into sizes this test does not mean to measure.
-const VOCAB: &[&str] = &[
-    "title",
-    "import",
-    "param",
-    "material",
-    "node",
-    "link",
-    "buildup",
-    "limit",
-    "to",
-    "repeat",
-    "network",
-    "use",
-    "transient",
-    "case",
-    "region",
-    "schedule",
-    "capacity",
-    "initial",
-    "fixed",
-    "load",
-    "duration",
-    "step",
-    "output",
-    "table",
-    "count",
-    "k",
-    "h",
-    "r",
-    "area",
-    "thickness",
-    "layer",
-    "film",
-    "contact",
-    "cylinder",
-    "sphere",
-    "radiation",
-    "fin",
-    "temperature",
-    "heat_flow",
-    "sqrt",
-    "min",
-    "pi",
+/// Marks of the language, numbers with units, names and layout, to go with its words
+/// (`caloris_compiler::vocabulary`). Counts stay small so that repetitions cannot multiply into
+/// sizes this test does not mean to measure.
+const MARKS: &[&str] = &[
     "a",
     "b",
     "room",
@@ -233,11 +194,21 @@ const VOCAB: &[&str] = &[
     "u_value",
 ];
 
+/// The language's words and [`MARKS`]: what token sequences are made of.
+fn vocab() -> &'static [&'static str] {
+    static VOCAB: OnceLock<Vec<&'static str>> = OnceLock::new();
+    VOCAB.get_or_init(|| {
+        let mut v = vocabulary::words();
+        v.extend(MARKS);
+        v
+    })
+}
+
 fn token_text() -> impl Strategy<Value = String> {
-    prop::collection::vec((0..VOCAB.len(), 0..4u8), 0..120).prop_map(|toks| {
+    prop::collection::vec((0..vocab().len(), 0..4u8), 0..120).prop_map(|toks| {
         let mut s = String::new();
         for (i, sep) in toks {
-            s.push_str(VOCAB[i]);
+            s.push_str(vocab()[i]);
             s.push_str(["", " ", " ", "\n"][sep as usize]);
         }
         s
@@ -284,9 +255,9 @@ const LINES: &[&str] = &[
 ];
 
 /// Lines drawn from [`LINES`], three in eight of them broken: cut short before a token, a token
-/// dropped, or a word of [`VOCAB`] put in before a token.
+/// dropped, or a word of [`vocab`] put in before a token.
 fn broken_lines() -> impl Strategy<Value = String> {
-    let line = (0..LINES.len(), 0..8u8, any::<usize>(), 0..VOCAB.len());
+    let line = (0..LINES.len(), 0..8u8, any::<usize>(), 0..vocab().len());
     prop::collection::vec(line, 0..40).prop_map(|lines| {
         let mut s = String::new();
         for (i, how, at, word) in lines {
@@ -301,7 +272,7 @@ fn broken_lines() -> impl Strategy<Value = String> {
             match how {
                 0 => s.push_str(&line[..a]),
                 1 => s.push_str(&format!("{}{}", &line[..a], &line[b..])),
-                2 => s.push_str(&format!("{}{} {}", &line[..a], VOCAB[word], &line[a..])),
+                2 => s.push_str(&format!("{}{} {}", &line[..a], vocab()[word], &line[a..])),
                 _ => s.push_str(line),
             }
             s.push('\n');
@@ -353,7 +324,7 @@ const NUMBERS: &[&str] = &[
 fn edit(text: &str, n: usize, what: u8, word: usize) -> String {
     let toks = lex(text, FileId(0));
     if toks.is_empty() {
-        return VOCAB[word].to_string();
+        return vocab()[word].to_string();
     }
     let i = n % toks.len();
     let t = toks[i];
@@ -363,7 +334,7 @@ fn edit(text: &str, n: usize, what: u8, word: usize) -> String {
     match what % 8 {
         0 => format!("{}{}", &text[..s], &text[e..]),
         1 => format!("{}{}", &text[..e], &text[s..]),
-        2 => format!("{}{} {}", &text[..s], VOCAB[word], &text[s..]),
+        2 => format!("{}{} {}", &text[..s], vocab()[word], &text[s..]),
         3 => match toks.get(i + 1) {
             Some(u) => {
                 let (us, ue) = (u.span.start as usize, u.span.end as usize);
@@ -443,7 +414,7 @@ proptest! {
     #[test]
     fn edited_examples_never_panic_and_format_to_a_fixed_point(
         which in 0usize..64,
-        edits in prop::collection::vec((any::<usize>(), any::<u8>(), 0..VOCAB.len()), 1..5),
+        edits in prop::collection::vec((any::<usize>(), any::<u8>(), 0..vocab().len()), 1..5),
     ) {
         let all = examples();
         let mut text = all[which % all.len()].clone();

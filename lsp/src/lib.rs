@@ -53,5 +53,9 @@ pub fn run_stdio() -> std::io::Result<()> {
         .thread_stack_size(8 * 1024 * 1024)
         .build()?;
     runtime.block_on(serve(tokio::io::stdin(), tokio::io::stdout()));
+    // The client has gone (`exit`, or its end of the pipes closed). An analysis still running
+    // on a blocking thread has no one to report to, and dropping the runtime would wait for it
+    // (a large model takes seconds to minutes): leave it to end with the process.
+    runtime.shutdown_background();
     Ok(())
 }

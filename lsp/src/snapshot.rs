@@ -68,20 +68,28 @@ impl Snapshot {
         check_only: bool,
         cancel: Option<Arc<AtomicBool>>,
     ) -> Snapshot {
+        let options = Options {
+            check_only,
+            cancel,
+            ..Options::default()
+        };
+        Snapshot::analyze_options(uri, version, text, loader, &options)
+    }
+
+    /// Analyse `text` as the document `uri` with the compiler's options as given (the check
+    /// alone when `options.check_only`).
+    pub fn analyze_options(
+        uri: Uri,
+        version: i32,
+        text: &str,
+        loader: &DocLoader,
+        options: &Options,
+    ) -> Snapshot {
         let name = uri_path(&uri)
             .map(|p| p.display().to_string())
             .unwrap_or_else(|| uri.as_str().to_string());
-        let analysis = analyze(
-            &name,
-            text,
-            loader,
-            &Options {
-                check_only,
-                cancel,
-                ..Options::default()
-            },
-        );
-        let stage = if check_only && !analysis.has_errors() {
+        let analysis = analyze(&name, text, loader, options);
+        let stage = if options.check_only && !analysis.has_errors() {
             Stage::Checked
         } else {
             Stage::Final
@@ -99,7 +107,8 @@ impl Snapshot {
     /// document then gets a final snapshot with an internal-error diagnostic ([`INTERNAL_ERROR`])
     /// — holding the check of the text when only the solve failed, so names and hover keep
     /// working, or else the bare text. Call it on a thread with the analysis stack
-    /// ([`crate::isolate::on_analysis_thread`]).
+    /// ([`crate::isolate::on_analysis_thread`]). `size_budget` replaces the compiler's model
+    /// size budget when given.
     pub fn analyze_safely(
         uri: Uri,
         version: i32,
@@ -107,9 +116,16 @@ impl Snapshot {
         loader: &DocLoader,
         check_only: bool,
         cancel: Option<Arc<AtomicBool>>,
+        size_budget: Option<u64>,
     ) -> Snapshot {
         Snapshot::analyze_with(uri, version, text, check_only, &|uri, check| {
-            Snapshot::analyze_until(uri, version, text, loader, check, cancel.clone())
+            let options = Options {
+                check_only: check,
+                cancel: cancel.clone(),
+                size_budget,
+                ..Options::default()
+            };
+            Snapshot::analyze_options(uri, version, text, loader, &options)
         })
     }
 

@@ -26,6 +26,7 @@ async fn analyze(
     jobs: &watch::Receiver<Job>,
     loader: DocLoader,
     check_only: bool,
+    size_budget: Option<u64>,
 ) -> Option<(Arc<Snapshot>, Vec<lsp::Diagnostic>)> {
     let (uri2, text, version) = (uri.clone(), job.text.clone(), job.version);
     // A newer edit stops this analysis where the compiler next looks (between expansions,
@@ -35,8 +36,15 @@ async fn analyze(
     // internal-error diagnostic of this document (see `Snapshot::analyze_safely`).
     let done = tokio::task::spawn_blocking(move || {
         on_analysis_thread(|| {
-            let snap =
-                Snapshot::analyze_safely(uri2, version, &text, &loader, check_only, Some(cancel));
+            let snap = Snapshot::analyze_safely(
+                uri2,
+                version,
+                &text,
+                &loader,
+                check_only,
+                Some(cancel),
+                size_budget,
+            );
             let diags = diagnostics::to_lsp(&snap);
             (Arc::new(snap), diags)
         })
@@ -99,7 +107,9 @@ pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::R
             return;
         }
         let loader = state.docs.loader();
-        let Some((check, diags)) = analyze(&client, &uri, &job, &jobs, loader.clone(), true).await
+        let budget = state.settings().size_budget;
+        let Some((check, diags)) =
+            analyze(&client, &uri, &job, &jobs, loader.clone(), true, budget).await
         else {
             continue;
         };
@@ -128,7 +138,8 @@ pub async fn run(state: Arc<State>, client: Client, uri: Uri, mut jobs: watch::R
                 continue;
             }
         }
-        let Some((full, full_diags)) = analyze(&client, &uri, &job, &jobs, loader, false).await
+        let Some((full, full_diags)) =
+            analyze(&client, &uri, &job, &jobs, loader, false, budget).await
         else {
             continue;
         };

@@ -8,26 +8,10 @@ mod support;
 use serde_json::{json, Value};
 use std::time::Duration;
 use support::client::position_of;
-use support::fixture::CABIN;
+use support::fixture::{ScratchProject, CABIN};
 use support::in_process::start;
 
 const T: Duration = Duration::from_secs(30);
-
-/// A project folder in the temp directory, removed when dropped.
-struct Project(std::path::PathBuf);
-
-impl Drop for Project {
-    fn drop(&mut self) {
-        let _ = std::fs::remove_dir_all(&self.0);
-    }
-}
-
-fn temp_dir(name: &str) -> std::path::PathBuf {
-    let d = std::env::temp_dir().join(format!("caloris-lsp-{name}-{}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&d);
-    std::fs::create_dir_all(d.join(".git")).expect("temp dir");
-    d
-}
 
 fn file_uri(p: &std::path::Path) -> String {
     format!("file://{}", p.display())
@@ -44,13 +28,12 @@ fn codes(diags: &Value) -> Vec<String> {
 
 const LIB: &str = "material wood_fibre (k = 0.040 W/(m*K))\nmaterial spruce (k = 0.12 W/(m*K))\n";
 
-fn cabin_project(name: &str) -> (Project, String, String) {
-    let dir = temp_dir(name);
-    std::fs::write(dir.join("materials.heat"), LIB).expect("write lib");
-    std::fs::write(dir.join("model.heat"), CABIN).expect("write model");
-    let root = file_uri(&dir);
-    let model = file_uri(&dir.join("model.heat"));
-    (Project(dir), root, model)
+fn cabin_project(name: &str) -> (ScratchProject, String, String) {
+    let project = ScratchProject::new(&format!("lsp-{name}"));
+    std::fs::write(project.dir.join("materials.heat"), LIB).expect("write lib");
+    std::fs::write(project.dir.join("model.heat"), CABIN).expect("write model");
+    let (root, model) = (project.root_uri(), project.uri("model.heat"));
+    (project, root, model)
 }
 
 #[test]
@@ -186,7 +169,7 @@ fn closing_clears_diagnostics() {
 #[test]
 fn editing_an_imported_file_in_another_buffer_updates_the_importer() {
     let (dir, root, model) = cabin_project("imports");
-    let lib = file_uri(&dir.0.join("materials.heat"));
+    let lib = file_uri(&dir.dir.join("materials.heat"));
     let mut c = start();
     c.initialize(&root);
     c.open(&model, 1, CABIN);

@@ -6,33 +6,12 @@ mod support;
 
 use serde_json::{json, Value};
 use std::collections::BTreeSet;
-use std::path::{Path, PathBuf};
 use std::time::Duration;
+use support::corpus::{expected_errors, reliability_cases};
 use support::in_process::start;
 
 /// Far above what any of these takes; only a hang comes near it.
 const T: Duration = Duration::from_secs(60);
-
-fn cases() -> Vec<PathBuf> {
-    let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/cases/reliability");
-    let mut files: Vec<PathBuf> = std::fs::read_dir(dir)
-        .expect("reliability cases")
-        .flatten()
-        .map(|e| e.path())
-        .filter(|p| p.extension().is_some_and(|x| x == "heat"))
-        .collect();
-    files.sort();
-    assert!(files.len() >= 20, "the reliability corpus is in place");
-    files
-}
-
-fn expected_errors(text: &str) -> BTreeSet<String> {
-    text.lines()
-        .filter_map(|l| l.strip_prefix("# expect: error "))
-        .filter_map(|rest| rest.split_whitespace().next())
-        .map(str::to_string)
-        .collect()
-}
 
 fn error_codes(diags: &Value) -> BTreeSet<String> {
     diags
@@ -53,7 +32,7 @@ fn every_reproducer_gets_its_expected_errors_and_the_server_keeps_serving() {
     let mut c = start();
     c.initialize(&root);
     let mut failures = Vec::new();
-    for file in cases() {
+    for file in reliability_cases() {
         let name = file
             .file_name()
             .unwrap_or_default()

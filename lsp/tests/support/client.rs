@@ -148,13 +148,18 @@ impl RpcClient {
 
     /// `initialize` + `initialized`, with a workspace folder and inlay-hint refresh support.
     pub fn initialize(&mut self, root_uri: &str) -> Value {
+        self.initialize_with(root_uri, Value::Null)
+    }
+
+    /// [`RpcClient::initialize`] with `initializationOptions` (the server's settings).
+    pub fn initialize_with(&mut self, root_uri: &str, options: Value) -> Value {
         let caps = json!({
             "workspace": {"inlayHint": {"refreshSupport": true}, "configuration": false},
             "textDocument": {"publishDiagnostics": {"relatedInformation": true, "versionSupport": true}}
         });
         let result = self.request(
             "initialize",
-            json!({"processId": null, "rootUri": root_uri, "capabilities": caps, "workspaceFolders": [{"uri": root_uri, "name": "root"}]}),
+            json!({"processId": null, "rootUri": root_uri, "capabilities": caps, "workspaceFolders": [{"uri": root_uri, "name": "root"}], "initializationOptions": options}),
         );
         self.notify("initialized", json!({}));
         result

@@ -154,17 +154,24 @@ pub fn apply(edit: &WorkspaceEdit, texts: &[(&str, &str)]) -> String {
             .find(|t| t.0 == name)
             .map(|t| t.1)
             .unwrap_or_else(|| panic!("no text for {name}"));
-        let mut edits = edits.clone();
-        edits.sort_by_key(|e| (e.range.start.line, e.range.start.character));
-        let mut result = text.to_string();
-        for e in edits.iter().rev() {
-            let start = offset(&result, e.range.start);
-            let end = offset(&result, e.range.end);
-            result.replace_range(start..end, &e.new_text);
-        }
+        let result = apply_edits(text, edits);
         out.push_str(&format!("--- {name} ({} edits)\n{result}", edits.len()));
     }
     out
+}
+
+/// `text` with `edits` made, their ranges read in the original text (as the protocol has
+/// them), last first.
+pub fn apply_edits(text: &str, edits: &[lsp::TextEdit]) -> String {
+    let mut edits = edits.to_vec();
+    edits.sort_by_key(|e| (e.range.start.line, e.range.start.character));
+    let mut result = text.to_string();
+    for e in edits.iter().rev() {
+        let start = offset(&result, e.range.start);
+        let end = offset(&result, e.range.end);
+        result.replace_range(start..end, &e.new_text);
+    }
+    result
 }
 
 fn offset(text: &str, p: Position) -> usize {
@@ -202,4 +209,37 @@ pub fn outline(list: &[lsp::DocumentSymbol]) -> String {
     let mut out = String::new();
     walk(list, 0, &mut out);
     out
+}
+
+/// A project folder in the temp directory for a server that reads files: marked as a project
+/// root by `.git`, holding [`MATERIALS`] as `materials.heat`, removed when dropped.
+pub struct ScratchProject {
+    pub dir: PathBuf,
+}
+
+impl ScratchProject {
+    /// `caloris-NAME-PID` in the temp directory, empty but for the library.
+    pub fn new(name: &str) -> ScratchProject {
+        let dir = std::env::temp_dir().join(format!("caloris-{name}-{}", std::process::id()));
+        let _ = std::fs::remove_dir_all(&dir);
+        std::fs::create_dir_all(dir.join(".git")).expect("project folder");
+        std::fs::write(dir.join("materials.heat"), MATERIALS).expect("material library");
+        ScratchProject { dir }
+    }
+
+    /// The folder's URI, for `initialize`.
+    pub fn root_uri(&self) -> String {
+        format!("file://{}", self.dir.display())
+    }
+
+    /// The URI of `file` in the folder.
+    pub fn uri(&self, file: &str) -> String {
+        format!("file://{}", self.dir.join(file).display())
+    }
+}
+
+impl Drop for ScratchProject {
+    fn drop(&mut self) {
+        let _ = std::fs::remove_dir_all(&self.dir);
+    }
 }

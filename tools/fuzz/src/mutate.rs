@@ -4,85 +4,15 @@
 use crate::rng::Rng;
 use caloris_compiler::lexer::{lex, Tok, Token};
 use caloris_compiler::span::FileId;
+use caloris_compiler::vocabulary;
 
 /// Mutated inputs are kept below this size (unless told otherwise) so one input cannot take a
 /// campaign's memory.
 pub const MAX_INPUT_BYTES: usize = 256 * 1024;
 
-/// Words of the language that a seed may not contain.
-const WORDS: &[&str] = &[
-    "title",
-    "import",
-    "param",
-    "material",
-    "node",
-    "link",
-    "buildup",
-    "limit",
-    "to",
-    "repeat",
-    "network",
-    "use",
-    "transient",
-    "case",
-    "region",
-    "schedule",
-    "capacity",
-    "initial",
-    "fixed",
-    "load",
-    "duration",
-    "step",
-    "output",
-    "tolerance",
-    "start",
-    "count",
-    "table",
-    "sqrt",
-    "ln",
-    "exp",
-    "abs",
-    "min",
-    "max",
-    "pi",
-    "temperature",
-    "heat_flow",
-    "u_value",
-    "resistance",
-    "layer",
-    "film",
-    "contact",
-    "conductance",
-    "cylinder",
-    "sphere",
-    "radiation",
-    "buried_pipe",
-    "fin",
-    "heated_slab",
-    "heated_rod",
-    "area",
-    "thickness",
-    "k",
-    "h",
-    "r",
-    "length",
-    "inner_radius",
-    "emissivity",
-    "cells_x",
-    "cells_y",
-    "width",
-    "height",
-    "left",
-    "right",
-    "top",
-    "bottom",
-    "i",
-    "index",
-    "\"caloris:materials\"",
-    "\"other.heat\"",
-    "\"\"",
-    "\"é°\"",
-];
+/// Besides the language's words (`caloris_compiler::vocabulary`), which a seed may not
+/// contain: import paths and string literals the seeds do not have.
+const STRINGS: &[&str] = &["\"caloris:materials\"", "\"other.heat\"", "\"\"", "\"é°\""];
 
 const NUMBERS: &[&str] = &[
     "0",
@@ -184,10 +114,14 @@ pub struct Mutator {
 }
 
 impl Mutator {
-    /// A mutator whose dictionary holds the language's words and every name and line of the
-    /// seeds.
+    /// A mutator whose dictionary holds the language's words, a few strings and every name and
+    /// line of the seeds.
     pub fn new<'a>(seeds: impl IntoIterator<Item = &'a str>) -> Mutator {
-        let mut words: Vec<String> = WORDS.iter().map(|w| w.to_string()).collect();
+        let mut words: Vec<String> = vocabulary::words()
+            .into_iter()
+            .chain(STRINGS.iter().copied())
+            .map(str::to_string)
+            .collect();
         let mut lines = Vec::new();
         for text in seeds {
             for t in lex(text, FileId(0)) {
