@@ -28,14 +28,13 @@ pub const PORT_SEP: &str = "`,` or `)` after a port name";
 /// place to show.
 const CLOSERS: &[&str] = &[ARG_SEP, CALL_SEP, BRACKET_CLOSE, PORT_SEP];
 
-const MAX_LABELS: usize = 2;
-
 #[derive(Clone, Debug)]
 pub enum PErr {
     Expected {
         span: Span,
         found: Option<Tk>,
-        labels: [Option<&'static str>; MAX_LABELS],
+        /// What was expected here; one per error, the one a person would name (see `merge`).
+        label: Option<&'static str>,
         /// Set by a labelled site; such an error wins over unlabelled ones at the same token.
         labelled: bool,
         /// The input ended at the end of a line (a table row), not of the file.
@@ -68,35 +67,27 @@ impl PErr {
         found: Option<Tk>,
         labels: impl IntoIterator<Item = &'static str>,
     ) -> PErr {
-        let mut out = [None; MAX_LABELS];
-        let mut n = 0;
-        for l in labels {
-            if n < MAX_LABELS && !out[..n].contains(&Some(l)) {
-                out[n] = Some(l);
-                n += 1;
-            }
-        }
         PErr::Expected {
             span,
             found,
-            labels: out,
+            label: labels.into_iter().next(),
             labelled: false,
             line_end: false,
         }
     }
 
     pub fn into_diagnostic(self, cx: &Cx) -> Diagnostic {
-        let (span, found, labels, line_end) = match self {
+        let (span, found, label, line_end) = match self {
             PErr::Custom(d) => return *d,
             PErr::Expected {
                 span,
                 found,
-                labels,
+                label,
                 line_end,
                 ..
-            } => (span, found, labels, line_end),
+            } => (span, found, label, line_end),
         };
-        let labels: Vec<&str> = labels.iter().flatten().copied().collect();
+        let labels: Vec<&str> = label.into_iter().collect();
         let expected = match labels.as_slice() {
             [] => "something else".to_string(),
             [one] => one.to_string(),
@@ -212,26 +203,27 @@ impl<'s> chumsky::error::Error<'s, In<'s>> for PErr {
             // Of two labelled expectations at one token, the one tried first is the more
             // specific: `(,)` wants a value before it wants a separator.
             (a @ PErr::Expected { labelled: true, .. }, PErr::Expected { .. }) => a,
+            // Two raw token expectations: keep one that names something.
             (
                 PErr::Expected {
-                    labels: la,
+                    label: la,
                     labelled: false,
                     ..
                 },
                 PErr::Expected {
                     span,
                     found,
-                    labels: lb,
+                    label: lb,
                     labelled: false,
                     line_end,
                 },
-            ) => {
-                let mut merged = PErr::expected(span, found, la.into_iter().chain(lb).flatten());
-                if let PErr::Expected { line_end: l, .. } = &mut merged {
-                    *l = line_end;
-                }
-                merged
-            }
+            ) => PErr::Expected {
+                span,
+                found,
+                label: lb.or(la),
+                labelled: false,
+                line_end,
+            },
             (_, b) => b,
         }
     }
@@ -248,10 +240,10 @@ impl<'s> LabelError<'s, In<'s>, &'static str> for PErr {
 
     fn label_with(&mut self, label: &'static str) {
         if let PErr::Expected {
-            labels, labelled, ..
+            label: l, labelled, ..
         } = self
         {
-            *labels = [Some(label), None];
+            *l = Some(label);
             *labelled = true;
         }
     }

@@ -87,7 +87,7 @@ pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
     let mut comments = Vec::new();
     // One vector, filled straight from the lexer and then annotated in place: the token list
     // is the parser's largest allocation after the tree (a 17 MB model has 3.4 million).
-    let mut out: Vec<(Tk, Span)> = Vec::with_capacity(text.len() / 5);
+    let mut out: Vec<(Tk, Span)> = Vec::with_capacity(text.len() / 6);
     let mut prev_end = 0usize;
     for t in tokens(text, file) {
         if t.kind == Tok::Comment {
@@ -152,7 +152,6 @@ pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
             t.misspelt = misspelt_word(&text[span.range()]);
         }
     }
-    out.shrink_to_fit();
     (out, comments)
 }
 
