@@ -6,7 +6,7 @@
 use crate::diagnostic::{did_you_mean, Diagnostic};
 use crate::span::Span;
 use crate::syntax::{BinOp, Expr, ExprKind, Ident};
-use crate::units::{parse_unit, Dim, Quantity, TempKind};
+use crate::units::{parse_unit, Dim, Quantity, TempKind, Unit, UnitError};
 use rustc_hash::FxHashMap;
 
 /// What a name in an expression may refer to besides a parameter, for helpful errors.
@@ -32,6 +32,9 @@ pub struct Evaluator<'a> {
     stack: Vec<&'a Ident>,
     /// Overrides of parameter values (studies, cases).
     overrides: FxHashMap<String, Quantity>,
+    /// Each distinct unit spelling parsed once: a model repeats a handful of spellings
+    /// (`1 cm^2`, `W/(m*K)`) on every one of its links.
+    units: FxHashMap<String, Result<Unit, UnitError>>,
     pub diags: Vec<Diagnostic>,
     /// Spans of every parameter reference, for navigation.
     pub references: Vec<(String, Span)>,
@@ -56,6 +59,7 @@ impl<'a> Evaluator<'a> {
             state,
             stack: Vec::new(),
             overrides: FxHashMap::default(),
+            units: FxHashMap::default(),
             diags: Vec::new(),
             references: Vec::new(),
         }
@@ -244,9 +248,13 @@ impl<'a> Evaluator<'a> {
                 kind: TempKind::NotTemperature,
             });
         };
-        match parse_unit(text) {
+        if !self.units.contains_key(text.as_str()) {
+            self.units.insert(text.clone(), parse_unit(text));
+        }
+        match &self.units[text.as_str()] {
             Ok(u) => Some(u.to_si(value)),
             Err(err) => {
+                let err = err.clone();
                 let at = Span {
                     start: uspan.start + err.start as u32,
                     end: uspan.start + err.end as u32,
