@@ -10,7 +10,7 @@
 use crate::diagnostic::Diagnostic;
 use crate::span::Span;
 use crate::syntax::{Arg, Expr, Item, ItemKind};
-use std::collections::HashMap;
+use rustc_hash::FxHashMap;
 
 /// Most declarations plus region cells one model may make after expansion. Millions of nodes
 /// are legitimate models; 10¹⁰ are a typing slip. Sized so that a model at the budget still
@@ -29,9 +29,9 @@ pub struct Size {
 /// number where it can (a count that depends on a copy's `index` cannot be known before the
 /// copy exists; it counts as 1 here and is checked again when the copy is expanded).
 pub struct Counter<'a> {
-    pub networks: &'a HashMap<String, &'a [Item]>,
+    pub networks: &'a FxHashMap<String, &'a [Item]>,
     pub count: &'a mut dyn FnMut(&Expr) -> Option<f64>,
-    memo: HashMap<String, Size>,
+    memo: FxHashMap<String, Size>,
     /// Whether to name the nesting in [`Size::chain`]. Only a refused block's message needs
     /// it, and the expander counts every nested block once per copy of what encloses it, so
     /// the names are left out of the counts that fit (see [`Counter::describing`]).
@@ -40,13 +40,13 @@ pub struct Counter<'a> {
 
 impl<'a> Counter<'a> {
     pub fn new(
-        networks: &'a HashMap<String, &'a [Item]>,
+        networks: &'a FxHashMap<String, &'a [Item]>,
         count: &'a mut dyn FnMut(&Expr) -> Option<f64>,
     ) -> Self {
         Counter {
             networks,
             count,
-            memo: HashMap::new(),
+            memo: FxHashMap::default(),
             describe: false,
         }
     }

@@ -16,7 +16,7 @@ use crate::source::Sources;
 use crate::span::Span;
 use crate::symbols::{Symbol, SymbolKind, SymbolTable};
 use crate::syntax::*;
-use std::collections::HashMap;
+use rustc_hash::FxHashMap;
 
 mod args;
 mod materials;
@@ -80,7 +80,7 @@ pub fn elaborate(
         }
     }
     // 1. Names.
-    let mut by_name: HashMap<&str, &Item> = HashMap::new();
+    let mut by_name: FxHashMap<&str, &Item> = FxHashMap::default();
     for item in &items {
         if let ItemKind::Title { text } = &item.kind {
             title = Some(text.clone());
@@ -117,7 +117,7 @@ pub fn elaborate(
             parent: None,
         });
         if let ItemKind::Buildup { elements, .. } = &item.kind {
-            let mut seen: HashMap<&str, Span> = HashMap::new();
+            let mut seen: FxHashMap<&str, Span> = FxHashMap::default();
             for e in elements {
                 if let Some(prev) = seen.insert(&e.name.name, e.name.span) {
                     diags.push(
@@ -162,7 +162,7 @@ pub fn elaborate(
         sources,
         diags,
         materials: Vec::new(),
-        material_index: HashMap::new(),
+        material_index: FxHashMap::default(),
         timed: Default::default(),
         owner: String::new(),
     };
@@ -207,7 +207,7 @@ pub fn elaborate(
     }
 
     // 5. Links: create generated interface nodes first so any link may end on one.
-    let buildups: HashMap<&str, &Vec<BuildupElement>> = items
+    let buildups: FxHashMap<&str, &Vec<BuildupElement>> = items
         .iter()
         .filter_map(|i| match &i.kind {
             ItemKind::Buildup { name, elements } => Some((name.name.as_str(), elements)),
@@ -261,7 +261,7 @@ pub fn elaborate(
             }
         }
     }
-    let node_index: HashMap<String, NodeId> = net
+    let node_index: FxHashMap<String, NodeId> = net
         .nodes
         .iter()
         .enumerate()
@@ -368,7 +368,7 @@ pub fn elaborate(
     cx.owner.clear();
     // Links made without element arguments of their own (a region's cells, the parts an
     // element generates) are checked here, once per declaration.
-    let mut reported = std::collections::HashSet::new();
+    let mut reported = rustc_hash::FxHashSet::default();
     for l in &net.links {
         if let Some(d) = value_range::link_error(l) {
             if reported.insert(l.span) {
@@ -491,7 +491,7 @@ struct Cx<'a> {
     sources: &'a Sources,
     diags: Vec<Diagnostic>,
     materials: Vec<Material>,
-    material_index: HashMap<String, usize>,
+    material_index: FxHashMap<String, usize>,
     timed: transient_decls::Timed,
     /// What the arguments being checked belong to (`` `film` ``, ``node `room` ``), for
     /// messages about values out of range; empty outside a declaration.
@@ -602,10 +602,10 @@ impl<'a> Cx<'a> {
         plan: &mut region::Plan,
         edges: &[RegionEdge],
         net: &mut Network,
-        index: &HashMap<String, NodeId>,
-        buildups: &HashMap<&str, &Vec<BuildupElement>>,
+        index: &FxHashMap<String, NodeId>,
+        buildups: &FxHashMap<&str, &Vec<BuildupElement>>,
     ) {
-        let mut seen: HashMap<&str, Span> = HashMap::new();
+        let mut seen: FxHashMap<&str, Span> = FxHashMap::default();
         for e in edges {
             let sides: Vec<&'static str> = schema::REGION_SIDES.iter().map(|s| s.0).collect();
             if !sides.contains(&e.side.name.as_str()) {
@@ -654,11 +654,11 @@ impl<'a> Cx<'a> {
         }
     }
 
-    fn unknown_kind(&mut self, kind: &Ident, buildups: &HashMap<&str, &Vec<BuildupElement>>) {
+    fn unknown_kind(&mut self, kind: &Ident, buildups: &FxHashMap<&str, &Vec<BuildupElement>>) {
         let names: Vec<&str> = elements::ALL
             .iter()
             .map(|k| k.name())
-            .chain(buildups.keys().copied())
+            .chain(sorted(buildups.keys().copied()))
             .collect();
         let mut d = Diagnostic::error(
             "E206",
@@ -685,8 +685,8 @@ impl<'a> Cx<'a> {
     fn node_ref(
         &mut self,
         id: &Ident,
-        index: &HashMap<String, NodeId>,
-        buildups: &HashMap<&str, &Vec<BuildupElement>>,
+        index: &FxHashMap<String, NodeId>,
+        buildups: &FxHashMap<&str, &Vec<BuildupElement>>,
     ) -> Option<NodeId> {
         if let Some(&i) = index.get(&id.name) {
             self.symbols.add_ref(&id.name, id.span);
@@ -704,7 +704,7 @@ impl<'a> Cx<'a> {
         } else {
             d = Diagnostic::error("E102", format!("unknown node `{}`", id.name), id.span)
                 .with_label("no node has this name");
-            if let Some(s) = did_you_mean(&id.name, index.keys().map(|s| s.as_str())) {
+            if let Some(s) = did_you_mean(&id.name, in_declaration_order(index)) {
                 d = d.with_help(format!("did you mean `{s}`?")).with_fix(
                     format!("Replace with `{s}`"),
                     id.span,
@@ -727,7 +727,7 @@ impl<'a> Cx<'a> {
     fn buildup_link(
         &mut self,
         net: &mut Network,
-        index: &HashMap<String, NodeId>,
+        index: &FxHashMap<String, NodeId>,
         name: &Ident,
         from: Option<NodeId>,
         to: Option<NodeId>,
@@ -931,4 +931,22 @@ fn add_generated_node(
         refs: Vec::new(),
         parent: Some(parent.name.clone()),
     });
+}
+
+/// Names in sorted order, so that a suggestion does not hang on the hasher's order.
+fn sorted<'a>(names: impl Iterator<Item = &'a str>) -> Vec<&'a str> {
+    let mut v: Vec<&str> = names.collect();
+    v.sort_unstable();
+    v
+}
+
+/// The node names of an index in the order the nodes were declared (by id), so that a suggestion
+/// does not hang on the hasher's order. Linear, not a sort: models reach millions of nodes.
+fn in_declaration_order(index: &FxHashMap<String, NodeId>) -> impl Iterator<Item = &str> {
+    let len = index.values().max().map_or(0, |&m| m + 1);
+    let mut by_id: Vec<Option<&str>> = vec![None; len];
+    for (name, &id) in index {
+        by_id[id] = Some(name.as_str());
+    }
+    by_id.into_iter().flatten()
 }

@@ -6,8 +6,8 @@
 use crate::diagnostic::{did_you_mean, Diagnostic};
 use crate::span::Span;
 use crate::syntax::{BinOp, Expr, ExprKind, Ident};
-use crate::units::{parse_unit, Dim, Quantity, TempKind};
-use std::collections::HashMap;
+use crate::units::{parse_unit, Dim, Quantity, TempKind, Unit, UnitError};
+use rustc_hash::FxHashMap;
 
 /// What a name in an expression may refer to besides a parameter, for helpful errors.
 pub trait NameKinds {
@@ -23,12 +23,18 @@ enum State {
 
 /// Evaluates parameters lazily (any order, cycles reported) and expressions that use them.
 pub struct Evaluator<'a> {
-    params: HashMap<&'a str, (&'a Ident, &'a Expr)>,
-    values: HashMap<String, Option<Quantity>>,
-    state: HashMap<String, State>,
+    params: FxHashMap<&'a str, (&'a Ident, &'a Expr)>,
+    /// Parameter names in declaration order: suggestions scan these, never the map, so what
+    /// they offer does not hang on the hasher's order.
+    order: Vec<&'a str>,
+    values: FxHashMap<String, Option<Quantity>>,
+    state: FxHashMap<String, State>,
     stack: Vec<&'a Ident>,
     /// Overrides of parameter values (studies, cases).
-    overrides: HashMap<String, Quantity>,
+    overrides: FxHashMap<String, Quantity>,
+    /// Each distinct unit spelling parsed once: a model repeats a handful of spellings
+    /// (`1 cm^2`, `W/(m*K)`) on every one of its links.
+    units: FxHashMap<String, Result<Unit, UnitError>>,
     pub diags: Vec<Diagnostic>,
     /// Spans of every parameter reference, for navigation.
     pub references: Vec<(String, Span)>,
@@ -36,18 +42,24 @@ pub struct Evaluator<'a> {
 
 impl<'a> Evaluator<'a> {
     pub fn new(params: impl IntoIterator<Item = (&'a Ident, &'a Expr)>) -> Self {
-        let mut map = HashMap::new();
-        let mut state = HashMap::new();
+        let mut map = FxHashMap::default();
+        let mut state = FxHashMap::default();
+        let mut order = Vec::new();
         for (name, expr) in params {
-            map.entry(name.name.as_str()).or_insert((name, expr));
+            map.entry(name.name.as_str()).or_insert_with(|| {
+                order.push(name.name.as_str());
+                (name, expr)
+            });
             state.insert(name.name.clone(), State::Pending);
         }
         Evaluator {
             params: map,
-            values: HashMap::new(),
+            order,
+            values: FxHashMap::default(),
             state,
             stack: Vec::new(),
-            overrides: HashMap::new(),
+            overrides: FxHashMap::default(),
+            units: FxHashMap::default(),
             diags: Vec::new(),
             references: Vec::new(),
         }
@@ -99,7 +111,7 @@ impl<'a> Evaluator<'a> {
         // The path from `root` down: each parameter, its dependencies, the next one to visit.
         let mut path: Vec<(&'a str, Vec<&'a str>, usize)> =
             vec![(root, self.dependencies(root), 0)];
-        let mut on_path: HashMap<&'a str, usize> = HashMap::from([(root, 0)]);
+        let mut on_path: FxHashMap<&'a str, usize> = FxHashMap::from_iter([(root, 0)]);
         while let Some(top) = path.len().checked_sub(1) {
             let (name, deps, next) = &mut path[top];
             let Some(&dep) = deps.get(*next) else {
@@ -236,9 +248,13 @@ impl<'a> Evaluator<'a> {
                 kind: TempKind::NotTemperature,
             });
         };
-        match parse_unit(text) {
+        if !self.units.contains_key(text.as_str()) {
+            self.units.insert(text.clone(), parse_unit(text));
+        }
+        match &self.units[text.as_str()] {
             Ok(u) => Some(u.to_si(value)),
             Err(err) => {
+                let err = err.clone();
                 let at = Span {
                     start: uspan.start + err.start as u32,
                     end: uspan.start + err.end as u32,
@@ -281,7 +297,7 @@ impl<'a> Evaluator<'a> {
         } else {
             let mut d = Diagnostic::error("E102", format!("unknown name `{}`", id.name), id.span)
                 .with_label("no parameter has this name");
-            let names: Vec<&str> = self.params.keys().copied().chain(["pi"]).collect();
+            let names: Vec<&str> = self.order.iter().copied().chain(["pi"]).collect();
             if let Some(s) = did_you_mean(&id.name, names) {
                 d = d.with_help(format!("did you mean `{s}`?")).with_fix(
                     format!("Replace with `{s}`"),

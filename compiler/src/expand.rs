@@ -19,7 +19,7 @@ use crate::eval::{Evaluator, NameKinds};
 use crate::span::Span;
 use crate::syntax::*;
 use crate::units::{Dim, Quantity};
-use std::collections::{HashMap, HashSet};
+use rustc_hash::{FxHashMap, FxHashSet};
 use std::sync::atomic::{AtomicBool, Ordering};
 
 /// Most copies one repetition may make, so a typing slip cannot exhaust memory.
@@ -49,7 +49,7 @@ pub fn expand_modules(
     budget: u64,
     cancel: Option<&AtomicBool>,
 ) -> Expanded {
-    let mut networks: HashMap<String, (&Item, &Vec<Ident>, &Vec<Item>)> = HashMap::new();
+    let mut networks: FxHashMap<String, (&Item, &Vec<Ident>, &Vec<Item>)> = FxHashMap::default();
     let mut params = Vec::new();
     for m in modules {
         for item in &m.items {
@@ -124,7 +124,7 @@ pub fn check_budget(
         ev.diags.truncate(n);
         q.filter(|q| q.dim == Dim::NONE).map(|q| q.value)
     };
-    let networks = HashMap::new();
+    let networks = FxHashMap::default();
     // Called once per model, so the nesting is named as it is counted.
     let mut counter = Counter::new(&networks, &mut count).describing();
     let mut made: u64 = 0;
@@ -141,7 +141,7 @@ pub fn check_budget(
 
 /// Keep one of each diagnostic (same code, same place) raised inside a repeated body.
 pub fn dedup_copies(diags: &mut Vec<Diagnostic>, bodies: &[Span]) {
-    let mut seen = HashSet::new();
+    let mut seen = FxHashSet::default();
     diags.retain(|d| {
         let s = d.primary.span;
         let inside = bodies
@@ -152,9 +152,9 @@ pub fn dedup_copies(diags: &mut Vec<Diagnostic>, bodies: &[Span]) {
 }
 
 struct Expander<'a> {
-    networks: HashMap<String, (&'a Item, &'a Vec<Ident>, &'a Vec<Item>)>,
+    networks: FxHashMap<String, (&'a Item, &'a Vec<Ident>, &'a Vec<Item>)>,
     /// Each sub-network's body, for counting what a `use` would make.
-    bodies_of: HashMap<String, &'a [Item]>,
+    bodies_of: FxHashMap<String, &'a [Item]>,
     ev: Evaluator<'a>,
     diags: Vec<Diagnostic>,
     bodies: Vec<Span>,
@@ -239,7 +239,7 @@ impl Expander<'_> {
                             let r = Renamer {
                                 prefix: format!("{}.{i}", name.name),
                                 locals: &locals,
-                                ports: HashMap::new(),
+                                ports: FxHashMap::default(),
                                 index: Some((i as f64, count as f64)),
                                 previous: Some(if i == 1 {
                                     first.clone()
@@ -412,7 +412,10 @@ impl Expander<'_> {
                 network.span,
             )
             .with_label("no `network` has this name");
-            d = match did_you_mean(&network.name, self.networks.keys().map(|s| s.as_str())) {
+            // Sorted so that the suggestion does not hang on the hasher's order.
+            let mut names: Vec<&str> = self.networks.keys().map(String::as_str).collect();
+            names.sort_unstable();
+            d = match did_you_mean(&network.name, names) {
                 Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
                     format!("Replace with `{s}`"),
                     network.span,
@@ -425,15 +428,16 @@ impl Expander<'_> {
             self.diags.push(d);
             return None;
         };
-        let params: HashSet<&str> = body
+        // In declaration order: the list and suggestion of an unknown argument read it.
+        let params: Vec<&str> = body
             .iter()
             .filter_map(|i| match &i.kind {
                 ItemKind::Param { name, .. } => Some(name.name.as_str()),
                 _ => None,
             })
             .collect();
-        let mut bound: HashMap<String, String> = HashMap::new();
-        let mut replaced: HashMap<String, Expr> = HashMap::new();
+        let mut bound: FxHashMap<String, String> = FxHashMap::default();
+        let mut replaced: FxHashMap<String, Expr> = FxHashMap::default();
         let mut ok = true;
         for a in args {
             let Some(key) = &a.name else {
@@ -473,7 +477,7 @@ impl Expander<'_> {
                         ok = false;
                     }
                 }
-            } else if params.contains(key.name.as_str()) {
+            } else if params.contains(&key.name.as_str()) {
                 replaced.insert(key.name.clone(), a.value.clone());
             } else {
                 let known: Vec<&str> = ports
@@ -566,7 +570,7 @@ fn list<'a>(names: impl Iterator<Item = &'a str>) -> String {
 }
 
 /// Names declared directly in a body.
-fn declared(body: &[Item]) -> HashSet<String> {
+fn declared(body: &[Item]) -> FxHashSet<String> {
     body.iter()
         .filter_map(|i| i.name().map(|n| n.name.clone()))
         .collect()
@@ -575,8 +579,8 @@ fn declared(body: &[Item]) -> HashSet<String> {
 /// Renames one copy of a body.
 struct Renamer<'a> {
     prefix: String,
-    locals: &'a HashSet<String>,
-    ports: HashMap<String, String>,
+    locals: &'a FxHashSet<String>,
+    ports: FxHashMap<String, String>,
     /// `index` and `count` of a repetition.
     index: Option<(f64, f64)>,
     /// What `previous.X` becomes: `Some(prefix_of_previous_copy)`, or for copy 1 the `first`

@@ -2,8 +2,8 @@
 //! outline) and for the one namespace rule: a name is declared once per model.
 
 use crate::span::Span;
+use rustc_hash::FxHashMap;
 use serde::Serialize;
-use std::collections::HashMap;
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "snake_case")]
@@ -65,7 +65,7 @@ pub struct SymbolTable {
     /// lookups must not scan; symbols pushed directly onto `symbols` are still found by the
     /// scanning fallback.
     #[serde(skip)]
-    index: HashMap<String, usize>,
+    index: FxHashMap<String, usize>,
     /// How many symbols went through [`SymbolTable::push`]. While that is all of them the
     /// index is complete and a name it lacks is unknown without a scan: an unknown name in
     /// each of 10 000 copies of a `repeat` would otherwise scan the whole table each time.

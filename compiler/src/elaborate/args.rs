@@ -15,7 +15,7 @@ use crate::span::Span;
 use crate::symbols::SymbolKind;
 use crate::syntax::{Arg, Expr, ExprKind, Ident};
 use crate::units::{Dim, Quantity, TempKind};
-use std::collections::HashMap;
+use rustc_hash::FxHashMap;
 
 /// A checked argument value.
 #[derive(Clone, Debug)]
@@ -35,7 +35,7 @@ pub(super) enum Value {
 pub(super) struct Checked {
     /// Values that passed their checks, with the span of the name (of the value when unnamed)
     /// and of the value.
-    values: HashMap<&'static str, (Value, Span, Span)>,
+    values: FxHashMap<&'static str, (Value, Span, Span)>,
     /// Every known argument written, in order, whether or not its value passed.
     pub written: Vec<(&'static str, Span)>,
     /// Nothing failed and nothing is missing.
@@ -524,9 +524,9 @@ impl Cx<'_> {
         supplied: &[(&'static str, f64, Span)],
     ) -> Option<Args> {
         let specs = kind.params();
-        let mut values = HashMap::new();
+        let mut values = FxHashMap::default();
         let mut ok = true;
-        let mut seen: HashMap<&'static str, Span> = HashMap::new();
+        let mut seen: FxHashMap<&'static str, Span> = FxHashMap::default();
         for (i, arg) in args.iter().enumerate() {
             let spec = match &arg.name {
                 Some(n) => match specs.iter().find(|s| s.name == n.name) {

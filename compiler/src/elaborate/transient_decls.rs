@@ -17,7 +17,7 @@ use crate::transient::model::{
 };
 use crate::transient::schedule::Schedule;
 use crate::units::{Dim, Quantity, TempKind};
-use std::collections::HashMap;
+use rustc_hash::FxHashMap;
 
 /// Biot number above which a body is not well described by one temperature (common practice).
 pub const BIOT_LUMPED: f64 = 0.1;
@@ -27,7 +27,7 @@ pub const BIOT_LUMPED: f64 = 0.1;
 pub(super) struct Timed {
     pub dynamics: Dynamics,
     pub studies: Studies,
-    schedule_index: HashMap<String, usize>,
+    schedule_index: FxHashMap<String, usize>,
 }
 
 /// The symbol kind of a contextual declaration word.
@@ -68,7 +68,7 @@ impl Cx<'_> {
         what: &str,
         example: &str,
     ) -> Vec<(&'x Ident, &'x Arg)> {
-        let mut seen: HashMap<&str, Span> = HashMap::new();
+        let mut seen: FxHashMap<&str, Span> = FxHashMap::default();
         let mut out = Vec::new();
         for arg in args {
             let Some(an) = &arg.name else {

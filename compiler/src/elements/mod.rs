@@ -13,7 +13,7 @@ pub mod shell;
 use crate::diagnostic::Diagnostic;
 use crate::span::Span;
 use crate::units::{format_quantity, Dim, Quantity, TempKind, UnitSystem};
-use std::collections::HashMap;
+use rustc_hash::FxHashMap;
 
 /// A material as declared, in SI units.
 #[derive(Clone, Debug, serde::Serialize)]
@@ -42,7 +42,7 @@ pub enum ArgValue {
 /// The checked arguments of one element use, by name.
 pub struct Args {
     pub kind: &'static str,
-    pub values: HashMap<&'static str, (ArgValue, Span)>,
+    pub values: FxHashMap<&'static str, (ArgValue, Span)>,
     /// The whole element call, for "missing argument" errors.
     pub call_span: Span,
 }
@@ -201,7 +201,7 @@ pub fn show(value: f64, dim: Dim) -> String {
 #[allow(clippy::too_many_arguments)]
 pub fn expand_into(
     net: &mut crate::network::Network,
-    index: &HashMap<String, usize>,
+    index: &FxHashMap<String, usize>,
     name: &crate::syntax::Ident,
     span: Span,
     from: usize,
