@@ -1,60 +1,29 @@
-//! Every word a model can be written with: the keywords, the block and declaration words, the
-//! element kinds with their argument names, the limit measures, the functions, region sides and
-//! the arguments of nodes, repetitions and transient runs. For tools that write or mutate model
-//! text (the fuzzer's dictionary, the robustness property tests), so none keeps its own copy of
-//! the language; the lists that have a home elsewhere in the compiler are read from there.
+//! Every word a model can be written with, read from the schema (`crate::schema`): for tools
+//! that write or mutate model text (the fuzzer's dictionary, the robustness property tests), so
+//! none keeps its own copy of the language.
 
-use crate::elements;
-use crate::limits::MEASURES;
-use crate::region::SIDES;
-use crate::syntax::{BLOCK_WORDS, DECLARATION_WORDS};
+use crate::schema::{self, DECLARATIONS, FUNCTIONS, MEASURES, REGION_SIDES};
 
-/// The lexer's reserved words.
-pub const KEYWORDS: &[&str] = &[
-    "title", "import", "param", "material", "node", "link", "buildup", "limit", "to",
-];
+/// Words the schema lists in no argument table: the names a copy of a `repeat` sees and the
+/// call that writes a conductivity table.
+const OTHER_NAMES: &[&str] = &["index", "first", "previous", "table"];
 
-/// The functions an expression may call (`pi` takes no arguments).
-pub const FUNCTIONS: &[&str] = &["sqrt", "ln", "exp", "abs", "min", "max", "pi"];
-
-/// Argument and key names that belong to no element kind: a node's, a repetition's (and the
-/// names a copy sees), a region's cell counts, a schedule's and a transient run's.
-pub const ARGUMENTS: &[&str] = &[
-    "fixed",
-    "load",
-    "capacity",
-    "material",
-    "volume",
-    "mass",
-    "initial",
-    "count",
-    "first",
-    "index",
-    "previous",
-    "cells_x",
-    "cells_y",
-    "repeat",
-    "duration",
-    "step",
-    "output",
-    "tolerance",
-    "start",
-    "table",
-];
-
-/// All of the above, sorted, each once.
+/// Every word of the schema (declaration words and keywords, every declaration's and element
+/// kind's argument names, functions and constants, limit measures, region sides) and
+/// [`OTHER_NAMES`], sorted, each once.
 pub fn words() -> Vec<&'static str> {
-    let mut out: Vec<&'static str> = KEYWORDS
-        .iter()
-        .chain(BLOCK_WORDS)
-        .chain(DECLARATION_WORDS)
-        .chain(FUNCTIONS)
-        .chain(ARGUMENTS)
-        .chain(SIDES)
-        .copied()
-        .chain(MEASURES.iter().map(|m| m.0))
+    let mut out: Vec<&'static str> = schema::keywords()
+        .chain(schema::declaration_words())
+        .chain(FUNCTIONS.iter().map(|f| f.name))
+        .chain(schema::CONSTANTS.iter().map(|c| c.0))
+        .chain(MEASURES.iter().map(|m| m.name))
+        .chain(REGION_SIDES.iter().map(|s| s.0))
+        .chain(OTHER_NAMES.iter().copied())
         .collect();
-    for kind in elements::ALL {
+    for d in DECLARATIONS {
+        out.extend(d.arg_specs().iter().map(|a| a.name));
+    }
+    for kind in schema::element_kinds() {
         out.push(kind.name());
         out.extend(kind.params().iter().map(|p| p.name));
     }
@@ -105,7 +74,7 @@ mod tests {
                 a.diagnostics
             );
         }
-        for kw in KEYWORDS {
+        for kw in schema::keywords() {
             let a = analyze(
                 "v.heat",
                 &format!("node {kw} (fixed = 1 °C)\n"),
