@@ -55,7 +55,7 @@ fn grid(side: usize) -> Network {
             law: LinkLaw::Linear { conductance: 1.0 },
             area: None,
             kind: "conductance".into(),
-            formula: String::new(),
+            formula: Default::default(),
             group: None,
         });
     };

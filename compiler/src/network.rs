@@ -48,7 +48,7 @@ pub struct Link {
     /// Element kind (`layer`, `film`, ...).
     pub kind: String,
     /// The formula with its input values, for hover and reports.
-    pub formula: String,
+    pub formula: crate::elements::Formula,
     /// The build-up use this link is an element of.
     pub group: Option<usize>,
 }

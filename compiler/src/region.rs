@@ -15,7 +15,7 @@
 
 use crate::diagnostic::Diagnostic;
 use crate::elements::shell::{conduction_law, conductivity};
-use crate::elements::{material, q, show, ArgSpec, Args, Built, ElementKind};
+use crate::elements::{material, q, ArgSpec, Args, Built, ElementKind, Formula};
 use crate::network::{Link, LinkId, LinkLaw, Network, Node, NodeId};
 use crate::span::Span;
 use crate::units::Dim;
@@ -72,7 +72,7 @@ impl ElementKind for RegionArgs {
         Ok(Built {
             conductance: 0.0,
             area: None,
-            formula: String::new(),
+            formula: Formula::default(),
         })
     }
 }
@@ -209,7 +209,9 @@ impl Plan {
         names
     }
 
-    fn conduction(&self, shape: f64, formula: String) -> LinkLaw {
+    /// The law of conduction through a cell of shape `shape`. Only the law is kept: the link's
+    /// formula is the one `push` gives it.
+    fn conduction(&self, shape: f64) -> LinkLaw {
         let k = conductivity(&self.args, "").unwrap_or(f64::NAN);
         conduction_law(
             &self.args,
@@ -217,7 +219,7 @@ impl Plan {
             Built {
                 conductance: k * shape,
                 area: None,
-                formula,
+                formula: Formula::default(),
             },
         )
         .0
@@ -229,16 +231,12 @@ impl Plan {
         let (dx, dy) = (self.region.dx(), self.region.dy());
         let sx = t * dy / dx;
         let sy = t * dx / dy;
-        let k = conductivity(&self.args, "").unwrap_or(f64::NAN);
         for j in 1..=ny {
             for i in 1..=nx {
                 let here = (j - 1) * nx + (i - 1);
                 if i < nx {
                     let id = net.links.len();
-                    let law = self.conduction(
-                        sx,
-                        format!("G = k·t·Δy/Δx = {}", show(k * sx, Dim::CONDUCTANCE)),
-                    );
+                    let law = self.conduction(sx);
                     self.push(
                         net,
                         format!("{}.x.{i}.{j}", self.region.name),
@@ -252,10 +250,7 @@ impl Plan {
                 }
                 if j < ny {
                     let id = net.links.len();
-                    let law = self.conduction(
-                        sy,
-                        format!("G = k·t·Δx/Δy = {}", show(k * sy, Dim::CONDUCTANCE)),
-                    );
+                    let law = self.conduction(sy);
                     self.push(
                         net,
                         format!("{}.y.{i}.{j}", self.region.name),
@@ -282,9 +277,9 @@ impl Plan {
     ) {
         let formula = match &law {
             LinkLaw::Linear { conductance } => {
-                format!("R = {}", show(1.0 / conductance, Dim::RESISTANCE))
+                Formula::new("R = {}", &[(1.0 / conductance, Dim::RESISTANCE)])
             }
-            _ => "k(T) conduction between cells".to_string(),
+            _ => Formula::Text("k(T) conduction between cells".to_string()),
         };
         net.links.push(Link {
             name,
@@ -355,7 +350,7 @@ impl Plan {
             let first_link = net.links.len();
             match &element {
                 None => {
-                    let law = self.conduction(half, String::new());
+                    let law = self.conduction(half);
                     self.push(
                         net,
                         format!("{name}.{side}.{label}"),
@@ -374,7 +369,7 @@ impl Plan {
                         load: 0.0,
                         generated: true,
                     });
-                    let half_law = self.conduction(half, String::new());
+                    let half_law = self.conduction(half);
                     self.push(
                         net,
                         format!("{name}.{side}.{label}.in"),

@@ -162,7 +162,7 @@ pub fn svg(net: &Network, sol: &Solution, system: UnitSystem, title: &str) -> Op
             n(e.0),
             n(e.1),
             n(stroke),
-            esc(&link.formula)
+            esc(&link.formula.to_string())
         );
         let apex = (mid.0 + nx * bend, mid.1 + ny * bend);
         // A flow at round-off level (a link between two nodes at one temperature) reads as 0.

@@ -172,7 +172,7 @@ impl ElementKind for Fin {
         Ok(Built {
             conductance: s.conductance,
             area: None,
-            formula: s.formula,
+            formula: s.formula.into(),
         })
     }
     fn figures(&self, a: &Args) -> Vec<(&'static str, f64)> {

@@ -4,6 +4,7 @@
 //! [`ALL`]; the parser, checker, language server and docs pick it up from here.
 
 pub mod fin;
+mod formula;
 pub mod generation;
 mod plane;
 pub mod radiation;
@@ -32,6 +33,7 @@ pub struct Material {
 }
 
 pub use crate::schema::{material, quantity as q, ArgSpec, ArgType};
+pub use formula::Formula;
 
 #[derive(Clone, Debug)]
 pub enum ArgValue {
@@ -113,7 +115,7 @@ pub struct Built {
     /// m², when the heat crosses a definite area.
     pub area: Option<f64>,
     /// The formula with the input values, for hover and reports.
-    pub formula: String,
+    pub formula: Formula,
 }
 
 /// A kind of link.
@@ -245,7 +247,7 @@ pub fn expand_into(
             },
             area: None,
             kind: kind.name().to_string(),
-            formula: p.formula,
+            formula: p.formula.into(),
             group: None,
         });
     }

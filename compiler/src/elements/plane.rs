@@ -1,6 +1,6 @@
 //! Plane layers, convection films, contact resistances and explicit resistances/conductances.
 
-use super::{material, q, show, ArgSpec, Args, Built, ElementKind};
+use super::{material, q, ArgSpec, Args, Built, ElementKind, Formula};
 use crate::diagnostic::Diagnostic;
 use crate::units::Dim;
 
@@ -47,12 +47,14 @@ impl ElementKind for Layer {
         Ok(Built {
             conductance: g,
             area: Some(area),
-            formula: format!(
+            formula: Formula::new(
                 "R = L/(k·A) = {} / ({} × {}) = {}",
-                show(l, Dim::LENGTH),
-                show(k, Dim::CONDUCTIVITY),
-                show(area, Dim::AREA),
-                show(1.0 / g, Dim::RESISTANCE)
+                &[
+                    (l, Dim::LENGTH),
+                    (k, Dim::CONDUCTIVITY),
+                    (area, Dim::AREA),
+                    (1.0 / g, Dim::RESISTANCE),
+                ],
             ),
         })
     }
@@ -94,11 +96,13 @@ impl ElementKind for Film {
             let g = h * area;
             (
                 g,
-                format!(
+                Formula::new(
                     "R = 1/(h·A) = 1 / ({} × {}) = {}",
-                    show(h, Dim::HEAT_TRANSFER_COEFF),
-                    show(area, Dim::AREA),
-                    show(1.0 / g, Dim::RESISTANCE)
+                    &[
+                        (h, Dim::HEAT_TRANSFER_COEFF),
+                        (area, Dim::AREA),
+                        (1.0 / g, Dim::RESISTANCE),
+                    ],
                 ),
             )
         } else {
@@ -106,11 +110,13 @@ impl ElementKind for Film {
             let g = area / r;
             (
                 g,
-                format!(
+                Formula::new(
                     "R = r/A = {} / {} = {}",
-                    show(r, Dim::AREA_RESISTANCE),
-                    show(area, Dim::AREA),
-                    show(1.0 / g, Dim::RESISTANCE)
+                    &[
+                        (r, Dim::AREA_RESISTANCE),
+                        (area, Dim::AREA),
+                        (1.0 / g, Dim::RESISTANCE),
+                    ],
                 ),
             )
         };
@@ -144,11 +150,13 @@ impl ElementKind for Contact {
         Ok(Built {
             conductance: g,
             area: Some(area),
-            formula: format!(
+            formula: Formula::new(
                 "R = R″/A = {} / {} = {}",
-                show(r, Dim::AREA_RESISTANCE),
-                show(area, Dim::AREA),
-                show(1.0 / g, Dim::RESISTANCE)
+                &[
+                    (r, Dim::AREA_RESISTANCE),
+                    (area, Dim::AREA),
+                    (1.0 / g, Dim::RESISTANCE),
+                ],
             ),
         })
     }
@@ -171,7 +179,7 @@ impl ElementKind for Resistance {
         Ok(Built {
             conductance: 1.0 / r,
             area: None,
-            formula: format!("R = {}", show(r, Dim::RESISTANCE)),
+            formula: Formula::new("R = {}", &[(r, Dim::RESISTANCE)]),
         })
     }
 }
@@ -193,10 +201,9 @@ impl ElementKind for Conductance {
         Ok(Built {
             conductance: g,
             area: None,
-            formula: format!(
+            formula: Formula::new(
                 "R = 1/G = 1 / {} = {}",
-                show(g, Dim::CONDUCTANCE),
-                show(1.0 / g, Dim::RESISTANCE)
+                &[(g, Dim::CONDUCTANCE), (1.0 / g, Dim::RESISTANCE)],
             ),
         })
     }

@@ -137,7 +137,8 @@ impl ElementKind for Radiation {
                 area: a.get("area"),
                 formula: format!(
                     "Q = σ·A_x·(T₁⁴ − T₂⁴) in kelvin, σ = 5.670374419e-8 W/(m²·K⁴); {text}"
-                ),
+                )
+                .into(),
             },
         ))
     }

@@ -78,7 +78,8 @@ fn finish(a: &Args, s: f64, text: String) -> Result<(LinkLaw, Built), Diagnostic
             show(s, Dim::LENGTH),
             show(k, Dim::CONDUCTIVITY),
             show(1.0 / g, Dim::RESISTANCE)
-        ),
+        )
+        .into(),
     };
     Ok(conduction_law(a, s, built))
 }

@@ -7,7 +7,7 @@
 // split the element API.
 #![allow(clippy::result_large_err)]
 
-use super::{material, q, show, ArgSpec, Args, Built, ElementKind};
+use super::{material, q, show, ArgSpec, Args, Built, ElementKind, Formula};
 use crate::diagnostic::Diagnostic;
 use crate::units::Dim;
 use std::f64::consts::PI;
@@ -121,13 +121,15 @@ impl ElementKind for Cylinder {
         Ok(Built {
             conductance: g,
             area: None,
-            formula: format!(
+            formula: Formula::new(
                 "R = ln(r₂/r₁)/(2π·k·L) = ln({} / {}) / (2π × {} × {}) = {}",
-                show(r2, Dim::LENGTH),
-                show(r1, Dim::LENGTH),
-                show(k, Dim::CONDUCTIVITY),
-                show(l, Dim::LENGTH),
-                show(1.0 / g, Dim::RESISTANCE)
+                &[
+                    (r2, Dim::LENGTH),
+                    (r1, Dim::LENGTH),
+                    (k, Dim::CONDUCTIVITY),
+                    (l, Dim::LENGTH),
+                    (1.0 / g, Dim::RESISTANCE),
+                ],
             ),
         })
     }
@@ -155,12 +157,14 @@ impl ElementKind for Sphere {
         Ok(Built {
             conductance: g,
             area: None,
-            formula: format!(
+            formula: Formula::new(
                 "R = (1/r₁ − 1/r₂)/(4π·k) = (1/{} − 1/{}) / (4π × {}) = {}",
-                show(r1, Dim::LENGTH),
-                show(r2, Dim::LENGTH),
-                show(k, Dim::CONDUCTIVITY),
-                show(1.0 / g, Dim::RESISTANCE)
+                &[
+                    (r1, Dim::LENGTH),
+                    (r2, Dim::LENGTH),
+                    (k, Dim::CONDUCTIVITY),
+                    (1.0 / g, Dim::RESISTANCE),
+                ],
             ),
         })
     }
@@ -246,7 +250,10 @@ pub fn conduction_law(a: &Args, shape: f64, built: Built) -> (crate::network::Li
                     shape,
                     conductivity,
                 },
-                Built { formula, ..built },
+                Built {
+                    formula: formula.into(),
+                    ..built
+                },
             )
         }
         None => (
