@@ -6,6 +6,7 @@
 //! [`limits`]) → [`network`] → [`solve`] → [`results`]; [`analysis::analyze`] runs it all.
 
 pub mod analysis;
+pub mod assemble;
 pub mod budget;
 pub mod compare;
 pub mod conductivity;
@@ -15,6 +16,7 @@ pub mod elements;
 pub mod eval;
 pub mod expand;
 pub mod format;
+pub mod formula;
 pub mod laws;
 pub mod lexer;
 pub mod library;

@@ -48,7 +48,7 @@ pub struct Link {
     /// Element kind (`layer`, `film`, ...).
     pub kind: String,
     /// The formula with its input values, for hover and reports.
-    pub formula: crate::elements::Formula,
+    pub formula: crate::formula::Formula,
     /// The build-up use this link is an element of.
     pub group: Option<usize>,
 }
@@ -106,40 +106,5 @@ impl Network {
     }
     pub fn group_id(&self, name: &str) -> Option<usize> {
         self.groups.iter().position(|g| g.name == name)
-    }
-
-    /// Groups of free nodes that no chain of links joins to a fixed node; each such group makes
-    /// the conductance matrix singular.
-    pub fn floating_groups(&self) -> Vec<Vec<NodeId>> {
-        let n = self.nodes.len();
-        let mut parent: Vec<usize> = (0..n).collect();
-        fn find(p: &mut [usize], mut x: usize) -> usize {
-            while p[x] != x {
-                p[x] = p[p[x]];
-                x = p[x];
-            }
-            x
-        }
-        for l in &self.links {
-            let (a, b) = (find(&mut parent, l.from), find(&mut parent, l.to));
-            if a != b {
-                parent[a] = b;
-            }
-        }
-        let mut anchored = vec![false; n];
-        for i in 0..n {
-            if self.nodes[i].fixed.is_some() {
-                let r = find(&mut parent, i);
-                anchored[r] = true;
-            }
-        }
-        let mut groups: std::collections::BTreeMap<usize, Vec<NodeId>> = Default::default();
-        for i in 0..n {
-            let r = find(&mut parent, i);
-            if !anchored[r] {
-                groups.entry(r).or_default().push(i);
-            }
-        }
-        groups.into_values().collect()
     }
 }

@@ -8,13 +8,24 @@ use crate::diagnostic::Diagnostic;
 use crate::elements::{self, Material};
 use crate::eval::expect_point;
 use crate::schema::{self, ArgSpec, Need};
-use crate::syntax::{Arg, Expr, ExprKind, Ident};
+use crate::syntax::{Arg, Expr, ExprKind, Ident, Item, ItemKind};
 use crate::units::Dim;
 
 /// Range practitioners cite for solid building and engineering materials (common practice).
 const K_TYPICAL: (f64, f64) = (0.01, 1000.0);
 
 impl Cx<'_> {
+    /// Pass 3: every material.
+    pub(super) fn materials(&mut self, items: &[&Item]) {
+        for item in items {
+            if let ItemKind::Material { name, args } = &item.kind {
+                self.owner = format!("material `{}`", name.name);
+                self.material(name, args);
+            }
+        }
+        self.owner.clear();
+    }
+
     pub(super) fn material(&mut self, name: &Ident, args: &[Arg]) {
         // With k as a table, `k_slope` and `k_at` do not pair up: the table says how k changes
         // already, and `Parts::model` refuses either beside it (E207) rather than asking for

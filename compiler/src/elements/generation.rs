@@ -113,15 +113,15 @@ impl HeatedSlab {
                         show(4.0 * g, Dim::CONDUCTANCE),
                         show(p, Dim::POWER),
                         show(qv * l * l / (8.0 * k), Dim::TEMPERATURE)
-                    ).into(),
+                    ),
                 },
-                Part { suffix: "to_half", from: End::Internal("centre"), to: End::To, conductance: 4.0 * g, formula: format!("G = 4kA/L = {} (midplane to face)", show(4.0 * g, Dim::CONDUCTANCE)).into() },
+                Part { suffix: "to_half", from: End::Internal("centre"), to: End::To, conductance: 4.0 * g, formula: format!("G = 4kA/L = {} (midplane to face)", show(4.0 * g, Dim::CONDUCTANCE)) },
                 Part {
                     suffix: "through",
                     from: End::From,
                     to: End::To,
                     conductance: -g,
-                    formula: format!("G = −kA/L = {} (correction that makes both face heat flows exact; not a path of its own)", show(-g, Dim::CONDUCTANCE)).into(),
+                    formula: format!("G = −kA/L = {} (correction that makes both face heat flows exact; not a path of its own)", show(-g, Dim::CONDUCTANCE)),
                 },
             ],
             loads: vec![(End::Internal("centre"), p)],
@@ -215,7 +215,7 @@ impl ElementKind for HeatedRod {
                     show(1.0 / g, Dim::RESISTANCE),
                     show(p, Dim::POWER),
                     show(qv * r * r / (4.0 * k), Dim::TEMPERATURE)
-                ).into(),
+                ),
             }],
             loads: vec![(End::From, p)],
         }))

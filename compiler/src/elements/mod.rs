@@ -4,7 +4,6 @@
 //! [`ALL`]; the parser, checker, language server and docs pick it up from here.
 
 pub mod fin;
-mod formula;
 pub mod generation;
 mod plane;
 pub mod radiation;
@@ -13,7 +12,6 @@ pub mod shell;
 
 use crate::diagnostic::Diagnostic;
 use crate::span::Span;
-use crate::units::{format_quantity, Dim, Quantity, TempKind, UnitSystem};
 use rustc_hash::FxHashMap;
 
 /// A material as declared, in SI units.
@@ -32,8 +30,8 @@ pub struct Material {
     pub conductivity: Option<crate::conductivity::Conductivity>,
 }
 
+pub use crate::formula::{show, Formula};
 pub use crate::schema::{material, quantity as q, ArgSpec, ArgType};
-pub use formula::Formula;
 
 #[derive(Clone, Debug)]
 pub enum ArgValue {
@@ -186,70 +184,4 @@ pub static ALL: &[&dyn ElementKind] = &[
 
 pub fn lookup(name: &str) -> Option<&'static dyn ElementKind> {
     ALL.iter().copied().find(|k| k.name() == name)
-}
-
-/// A value with its SI unit, for formulas.
-pub fn show(value: f64, dim: Dim) -> String {
-    let kind = if dim == Dim::TEMPERATURE {
-        TempKind::Difference
-    } else {
-        TempKind::NotTemperature
-    };
-    format_quantity(Quantity { value, dim, kind }, UnitSystem::Si)
-}
-
-/// Add the links and loads of an element that expands into several links (see
-/// [`generation::Expansion`]). A load on a fixed FROM or TO node is E209.
-#[allow(clippy::too_many_arguments)]
-pub fn expand_into(
-    net: &mut crate::network::Network,
-    index: &FxHashMap<String, usize>,
-    name: &crate::syntax::Ident,
-    span: Span,
-    from: usize,
-    to: usize,
-    kind: &dyn ElementKind,
-    x: generation::Expansion,
-) -> Option<Diagnostic> {
-    use generation::End;
-    let node = |e: End| match e {
-        End::From => Some(from),
-        End::To => Some(to),
-        End::Internal(s) => index.get(&format!("{}.{s}", name.name)).copied(),
-    };
-    for (end, load) in &x.loads {
-        let Some(n) = node(*end) else { continue };
-        if net.nodes[n].fixed.is_some() {
-            return Some(
-                Diagnostic::error("E209", format!("`{}` puts its generated heat into `{}`, which is fixed", name.name, net.nodes[n].name), name.span)
-                    .with_label("generated heat on a fixed node")
-                    .with_help(format!("the FROM node of `{}` is the body's axis: make it a free node (its temperature is the centre temperature)", kind.name())),
-            );
-        }
-        net.nodes[n].load += load;
-    }
-    for p in x.parts {
-        let (Some(a), Some(b)) = (node(p.from), node(p.to)) else {
-            continue;
-        };
-        let link_name = if p.suffix.is_empty() {
-            name.name.clone()
-        } else {
-            format!("{}.{}", name.name, p.suffix)
-        };
-        net.links.push(crate::network::Link {
-            name: link_name,
-            span,
-            from: a,
-            to: b,
-            law: crate::network::LinkLaw::Linear {
-                conductance: p.conductance,
-            },
-            area: None,
-            kind: kind.name().to_string(),
-            formula: p.formula.into(),
-            group: None,
-        });
-    }
-    None
 }

@@ -3,8 +3,7 @@
 //! formatting four quantities with their units for every link was a quarter of the time of
 //! checking a large model, and most links' formulas are never read.
 
-use super::show;
-use crate::units::Dim;
+use crate::units::{format_quantity, Dim, Quantity, TempKind, UnitSystem};
 use serde::{Serialize, Serializer};
 use std::fmt;
 
@@ -68,6 +67,16 @@ impl fmt::Display for Formula {
             }
         }
     }
+}
+
+/// A value with its SI unit, as formulas write it (a temperature as a difference).
+pub fn show(value: f64, dim: Dim) -> String {
+    let kind = if dim == Dim::TEMPERATURE {
+        TempKind::Difference
+    } else {
+        TempKind::NotTemperature
+    };
+    format_quantity(Quantity { value, dim, kind }, UnitSystem::Si)
 }
 
 /// As the text it reads: the JSON report carries the formula as a string.

@@ -1,25 +1,19 @@
-//! Two-dimensional rectangular regions (a plate, a wall section) meshed into the network.
-//!
-//! The rectangle is cut into nx × ny equal cells, one node per cell centre (`NAME.i.j`, i from
-//! the left edge, j from the bottom edge). Neighbouring cells are joined by conduction through
-//! their shared face, G = k·(t·Δy)/Δx across x and k·(t·Δx)/Δy across y (the standard
-//! finite-volume form of Fourier's law, second-order accurate). An edge attaches every edge
-//! cell to a node, either held at the node's temperature across half a cell
-//! (G = k·t·Δy/(Δx/2)) or through an element such as a film, via a surface node per edge cell
-//! (`NAME.left.j`). The faces (`front`, `back`) attach every cell through an element over its
-//! area Δx·Δy. A linear temperature field is reproduced exactly; the results include the field
-//! and the heat flux vector of every cell.
+//! A region's arguments, checked like an element's, and its meshing: cell nodes, the links
+//! between neighbouring cells, and the attachment of edges and faces to their nodes, all added
+//! through the [`Assembler`].
 // Diagnostics are returned by value throughout the compiler; boxing them here alone would
 // split the element API.
 #![allow(clippy::result_large_err)]
 
+use super::Region;
+use crate::assemble::{Assembler, Origin};
 use crate::diagnostic::Diagnostic;
 use crate::elements::shell::{conduction_law, conductivity};
 use crate::elements::{material, q, ArgSpec, Args, Built, ElementKind, Formula};
-use crate::network::{Link, LinkId, LinkLaw, Network, Node, NodeId};
+use crate::network::{Link, LinkLaw, NodeId};
 use crate::span::Span;
+use crate::symbols::SymbolTable;
 use crate::units::Dim;
-use serde::Serialize;
 
 /// Most cells a region may have (a typing slip must not exhaust memory).
 pub const MAX_CELLS: usize = 250_000;
@@ -77,71 +71,6 @@ impl ElementKind for RegionArgs {
     }
 }
 
-/// A region as meshed, kept in the network for results.
-#[derive(Clone, Debug, Serialize)]
-pub struct Region {
-    pub name: String,
-    pub span: Span,
-    pub nx: usize,
-    pub ny: usize,
-    pub width: f64,
-    pub height: f64,
-    pub thickness: f64,
-    /// Node id of cell (1, 1); cell (i, j) is `first_node + (j−1)·nx + (i−1)`.
-    pub first_node: NodeId,
-    /// Per cell, the links through its west, east, south and north faces, each with the sign
-    /// that turns the link's heat flow into a flow in +x (west, east) or +y (south, north).
-    pub faces: Vec<[Option<(LinkId, f64)>; 4]>,
-}
-
-/// One cell of a solved region.
-#[derive(Clone, Debug, Serialize)]
-pub struct CellResult {
-    pub i: usize,
-    pub j: usize,
-    pub x_m: f64,
-    pub y_m: f64,
-    pub temperature_k: f64,
-    /// Heat flux vector at the cell centre, W/m²: the mean of the flows through its two x faces
-    /// (two y faces) over the face area.
-    pub heat_flux_w_per_m2: [f64; 2],
-}
-
-impl Region {
-    pub fn cell(&self, i: usize, j: usize) -> NodeId {
-        self.first_node + (j - 1) * self.nx + (i - 1)
-    }
-    fn dx(&self) -> f64 {
-        self.width / self.nx as f64
-    }
-    fn dy(&self) -> f64 {
-        self.height / self.ny as f64
-    }
-
-    /// The temperature field and flux vectors for solved temperatures and link heat flows.
-    pub fn field(&self, temperatures: &[f64], heat_flows: &[f64]) -> Vec<CellResult> {
-        let (dx, dy) = (self.dx(), self.dy());
-        let flow = |f: Option<(LinkId, f64)>| f.map(|(l, s)| s * heat_flows[l]).unwrap_or(0.0);
-        let mut out = Vec::with_capacity(self.nx * self.ny);
-        for j in 1..=self.ny {
-            for i in 1..=self.nx {
-                let f = self.faces[(j - 1) * self.nx + (i - 1)];
-                let qx = 0.5 * (flow(f[0]) + flow(f[1])) / (self.thickness * dy);
-                let qy = 0.5 * (flow(f[2]) + flow(f[3])) / (self.thickness * dx);
-                out.push(CellResult {
-                    i,
-                    j,
-                    x_m: (i as f64 - 0.5) * dx,
-                    y_m: (j as f64 - 0.5) * dy,
-                    temperature_k: temperatures[self.cell(i, j)],
-                    heat_flux_w_per_m2: [qx, qy],
-                });
-            }
-        }
-        out
-    }
-}
-
 /// A region being built: its checked size and material, before edges are attached.
 pub struct Plan {
     pub region: Region,
@@ -187,26 +116,23 @@ impl Plan {
         Ok(Plan { region, args, load })
     }
 
-    /// Add the cell nodes (so links and limits can name `NAME.i.j`).
-    pub fn add_nodes(&mut self, net: &mut Network) -> Vec<String> {
+    /// Add the cell nodes (so links and limits can name `NAME.i.j`), each in the symbol table
+    /// as a child of the region.
+    pub fn add_nodes(&mut self, asm: &mut Assembler, symbols: &mut SymbolTable, decl: Span) {
         let r = &mut self.region;
-        r.first_node = net.nodes.len();
+        r.first_node = asm.net().nodes.len();
         let per_cell = self.load / (r.nx * r.ny) as f64;
-        let mut names = Vec::with_capacity(r.nx * r.ny);
+        let origin = Origin {
+            parent: &r.name,
+            def: r.span,
+            decl,
+        };
         for j in 1..=r.ny {
             for i in 1..=r.nx {
                 let name = format!("{}.{i}.{j}", r.name);
-                net.nodes.push(Node {
-                    name: name.clone(),
-                    span: r.span,
-                    fixed: None,
-                    load: per_cell,
-                    generated: true,
-                });
-                names.push(name);
+                asm.generated_node(name, r.span, per_cell, symbols, origin);
             }
         }
-        names
     }
 
     /// The law of conduction through a cell of shape `shape`. Only the law is kept: the link's
@@ -226,7 +152,7 @@ impl Plan {
     }
 
     /// Join neighbouring cells.
-    pub fn add_internal_links(&mut self, net: &mut Network) {
+    pub fn add_internal_links(&mut self, asm: &mut Assembler) {
         let (nx, ny, t) = (self.region.nx, self.region.ny, self.region.thickness);
         let (dx, dy) = (self.region.dx(), self.region.dy());
         let sx = t * dy / dx;
@@ -235,10 +161,9 @@ impl Plan {
             for i in 1..=nx {
                 let here = (j - 1) * nx + (i - 1);
                 if i < nx {
-                    let id = net.links.len();
                     let law = self.conduction(sx);
-                    self.push(
-                        net,
+                    let id = self.push(
+                        asm,
                         format!("{}.x.{i}.{j}", self.region.name),
                         self.region.cell(i, j),
                         self.region.cell(i + 1, j),
@@ -249,10 +174,9 @@ impl Plan {
                     self.region.faces[here + 1][0] = Some((id, 1.0));
                 }
                 if j < ny {
-                    let id = net.links.len();
                     let law = self.conduction(sy);
-                    self.push(
-                        net,
+                    let id = self.push(
+                        asm,
                         format!("{}.y.{i}.{j}", self.region.name),
                         self.region.cell(i, j),
                         self.region.cell(i, j + 1),
@@ -266,22 +190,23 @@ impl Plan {
         }
     }
 
+    /// Add one link of the mesh, with the formula of its law.
     fn push(
         &self,
-        net: &mut Network,
+        asm: &mut Assembler,
         name: String,
         from: NodeId,
         to: NodeId,
         law: LinkLaw,
         kind: &str,
-    ) {
+    ) -> crate::network::LinkId {
         let formula = match &law {
             LinkLaw::Linear { conductance } => {
                 Formula::new("R = {}", &[(1.0 / conductance, Dim::RESISTANCE)])
             }
             _ => Formula::Text("k(T) conduction between cells".to_string()),
         };
-        net.links.push(Link {
+        asm.link(Link {
             name,
             span: self.region.span,
             from,
@@ -291,7 +216,7 @@ impl Plan {
             kind: kind.to_string(),
             formula,
             group: None,
-        });
+        })
     }
 
     /// The area an element on this side covers per cell (edge cell face, or cell face).
@@ -308,7 +233,9 @@ impl Plan {
     /// (its law per cell, built over `cell_area(side)`) via a surface node per cell.
     pub fn attach(
         &mut self,
-        net: &mut Network,
+        asm: &mut Assembler,
+        symbols: &mut SymbolTable,
+        decl: Span,
         side: &str,
         node: NodeId,
         element: Option<(&str, LinkLaw)>,
@@ -334,25 +261,24 @@ impl Plan {
                 .flat_map(|j| (1..=nx).map(move |i| (i, j, None, dx * dy / (t / 2.0))))
                 .collect(),
         };
-        for (n, (i, j, slot, half)) in cells.into_iter().enumerate() {
+        for (i, j, slot, half) in cells {
             let cell = self.region.cell(i, j);
             let label = match side {
                 "left" | "right" => format!("{j}"),
                 "bottom" | "top" => format!("{i}"),
                 _ => format!("{i}.{j}"),
             };
-            let _ = n;
             // Heat leaving the cell through the west or south face flows in −x or −y.
             let sign = match slot {
                 Some(0) | Some(2) => -1.0,
                 _ => 1.0,
             };
-            let first_link = net.links.len();
+            let first_link = asm.net().links.len();
             match &element {
                 None => {
                     let law = self.conduction(half);
                     self.push(
-                        net,
+                        asm,
                         format!("{name}.{side}.{label}"),
                         cell,
                         node,
@@ -361,17 +287,21 @@ impl Plan {
                     );
                 }
                 Some((kind, law)) => {
-                    let surface = net.nodes.len();
-                    net.nodes.push(Node {
-                        name: format!("{name}.{side}.{label}"),
-                        span: self.region.span,
-                        fixed: None,
-                        load: 0.0,
-                        generated: true,
-                    });
+                    let origin = Origin {
+                        parent: &name,
+                        def: self.region.span,
+                        decl,
+                    };
+                    let surface = asm.generated_node(
+                        format!("{name}.{side}.{label}"),
+                        self.region.span,
+                        0.0,
+                        symbols,
+                        origin,
+                    );
                     let half_law = self.conduction(half);
                     self.push(
-                        net,
+                        asm,
                         format!("{name}.{side}.{label}.in"),
                         cell,
                         surface,
@@ -379,7 +309,7 @@ impl Plan {
                         "region edge",
                     );
                     self.push(
-                        net,
+                        asm,
                         format!("{name}.{side}.{label}.out"),
                         surface,
                         node,
