@@ -11,6 +11,7 @@
 //! control are described in docs/transient.md.
 
 pub mod factor;
+mod initial;
 pub mod integrate;
 pub mod model;
 pub mod probe;
