@@ -14,6 +14,7 @@ pub mod elaborate;
 pub mod elements;
 pub mod eval;
 pub mod expand;
+pub mod fluid;
 pub mod format;
 pub mod laws;
 pub mod lexer;
