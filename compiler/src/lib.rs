@@ -9,6 +9,7 @@ pub mod analysis;
 pub mod budget;
 pub mod compare;
 pub mod conductivity;
+pub mod convection;
 pub mod diagnostic;
 pub mod elaborate;
 pub mod elements;

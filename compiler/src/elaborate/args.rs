@@ -28,6 +28,8 @@ pub(super) enum Value {
     Table(Vec<(f64, f64)>),
     /// The name of a node, resolved by the declaration's own code.
     NodeName,
+    /// One of the words of a [`ArgType::Choice`].
+    Choice(&'static str),
 }
 
 /// The arguments of one declaration after checking.
@@ -267,6 +269,7 @@ impl Cx<'_> {
                     None
                 }
             },
+            ArgType::Choice(words) => self.choice(spec, words, e).map(Value::Choice),
             ArgType::Conductivity if kt::is_table(e) => self.k_table(e).map(Value::Table),
             ArgType::Scheduled(dim) => match self.schedule_value(spec, dim, e) {
                 Some(v) => v.map(Value::Schedule),
@@ -406,6 +409,49 @@ impl Cx<'_> {
             .with_help(format!("give {what} a positive value")),
         );
         false
+    }
+
+    /// One of the words a [`ArgType::Choice`] argument takes (E221 otherwise).
+    fn choice(
+        &mut self,
+        spec: &ArgSpec,
+        words: &'static [&'static str],
+        e: &Expr,
+    ) -> Option<&'static str> {
+        if let ExprKind::Name(id) = &e.kind {
+            if let Some(w) = words.iter().find(|w| **w == id.name) {
+                return Some(w);
+            }
+        }
+        let list = words
+            .iter()
+            .map(|w| format!("`{w}`"))
+            .collect::<Vec<_>>()
+            .join(", ");
+        let written = self.written(e);
+        let of = if self.owner.is_empty() {
+            String::new()
+        } else {
+            format!(" of {}", self.owner)
+        };
+        let mut d = Diagnostic::error(
+            "E221",
+            format!("`{}`{of} is one of {list}; `{written}` is not", spec.name),
+            e.span,
+        )
+        .with_label(format!("not one of {list}"));
+        let slip = match &e.kind {
+            ExprKind::Name(id) => did_you_mean(&id.name, words.iter().copied()),
+            _ => None,
+        };
+        d = match slip {
+            Some(s) => d
+                .with_help(format!("did you mean `{s}`?"))
+                .with_fix(format!("Replace with `{s}`"), e.span, s),
+            None => d.with_help(format!("write e.g. `{} = {}`", spec.name, words[0])),
+        };
+        self.diags.push(d);
+        None
     }
 
     /// `NAME` of a declared material. The help names the spec's alternative (`k`, `capacity`).
@@ -581,7 +627,10 @@ impl Cx<'_> {
                 Some(Value::Material(m)) => {
                     values.insert(spec.name, (ArgValue::Material(m), arg.value.span));
                 }
-                // Element kinds take quantities and materials only (see `crate::schema`).
+                Some(Value::Choice(w)) => {
+                    values.insert(spec.name, (ArgValue::Choice(w), arg.value.span));
+                }
+                // Element kinds take quantities, materials and choices only (see `crate::schema`).
                 Some(_) | None => ok = false,
             }
         }

@@ -111,7 +111,7 @@ impl Table {
 }
 
 /// A temperature outside the range a fluid's properties hold for.
-#[derive(Clone, Copy, Debug, PartialEq)]
+#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct OutOfRange {
     /// K
     pub temperature: f64,

@@ -125,7 +125,7 @@ fn argument_tables_are_well_formed() {
                 Range::Positive | Range::Any => {}
             }
             // Names and materials have no range.
-            if matches!(s.ty, ArgType::Material | ArgType::Node) {
+            if matches!(s.ty, ArgType::Material | ArgType::Node | ArgType::Choice(_)) {
                 assert_eq!(s.range, Range::Any, "{owner}.{}", s.name);
             }
         }
