@@ -32,12 +32,12 @@ const EMISSIVITY: ArgSpec = q(
     "emissivity of the surface, to add radiation to surroundings at the fluid's temperature",
 )
 .fraction();
-const FLUID_END: ArgSpec = choice(
-    "fluid_end",
-    &["to", "from"],
-    "which end of the link is the fluid: `from` for an inner film of a build-up",
+const DIRECTION: ArgSpec = choice(
+    "direction",
+    &["surface_to_fluid", "fluid_to_surface"],
+    "which way the link runs: `fluid_to_surface` for an inner film of a build-up",
 )
-.default("to");
+.default("surface_to_fluid");
 const FACING: ArgSpec = choice(
     "facing",
     &["up", "down"],
@@ -68,7 +68,7 @@ const WALL_ARGS: &[ArgSpec] = &[
     AREA,
     PRESSURE,
     EMISSIVITY,
-    FLUID_END,
+    DIRECTION,
 ];
 const CYLINDER_ARGS: &[ArgSpec] = &[
     FLUID,
@@ -76,7 +76,7 @@ const CYLINDER_ARGS: &[ArgSpec] = &[
     AREA,
     PRESSURE,
     EMISSIVITY,
-    FLUID_END,
+    DIRECTION,
 ];
 const PLATE_ARGS: &[ArgSpec] = &[
     FLUID,
@@ -88,7 +88,7 @@ const PLATE_ARGS: &[ArgSpec] = &[
     AREA,
     PRESSURE,
     EMISSIVITY,
-    FLUID_END,
+    DIRECTION,
 ];
 const SPHERE_ARGS: &[ArgSpec] = &[
     FLUID,
@@ -96,7 +96,7 @@ const SPHERE_ARGS: &[ArgSpec] = &[
     AREA,
     PRESSURE,
     EMISSIVITY,
-    FLUID_END,
+    DIRECTION,
 ];
 const CROSSFLOW_ARGS: &[ArgSpec] = &[
     FLUID,
@@ -105,7 +105,7 @@ const CROSSFLOW_ARGS: &[ArgSpec] = &[
     AREA,
     PRESSURE,
     EMISSIVITY,
-    FLUID_END,
+    DIRECTION,
 ];
 const PLATE_FLOW_ARGS: &[ArgSpec] = &[
     FLUID,
@@ -115,7 +115,7 @@ const PLATE_FLOW_ARGS: &[ArgSpec] = &[
     BOUNDARY_LAYER,
     PRESSURE,
     EMISSIVITY,
-    FLUID_END,
+    DIRECTION,
 ];
 const PIPE_ARGS: &[ArgSpec] = &[
     FLUID,
@@ -124,7 +124,7 @@ const PIPE_ARGS: &[ArgSpec] = &[
     AREA,
     WALL,
     PRESSURE,
-    FLUID_END,
+    DIRECTION,
 ];
 
 /// Natural convection from a vertical wall or plate (Churchill–Chu).
@@ -184,7 +184,7 @@ fn film_law(a: &Args, correlation: Correlation, text: String) -> Result<(LinkLaw
         fluid: fluid(a)?,
         area,
         emissivity: a.get("emissivity"),
-        fluid_at_from: a.choice("fluid_end") == Some("from"),
+        fluid_at_from: a.choice("direction") == Some("fluid_to_surface"),
     };
     // For reference only (the solve evaluates h at every iterate): a surface 10 K above the
     // fluid at 20 °C, or 10 K below it at 60 °C for water, inside both fluids' ranges.
