@@ -151,6 +151,10 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
         out.push_str(&format!("Element figures (dimensionless)\n{t}\n\n"));
     }
 
+    if !sol.films.is_empty() {
+        out.push_str(&films_table(a, system));
+    }
+
     for r in &net.regions {
         let field = r.field(&sol.temperatures, &sol.heat_flows);
         let (lo, hi) = field
@@ -211,6 +215,89 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
     out
 }
 
+/// Computed films at the solved temperatures: the correlation, the groups, h and the heat by
+/// convection and by radiation, each on its own.
+fn films_table(a: &Analysis, system: UnitSystem) -> String {
+    let (net, Some(sol)) = (&a.network, a.solution.as_ref()) else {
+        return String::new();
+    };
+    let group = |v: Option<f64>| v.map(|v| format!("{v:.4e}")).unwrap_or_else(|| "—".into());
+    let coeff = |v: f64| {
+        show(
+            v,
+            Dim::HEAT_TRANSFER_COEFF,
+            TempKind::NotTemperature,
+            system,
+        )
+    };
+    let power = |v: f64| show(v, Dim::POWER, TempKind::NotTemperature, system);
+    let mut t = new_table(&[
+        "film",
+        "at",
+        "Re",
+        "Gr",
+        "Ra",
+        "Pr",
+        "Nu",
+        "h",
+        "h radiation",
+        "convection",
+        "radiation",
+    ]);
+    let mut names = String::new();
+    for f in &sol.films {
+        let s = &f.state;
+        let name = &net.links[f.link].name;
+        t.add_row(vec![
+            Cell::new(name),
+            Cell::new(show(
+                s.property_temperature,
+                Dim::TEMPERATURE,
+                TempKind::Point,
+                system,
+            )),
+            Cell::new(group(s.reynolds)),
+            Cell::new(group(s.grashof)),
+            Cell::new(group(s.rayleigh)),
+            Cell::new(format!("{:.4}", s.prandtl)),
+            Cell::new(format!("{:.4}", s.nusselt)),
+            Cell::new(coeff(s.h)),
+            Cell::new(coeff(s.h_radiation)),
+            Cell::new(power(s.q_convection)),
+            Cell::new(power(s.q_radiation)),
+        ]);
+        names.push_str(&format!(
+            "  {name}: {} in {} ({})\n",
+            f.correlation, f.fluid, s.regime
+        ));
+    }
+    right(&mut t, &[1, 2, 3, 4, 5, 6, 7, 8, 9, 10]);
+    format!(
+        "Computed films (properties at the film temperature, bulk temperature for pipe flow; heat from the surface)\n{t}\n{names}\n"
+    )
+}
+
+/// The JSON of a computed film at the solved temperatures.
+fn film_json(f: &caloris_compiler::convection::report::FilmResult) -> Value {
+    let s = &f.state;
+    json!({
+        "correlation": f.correlation,
+        "fluid": f.fluid,
+        "regime": s.regime,
+        "property_temperature_K": s.property_temperature,
+        "reynolds": s.reynolds,
+        "grashof": s.grashof,
+        "rayleigh": s.rayleigh,
+        "prandtl": s.prandtl,
+        "nusselt": s.nusselt,
+        "h_W_per_m2K": s.h,
+        "h_radiation_W_per_m2K": s.h_radiation,
+        "convection_W": s.q_convection,
+        "radiation_W": s.q_radiation,
+        "outside_range": s.outside.iter().map(|(g, v, lo, hi)| json!({"group": g, "value": v, "low": lo, "high": if hi.is_finite() { Some(*hi) } else { None }})).collect::<Vec<_>>(),
+    })
+}
+
 trait MeasureDim {
     fn measure_dim(&self) -> Dim;
 }
@@ -236,6 +323,12 @@ pub fn json(a: &Analysis) -> String {
     for f in &net.figures {
         if let Some(m) = figures_of.get_mut(f.link) {
             m.insert(f.name.to_string(), json!(f.value));
+        }
+    }
+    let mut film_of = vec![Value::Null; net.links.len()];
+    for f in sol.map(|s| s.films.as_slice()).unwrap_or_default() {
+        if let Some(slot) = film_of.get_mut(f.link) {
+            *slot = film_json(f);
         }
     }
     let nodes: Vec<Value> = net
@@ -271,6 +364,7 @@ pub fn json(a: &Analysis) -> String {
                 "buildup_use": l.group.map(|g| net.groups[g].name.clone()),
                 "formula": l.formula,
                 "figures": std::mem::take(&mut figures_of[i]),
+                "film": std::mem::take(&mut film_of[i]),
             })
         })
         .collect();

@@ -351,8 +351,11 @@ pub fn run(args: RunCli) -> u8 {
                 // or a k(T) left the range where it is positive.
                 caloris_compiler::transient::RunError::NoConvergence { .. }
                 | caloris_compiler::transient::RunError::SteadyStart(_)
-                | caloris_compiler::transient::RunError::NonPhysicalConductivity { .. } => {
-                    let help = if matches!(
+                | caloris_compiler::transient::RunError::NonPhysicalConductivity { .. }
+                | caloris_compiler::transient::RunError::FilmOutOfRange { .. } => {
+                    let help = if matches!(e, caloris_compiler::transient::RunError::FilmOutOfRange { .. }) {
+                        "no temperatures are reported; the computed film's fluid left the temperatures its properties hold for: check the schedules, loads and initial temperatures, or state the film's h with `film(h = …)`"
+                    } else if matches!(
                         e,
                         caloris_compiler::transient::RunError::NoConvergence { .. }
                             | caloris_compiler::transient::RunError::SteadyStart(

@@ -192,10 +192,37 @@ fn study_json_agrees_with_series_resistances() {
         .as_f64()
         .expect("heat flow");
     // Series resistances per area (Fourier's law for the layers, Newton's law of cooling for the
-    // films): R'' = 1/500 + 0.002/50 + 0.050/0.028 + 1/8 m²·K/W over the cylinder's area
-    // π·0.45·1.0 + 2·π·0.225² m², with 60 − 12 = 48 K across.
-    let r = 1.0 / 500.0 + 0.002 / 50.0 + 0.050 / 0.028 + 1.0 / 8.0;
+    // films) over the cylinder's area π·0.45·1.0 + 2·π·0.225² m², with 60 − 12 = 48 K across.
+    // The films are computed: their h (and the outer film's radiation, as an equivalent h over
+    // its temperature difference) are read from the steady solve of the same point.
+    let (code, solved, err) = out(&[
+        "solve",
+        TANK,
+        "--case",
+        "cold_cupboard",
+        "--set",
+        "jacket=50mm",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let s: serde_json::Value = serde_json::from_str(&solved).expect("json");
+    let find = |list: &str, name: &str| -> serde_json::Value {
+        s[list]
+            .as_array()
+            .expect("list")
+            .iter()
+            .find(|x| x["name"] == name)
+            .expect("named")
+            .clone()
+    };
+    let num = |v: &serde_json::Value| v.as_f64().expect("number");
     let area = std::f64::consts::PI * 0.45 + 2.0 * std::f64::consts::PI * 0.225 * 0.225;
+    let h_in = num(&find("links", "wall.inner_film")["film"]["h_W_per_m2K"]);
+    let outer = find("links", "wall.outer_film")["film"].clone();
+    let skin = num(&find("nodes", "wall.foam")["temperature_K"]) - (12.0 + 273.15);
+    let h_out = num(&outer["h_W_per_m2K"]) + num(&outer["radiation_W"]) / (area * skin);
+    let r = 1.0 / h_in + 0.002 / 50.0 + 0.050 / 0.028 + 1.0 / h_out;
     let expected = 48.0 * area / r;
     assert!((q - expected).abs() < 1e-9 * expected, "{q} vs {expected}");
     assert_eq!(v["points"][0]["all_limits_pass"], true);

@@ -1,7 +1,7 @@
 //! The one analysis entry point shared by the command-line tool and the language server:
 //! source text in; syntax trees, symbols, diagnostics, network and solution out.
 
-use crate::diagnostic::Diagnostic;
+use crate::diagnostic::{Diagnostic, Severity};
 use crate::elaborate::{check_buildup_kinds, elaborate};
 use crate::elements::Material;
 use crate::limits::LimitSpec;
@@ -209,7 +209,14 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
             Ok((t, conv)) => {
                 let mut sol = Solution::new(&analysis.network, t, &analysis.limits);
                 sol.convergence = Some(conv);
-                analysis.solution = Some(sol);
+                // The ranges of the correlations and fluids are judged at the answer, where
+                // the surface temperatures and h agree (iterates may stray outside them).
+                let checks = crate::convection::report::checks(&analysis.network, &sol.films);
+                let failed = checks.iter().any(|d| d.severity == Severity::Error);
+                analysis.diagnostics.extend(checks);
+                if !failed {
+                    analysis.solution = Some(sol);
+                }
             }
             Err(e) => analysis
                 .diagnostics

@@ -1,6 +1,6 @@
 //! How each link law turns its two end temperatures into a heat flow, with the slopes Newton's
 //! method needs. Linear links keep their constant conductance; radiation and conduction with
-//! k(T) are the nonlinear ones.
+//! k(T) and computed convection films are the nonlinear ones.
 
 use crate::network::{Link, LinkLaw};
 
@@ -36,6 +36,7 @@ impl LinkLaw {
                 shape * conductivity.k(t_from),
                 -shape * conductivity.k(t_to),
             ),
+            LinkLaw::Convection(film) => film.flow(t_from, t_to),
         }
     }
 

@@ -34,6 +34,9 @@ pub enum LinkLaw {
         shape: f64,
         conductivity: crate::conductivity::Conductivity,
     },
+    /// Q = h·A·(T_s − T_f) (+ ε·σ·A·(T_s⁴ − T_f⁴)) with h from a convection correlation and the
+    /// fluid's properties at these temperatures (see `crate::convection`).
+    Convection(Box<crate::convection::FilmLaw>),
 }
 
 #[derive(Clone, Debug, Serialize)]

@@ -1,5 +1,5 @@
-//! Steady solve of networks with nonlinear links (radiation, k(T)) by Newton's method with a
-//! damped step.
+//! Steady solve of networks with nonlinear links (radiation, k(T), computed convection films)
+//! by Newton's method with a damped step.
 //!
 //! Each step solves J·δ = −F, where F is the heat balance of every free node and J its
 //! Jacobian. J is not symmetric once a link's slopes differ at its two ends (radiation gives
@@ -255,7 +255,12 @@ fn initial_guess(net: &Network) -> Result<Temperatures, SolveError> {
     };
     let mut lin = net.clone();
     for l in &mut lin.links {
-        if !l.law.is_linear() {
+        if let LinkLaw::Convection(_) = l.law {
+            // A natural-convection h vanishes with the temperature difference on some plates;
+            // the secant over a typical 20 K difference starts every film with a sound slope.
+            let g = l.law.conductance_at(mean + 10.0, mean - 10.0);
+            l.law = LinkLaw::Linear { conductance: g };
+        } else if !l.law.is_linear() {
             let g = l.law.flow(mean, mean).1;
             l.law = LinkLaw::Linear { conductance: g };
         }

@@ -35,11 +35,14 @@ impl UseArgs {
                     v.extend(radius.map(|(r, rs)| ("area", 2.0 * PI * r * l, rs)));
                 }
                 v.extend(radius.map(|(r, rs)| ("inner_radius", r, rs)));
+                // For computed films only (the caller filters): the surface's diameter.
+                v.extend(radius.map(|(r, rs)| ("diameter", 2.0 * r, rs)));
             }
             Geometry::Sphere => {
                 if let Some((r, rs)) = radius {
                     v.push(("inner_radius", r, rs));
                     v.push(("area", 4.0 * PI * r * r, rs));
+                    v.push(("diameter", 2.0 * r, rs));
                 }
             }
         }

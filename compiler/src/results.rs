@@ -40,6 +40,9 @@ pub struct Solution {
     pub limits: Vec<LimitResult>,
     /// How the nonlinear solve converged; `None` for a linear network (one direct solve).
     pub convergence: Option<crate::nonlinear::Convergence>,
+    /// Computed convection films at the solved temperatures: groups, h, heat by convection and
+    /// by radiation.
+    pub films: Vec<crate::convection::report::FilmResult>,
 }
 
 impl Solution {
@@ -92,7 +95,9 @@ impl Solution {
             groups,
             limits: Vec::new(),
             convergence: None,
+            films: Vec::new(),
         };
+        sol.films = crate::convection::report::film_results(net, &sol.temperatures);
         sol.limits = limit_specs
             .iter()
             .map(|s| limits::verdict(s, sol.measure(net, s.measure, s.subject)))

@@ -9,7 +9,7 @@ use crate::schema::{self, DECLARATIONS, FUNCTIONS, MEASURES, REGION_SIDES};
 const OTHER_NAMES: &[&str] = &["index", "first", "previous", "table"];
 
 /// Every word of the schema (declaration words and keywords, every declaration's and element
-/// kind's argument names, functions and constants, limit measures, region sides) and
+/// kind's argument names and the words of its choices, functions and constants, limit measures, region sides) and
 /// [`OTHER_NAMES`], sorted, each once.
 pub fn words() -> Vec<&'static str> {
     let mut out: Vec<&'static str> = schema::keywords()
@@ -26,6 +26,11 @@ pub fn words() -> Vec<&'static str> {
     for kind in schema::element_kinds() {
         out.push(kind.name());
         out.extend(kind.params().iter().map(|p| p.name));
+        for p in kind.params() {
+            if let schema::ArgType::Choice(words) = p.ty {
+                out.extend(words.iter().copied());
+            }
+        }
     }
     out.sort_unstable();
     out.dedup();

@@ -28,11 +28,14 @@ fn value(s: &ArgSpec) -> &'static str {
         "emissivity_to" => return "0.8",
         "view_factor" => return "0.5",
         "start" => return "0 h",
+        "velocity" => return "2 m/s",
+        "pressure" => return "1 atm",
         _ => {}
     }
     match s.ty {
         ArgType::Material => "brick",
         ArgType::Node => "b",
+        ArgType::Choice(words) => words[0],
         ArgType::Temperature | ArgType::Scheduled(Dim::TEMPERATURE) => "20 °C",
         ArgType::TemperatureDifference => "0.01 K",
         ArgType::Conductivity => "1 W/(m*K)",

@@ -61,7 +61,8 @@ Read when Eglot loads; after changing it, evaluate
 (defconst caloris-element-kinds
   '("layer" "film" "contact" "resistance" "conductance"
     "cylinder" "sphere" "radiation" "buried_pipe" "buried_sphere"
-    "parallel_cylinders" "fin" "heated_slab" "heated_rod")
+    "parallel_cylinders" "fin" "heated_slab" "heated_rod"
+    "natural_wall" "natural_cylinder" "natural_plate" "natural_sphere" "crossflow_cylinder" "plate_flow" "pipe_flow")
   "Element kinds of Caloris links.")
 
 (defconst caloris-builtin-functions

@@ -107,7 +107,19 @@ pub fn completion(snap: &Snapshot, pos: Position) -> Vec<CompletionItem> {
         Slot::ArgName => arg_names(snap, &ctx, range),
         Slot::ArgValue => {
             let material = ctx.call.as_ref().is_some_and(|c| wants_material(c, a));
-            if material {
+            let choice = ctx.call.as_ref().and_then(|c| current_spec(c, a));
+            if let Some(ArgSpec {
+                ty: ArgType::Choice(words),
+                doc,
+                ..
+            }) = choice
+            {
+                // A choice takes one of its words and nothing else.
+                words
+                    .iter()
+                    .map(|w| item(range, w, w, CompletionItemKind::ENUM_MEMBER, doc))
+                    .collect()
+            } else if material {
                 plain(names(&[SymbolKind::Material]))
             } else {
                 expression(range, plain(names(&[SymbolKind::Param])))

@@ -284,6 +284,9 @@ fn link(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
                 both(point(sol.temperatures[link.to]), sys)
             );
         }
+        for &l in &group.links {
+            out.push_str(&link_figures::film(sol, l, sys));
+        }
         return out;
     }
     if let Some(r) = net.regions.iter().find(|r| r.name == s.name) {
@@ -311,6 +314,7 @@ fn link(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
     let Some(sol) = sol else {
         return format!("{out}\n\n{}", unsolved(snap));
     };
+    out.push_str(&link_figures::film(sol, l, sys));
     let flow = sol.heat_flows[l];
     let _ = write!(out, "\n\n{}", flow_line(flow, from, to, sys));
     if let Some(area) = link.area {

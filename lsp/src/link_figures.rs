@@ -16,6 +16,7 @@ pub fn nonlinear_reason(link: &Link) -> Option<&'static str> {
         LinkLaw::Linear { .. } => None,
         LinkLaw::Radiation { .. } => Some("radiation is nonlinear"),
         LinkLaw::Conduction { .. } => Some("the conductivity depends on temperature"),
+        LinkLaw::Convection(_) => Some("the film coefficient depends on the temperatures"),
     }
 }
 
@@ -53,6 +54,50 @@ pub fn figures(net: &Network, link: usize) -> String {
     } else {
         format!("\n\nFigures:{out}")
     }
+}
+
+/// The groups and coefficients of a computed film at the solved temperatures, or nothing.
+pub fn film(sol: &Solution, link: usize, sys: UnitSystem) -> String {
+    let Some(f) = sol.films.iter().find(|f| f.link == link) else {
+        return String::new();
+    };
+    let s = &f.state;
+    let mut groups = Vec::new();
+    for (name, v) in [("Re", s.reynolds), ("Gr", s.grashof), ("Ra", s.rayleigh)] {
+        if let Some(v) = v {
+            groups.push(format!("{name} = {}", format_number(v)));
+        }
+    }
+    groups.push(format!("Pr = {}", format_number(s.prandtl)));
+    groups.push(format!("Nu = {}", format_number(s.nusselt)));
+    let mut out = format!(
+        "\n\nFilm: {} in {} ({}), properties at {}\n- {}\n- h = {}",
+        f.correlation,
+        f.fluid,
+        s.regime,
+        both(point(s.property_temperature), sys),
+        groups.join(" · "),
+        both(q(s.h, Dim::HEAT_TRANSFER_COEFF), sys),
+    );
+    if s.h_radiation > 0.0 {
+        let _ = write!(
+            out,
+            " · radiation h = {}\n- convection {} · radiation {}",
+            both(q(s.h_radiation, Dim::HEAT_TRANSFER_COEFF), sys),
+            both(q(s.q_convection, Dim::POWER), sys),
+            both(q(s.q_radiation, Dim::POWER), sys),
+        );
+    }
+    for (group, value, low, high) in &s.outside {
+        let _ = write!(
+            out,
+            "\n- ⚠ {group} = {} is outside the correlation's range ({} … {})",
+            format_number(*value),
+            format_number(*low),
+            format_number(*high)
+        );
+    }
+    out
 }
 
 /// Size, cells and the solved temperature range of a region.

@@ -12,7 +12,6 @@ use crate::elements::{ArgValue, Args, ElementKind, Material};
 use crate::eval::{expect_dim, expect_point};
 use crate::schema::{ArgSpec, ArgType, Need, Range};
 use crate::span::Span;
-use crate::symbols::SymbolKind;
 use crate::syntax::{Arg, Expr, ExprKind, Ident};
 use crate::units::{Dim, Quantity, TempKind};
 use rustc_hash::FxHashMap;
@@ -28,6 +27,8 @@ pub(super) enum Value {
     Table(Vec<(f64, f64)>),
     /// The name of a node, resolved by the declaration's own code.
     NodeName,
+    /// One of the words of a [`ArgType::Choice`].
+    Choice(&'static str),
 }
 
 /// The arguments of one declaration after checking.
@@ -267,6 +268,7 @@ impl Cx<'_> {
                     None
                 }
             },
+            ArgType::Choice(words) => self.choice(spec, words, e).map(Value::Choice),
             ArgType::Conductivity if kt::is_table(e) => self.k_table(e).map(Value::Table),
             ArgType::Scheduled(dim) => match self.schedule_value(spec, dim, e) {
                 Some(v) => v.map(Value::Schedule),
@@ -408,68 +410,46 @@ impl Cx<'_> {
         false
     }
 
-    /// `NAME` of a declared material. The help names the spec's alternative (`k`, `capacity`).
-    fn material_ref(&mut self, spec: &ArgSpec, e: &Expr) -> Option<Material> {
-        let other = match spec.need {
-            Need::Either(o) | Need::Instead(o) => Some(o),
+    /// One of the words a [`ArgType::Choice`] argument takes (E221 otherwise).
+    fn choice(
+        &mut self,
+        spec: &ArgSpec,
+        words: &'static [&'static str],
+        e: &Expr,
+    ) -> Option<&'static str> {
+        if let ExprKind::Name(id) = &e.kind {
+            if let Some(w) = words.iter().find(|w| **w == id.name) {
+                return Some(w);
+            }
+        }
+        let list = words
+            .iter()
+            .map(|w| format!("`{w}`"))
+            .collect::<Vec<_>>()
+            .join(", ");
+        let written = self.written(e);
+        let of = if self.owner.is_empty() {
+            String::new()
+        } else {
+            format!(" of {}", self.owner)
+        };
+        let mut d = Diagnostic::error(
+            "E221",
+            format!("`{}`{of} is one of {list}; `{written}` is not", spec.name),
+            e.span,
+        )
+        .with_label(format!("not one of {list}"));
+        let slip = match &e.kind {
+            ExprKind::Name(id) => did_you_mean(&id.name, words.iter().copied()),
             _ => None,
         };
-        let ExprKind::Name(id) = &e.kind else {
-            let help = match other {
-                Some(o) => format!("name a declared material, or give `{o} = ...` instead"),
-                None => "name a declared material".to_string(),
-            };
-            self.diags.push(
-                Diagnostic::error(
-                    "E101",
-                    format!("`{}` expects the name of a material", spec.name),
-                    e.span,
-                )
-                .with_label("not a material name")
-                .with_help(help),
-            );
-            return None;
-        };
-        if let Some(m) = self.material_named(&id.name).cloned() {
-            self.symbols.add_ref(&id.name, id.span);
-            return Some(m);
-        }
-        if self
-            .symbols
-            .get(&id.name)
-            .is_some_and(|s| s.kind == SymbolKind::Material)
-        {
-            // The material failed its own check, which is reported there.
-            self.symbols.add_ref(&id.name, id.span);
-            return None;
-        }
-        let known: Vec<&str> = self.symbols.names_of(SymbolKind::Material).collect();
-        let mut d = match self.symbols.get(&id.name) {
-            Some(s) => Diagnostic::error(
-                "E105",
-                format!("`{}` is {}, not a material", id.name, s.kind.article()),
-                id.span,
-            )
-            .with_label("a material was expected"),
-            None => Diagnostic::error("E102", format!("unknown material `{}`", id.name), id.span)
-                .with_label("no material has this name"),
-        };
-        // A material that gives a capacity needs its density and specific heat too.
-        let example = if other == Some("capacity") {
-            "k = 0.6 W/(m*K), density = 1000 kg/m^3, specific_heat = 4180 J/(kg*K)"
-        } else {
-            "k = 0.04 W/(m*K)"
-        };
-        d = match did_you_mean(&id.name, known) {
+        d = match slip {
             Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
                 format!("Replace with `{s}`"),
-                id.span,
+                e.span,
                 s,
             ),
-            None => d.with_help(format!(
-                "declare it, e.g. `material {} ({example})`",
-                id.name
-            )),
+            None => d.with_help(format!("write e.g. `{} = {}`", spec.name, words[0])),
         };
         self.diags.push(d);
         None
@@ -581,7 +561,10 @@ impl Cx<'_> {
                 Some(Value::Material(m)) => {
                     values.insert(spec.name, (ArgValue::Material(m), arg.value.span));
                 }
-                // Element kinds take quantities and materials only (see `crate::schema`).
+                Some(Value::Choice(w)) => {
+                    values.insert(spec.name, (ArgValue::Choice(w), arg.value.span));
+                }
+                // Element kinds take quantities, materials and choices only (see `crate::schema`).
                 Some(_) | None => ok = false,
             }
         }

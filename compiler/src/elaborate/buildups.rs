@@ -111,12 +111,16 @@ impl Cx<'_> {
                 call.kind.name,
                 name.name
             );
-            let args = self.args(
-                kind,
-                &e.element.args,
-                e.element.span,
-                &use_args.supplied(geom, chain.radius),
-            );
+            // The surface's diameter goes to computed films only: other kinds with a `diameter`
+            // (a buried pipe) state their own.
+            let supplied: Vec<_> = use_args
+                .supplied(geom, chain.radius)
+                .into_iter()
+                .filter(|s| {
+                    s.0 != "diameter" || elements::convection::is_computed_film(kind.name())
+                })
+                .collect();
+            let args = self.args(kind, &e.element.args, e.element.span, &supplied);
             let built = args.as_ref().and_then(|a| self.checked_law(kind, a));
             chain.advance(
                 i,

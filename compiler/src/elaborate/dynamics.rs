@@ -280,7 +280,7 @@ pub fn biot_number_at(
         if l.from != node && l.to != node {
             continue;
         }
-        if l.kind == "film" {
+        if l.kind == "film" || matches!(l.law, crate::network::LinkLaw::Convection(_)) {
             if let Some(area) = l.area {
                 g += l.conductance_at(temps);
                 a += area;

@@ -4,10 +4,11 @@
 use super::args::Value;
 use super::Cx;
 use crate::conductivity::material_args as kt;
-use crate::diagnostic::Diagnostic;
+use crate::diagnostic::{did_you_mean, Diagnostic};
 use crate::elements::{self, Material};
 use crate::eval::expect_point;
 use crate::schema::{self, ArgSpec, Need};
+use crate::symbols::SymbolKind;
 use crate::syntax::{Arg, Expr, ExprKind, Ident, Item, ItemKind};
 use crate::units::Dim;
 
@@ -134,5 +135,72 @@ impl Cx<'_> {
                     .with_help("check the value and its unit (a common slip is W/(m·K) vs mW/(m·K)); the range is common practice for solids"),
             );
         }
+    }
+
+    /// `NAME` of a declared material. The help names the spec's alternative (`k`, `capacity`).
+    pub(super) fn material_ref(&mut self, spec: &ArgSpec, e: &Expr) -> Option<Material> {
+        let other = match spec.need {
+            Need::Either(o) | Need::Instead(o) => Some(o),
+            _ => None,
+        };
+        let ExprKind::Name(id) = &e.kind else {
+            let help = match other {
+                Some(o) => format!("name a declared material, or give `{o} = ...` instead"),
+                None => "name a declared material".to_string(),
+            };
+            self.diags.push(
+                Diagnostic::error(
+                    "E101",
+                    format!("`{}` expects the name of a material", spec.name),
+                    e.span,
+                )
+                .with_label("not a material name")
+                .with_help(help),
+            );
+            return None;
+        };
+        if let Some(m) = self.material_named(&id.name).cloned() {
+            self.symbols.add_ref(&id.name, id.span);
+            return Some(m);
+        }
+        if self
+            .symbols
+            .get(&id.name)
+            .is_some_and(|s| s.kind == SymbolKind::Material)
+        {
+            // The material failed its own check, which is reported there.
+            self.symbols.add_ref(&id.name, id.span);
+            return None;
+        }
+        let known: Vec<&str> = self.symbols.names_of(SymbolKind::Material).collect();
+        let mut d = match self.symbols.get(&id.name) {
+            Some(s) => Diagnostic::error(
+                "E105",
+                format!("`{}` is {}, not a material", id.name, s.kind.article()),
+                id.span,
+            )
+            .with_label("a material was expected"),
+            None => Diagnostic::error("E102", format!("unknown material `{}`", id.name), id.span)
+                .with_label("no material has this name"),
+        };
+        // A material that gives a capacity needs its density and specific heat too.
+        let example = if other == Some("capacity") {
+            "k = 0.6 W/(m*K), density = 1000 kg/m^3, specific_heat = 4180 J/(kg*K)"
+        } else {
+            "k = 0.04 W/(m*K)"
+        };
+        d = match did_you_mean(&id.name, known) {
+            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
+                format!("Replace with `{s}`"),
+                id.span,
+                s,
+            ),
+            None => d.with_help(format!(
+                "declare it, e.g. `material {} ({example})`",
+                id.name
+            )),
+        };
+        self.diags.push(d);
+        None
     }
 }

@@ -163,6 +163,7 @@ fn law_value(law: &LinkLaw) -> (&'static str, f64) {
         LinkLaw::Linear { conductance } => ("conductance", *conductance),
         LinkLaw::Radiation { exchange_area } => ("radiative exchange area", *exchange_area),
         LinkLaw::Conduction { shape, .. } => ("conduction shape factor", *shape),
+        LinkLaw::Convection(f) => ("film area", f.area),
     }
 }
 

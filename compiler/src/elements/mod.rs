@@ -3,6 +3,7 @@
 //! Adding an element is adding one type that implements [`ElementKind`] and listing it in
 //! [`ALL`]; the parser, checker, language server and docs pick it up from here.
 
+pub mod convection;
 pub mod fin;
 pub mod generation;
 mod plane;
@@ -37,6 +38,8 @@ pub use crate::schema::{material, quantity as q, ArgSpec, ArgType};
 pub enum ArgValue {
     Quantity(f64),
     Material(Material),
+    /// One of the words of a choice (`air`).
+    Choice(&'static str),
 }
 
 /// The checked arguments of one element use, by name.
@@ -57,6 +60,12 @@ impl Args {
     pub fn material(&self, name: &str) -> Option<&Material> {
         match self.values.get(name) {
             Some((ArgValue::Material(m), _)) => Some(m),
+            _ => None,
+        }
+    }
+    pub fn choice(&self, name: &str) -> Option<&'static str> {
+        match self.values.get(name) {
+            Some((ArgValue::Choice(w), _)) => Some(w),
             _ => None,
         }
     }
@@ -180,6 +189,13 @@ pub static ALL: &[&dyn ElementKind] = &[
     &fin::Fin,
     &generation::HeatedSlab,
     &generation::HeatedRod,
+    &convection::NaturalWall,
+    &convection::NaturalCylinder,
+    &convection::NaturalPlate,
+    &convection::NaturalSphere,
+    &convection::CrossflowCylinder,
+    &convection::PlateFlow,
+    &convection::PipeFlow,
 ];
 
 pub fn lookup(name: &str) -> Option<&'static dyn ElementKind> {

@@ -46,6 +46,8 @@ pub enum ArgType {
     Material,
     /// The name of a node.
     Node,
+    /// One of a fixed set of words (`fluid = air`, `facing = up`).
+    Choice(&'static [&'static str]),
 }
 
 impl ArgType {
@@ -55,7 +57,7 @@ impl ArgType {
             ArgType::Quantity(d) | ArgType::Scheduled(d) => Some(d),
             ArgType::Temperature | ArgType::TemperatureDifference => Some(Dim::TEMPERATURE),
             ArgType::Conductivity => Some(Dim::CONDUCTIVITY),
-            ArgType::Material | ArgType::Node => None,
+            ArgType::Material | ArgType::Node | ArgType::Choice(_) => None,
         }
     }
 
@@ -75,6 +77,14 @@ impl ArgType {
             ),
             ArgType::Material => "the name of a declared material".to_string(),
             ArgType::Node => "the name of a node".to_string(),
+            ArgType::Choice(words) => format!(
+                "one of {}",
+                words
+                    .iter()
+                    .map(|w| format!("`{w}`"))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ),
         }
     }
 }
@@ -238,6 +248,15 @@ impl ArgSpec {
 /// A positive quantity: the common case among element arguments (thickness, area, k, h, ...).
 pub const fn quantity(name: &'static str, dim: Dim, doc: &'static str) -> ArgSpec {
     ArgSpec::new(name, ArgType::Quantity(dim), doc).positive()
+}
+
+/// One of a fixed set of words.
+pub const fn choice(
+    name: &'static str,
+    words: &'static [&'static str],
+    doc: &'static str,
+) -> ArgSpec {
+    ArgSpec::new(name, ArgType::Choice(words), doc)
 }
 
 /// The name of a declared material.

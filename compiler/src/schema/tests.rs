@@ -124,8 +124,18 @@ fn argument_tables_are_well_formed() {
                 }
                 Range::Positive | Range::Any => {}
             }
+            // The words of a choice are written as names, so none may be a keyword.
+            if let ArgType::Choice(words) = s.ty {
+                for w in words {
+                    assert!(
+                        !super::keywords().any(|k| k == *w),
+                        "{owner}.{}: `{w}` is a keyword",
+                        s.name
+                    );
+                }
+            }
             // Names and materials have no range.
-            if matches!(s.ty, ArgType::Material | ArgType::Node) {
+            if matches!(s.ty, ArgType::Material | ArgType::Node | ArgType::Choice(_)) {
                 assert_eq!(s.range, Range::Any, "{owner}.{}", s.name);
             }
         }

@@ -49,6 +49,15 @@ pub enum RunError {
     SteadyStart(crate::nonlinear::NewtonError),
     /// The k(T) of this link fell to zero or below between its end temperatures at `time`.
     NonPhysicalConductivity { time: f64, link: String },
+    /// A computed film needed its fluid's properties outside their range at `time` (K).
+    FilmOutOfRange {
+        time: f64,
+        link: String,
+        fluid: String,
+        temperature: f64,
+        low: f64,
+        high: f64,
+    },
 }
 
 impl std::fmt::Display for RunError {
@@ -80,6 +89,13 @@ impl std::fmt::Display for RunError {
             RunError::NonPhysicalConductivity { time, link } => write!(
                 f,
                 "the conductivity of `{link}` falls to zero or below between its end temperatures at t = {time:.6e} s"
+            ),
+            RunError::FilmOutOfRange { time, link, fluid, temperature, low, high } => write!(
+                f,
+                "at t = {time:.6e} s the film `{link}` needs the properties of {fluid} at {:.2} °C, outside the range they hold for ({:.2} °C … {:.2} °C)",
+                temperature - 273.15,
+                low - 273.15,
+                high - 273.15
             ),
             RunError::SteadyStart(e) => match e {
                 crate::nonlinear::NewtonError::NoConvergence { iterations, residual, .. } => write!(

@@ -304,6 +304,13 @@ pub fn run_transient(
         .filter(|&l| matches!(net.links[l].law, crate::network::LinkLaw::Conduction { .. }))
         .collect();
     let mut non_physical: Option<(f64, usize)> = None;
+    // Computed films: h follows the temperatures through time; their fluid's range is checked
+    // at every step (an error), their correlation's range noted once per film.
+    let film_links: Vec<usize> = (0..net.links.len())
+        .filter(|&l| matches!(net.links[l].law, crate::network::LinkLaw::Convection(_)))
+        .collect();
+    let mut film_outside: Option<RunError> = None;
+    let mut film_notes: Vec<(usize, String)> = Vec::new();
 
     let mut on_step = |v: &StepView| -> Control {
         let (t, h) = (v.t, v.h);
@@ -401,6 +408,32 @@ pub fn run_transient(
                 }
             }
         }
+        for &l in &film_links {
+            let link = &net.links[l];
+            if let crate::network::LinkLaw::Convection(film) = &link.law {
+                let s = film.state(s0[link.from], s0[link.to]);
+                if let Some(o) = s.properties_outside {
+                    film_outside = Some(RunError::FilmOutOfRange {
+                        time: t1,
+                        link: link.name.clone(),
+                        fluid: film.fluid.describe(),
+                        temperature: o.temperature,
+                        low: o.low,
+                        high: o.high,
+                    });
+                    return Control::Stop;
+                }
+                if let Some(&(group, value, low, high)) = s.outside.first() {
+                    if !film_notes.iter().any(|n| n.0 == l) {
+                        film_notes.push((l, format!(
+                            "film `{}`: from t = {t1:.6e} s {group} = {value:.4e} is outside the range of {} ({low:.4e} … {high:.4e}); h is extrapolated",
+                            link.name,
+                            film.correlation.name()
+                        )));
+                    }
+                }
+            }
+        }
         let stop = hooks.cancel.is_some_and(|c| c.load(Ordering::Relaxed));
         if stop {
             Control::Stop
@@ -422,6 +455,10 @@ pub fn run_transient(
         };
         integrate(&sys, &x0, &settings, &mut on_step)?
     };
+    if let Some(e) = film_outside {
+        return Err(e);
+    }
+    result.notes.extend(film_notes.into_iter().map(|n| n.1));
     if let Some((time, link)) = non_physical {
         return Err(RunError::NonPhysicalConductivity {
             time,

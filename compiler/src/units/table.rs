@@ -105,11 +105,20 @@ pub(crate) const SYMBOLS: &[Symbol] = &[
     sym("N", 1.0, Dim::FORCE, true, "newton"),
     sym("Pa", 1.0, Dim::PRESSURE, true, "pascal"),
     sym("L", LITRE, Dim::VOLUME, true, "litre"),
+    sym("bar", 1e5, Dim::PRESSURE, true, "bar"),
     // Convenience spellings.
     sym("m2", 1.0, Dim::AREA, false, "square metre"),
     sym("m3", 1.0, Dim::VOLUME, false, "cubic metre"),
     // Time outside the SI (no prefixes).
     sym("min", MINUTE, Dim::TIME, false, "minute"),
+    // Pressure outside the SI: the standard atmosphere (NIST SP 811, exact).
+    sym(
+        "atm",
+        101_325.0,
+        Dim::PRESSURE,
+        false,
+        "standard atmosphere",
+    ),
     sym("h", HOUR, Dim::TIME, false, "hour"),
     sym("d", DAY, Dim::TIME, false, "day"),
     // Energy.

@@ -36,7 +36,7 @@ syn match   heatElement   /^\s*\zs\h\w*\ze\s*:/
 " Built-in functions, measures and element kinds (only before a parenthesis)
 syn match   heatFunction  /\<\%(sqrt\|ln\|exp\|abs\|min\|max\)\ze\s*(/
 syn match   heatFunction  /\<\%(temperature\|heat_flow\|heat_flux\|u_value\|r_value\)\ze\s*(/
-syn match   heatFunction  /\<\%(layer\|film\|contact\|resistance\|conductance\|cylinder\|sphere\|radiation\|buried_pipe\|buried_sphere\|parallel_cylinders\|fin\|heated_slab\|heated_rod\)\ze\s*(/
+syn match   heatFunction  /\<\%(layer\|film\|contact\|resistance\|conductance\|cylinder\|sphere\|radiation\|buried_pipe\|buried_sphere\|parallel_cylinders\|fin\|heated_slab\|heated_rod\|natural_wall\|natural_cylinder\|natural_plate\|natural_sphere\|crossflow_cylinder\|plate_flow\|pipe_flow\)\ze\s*(/
 syn keyword heatConstant  pi
 
 " Quantities: a number, then (directly or after one space) a unit with no spaces,
