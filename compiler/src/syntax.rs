@@ -33,9 +33,9 @@ impl BinOp {
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub enum ExprKind {
     /// A number and the unit written after it (`12.5 mm`); `unit` is `None` for a bare number.
+    /// The number as written is the text at the expression's span.
     Number {
         value: f64,
-        text: String,
         unit: Option<(String, Span)>,
     },
     Name(Ident),

@@ -58,7 +58,6 @@ impl Renamer<'_> {
                     let value = if n == "index" { i } else { c };
                     ExprKind::Number {
                         value,
-                        text: format!("{value}"),
                         unit: None,
                     }
                 }

@@ -291,7 +291,6 @@ fn number(cx: Cx, t: Tk, span: Span) -> Result<Expr, PErr> {
     Ok(Expr {
         kind: ExprKind::Number {
             value,
-            text: num_text.to_string(),
             unit,
         },
         span,
