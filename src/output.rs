@@ -222,10 +222,27 @@ fn films_table(a: &Analysis, system: UnitSystem) -> String {
         return String::new();
     };
     let group = |v: Option<f64>| v.map(|v| format!("{v:.4e}")).unwrap_or_else(|| "—".into());
-    let coeff = |v: f64| show(v, Dim::HEAT_TRANSFER_COEFF, TempKind::NotTemperature, system);
+    let coeff = |v: f64| {
+        show(
+            v,
+            Dim::HEAT_TRANSFER_COEFF,
+            TempKind::NotTemperature,
+            system,
+        )
+    };
     let power = |v: f64| show(v, Dim::POWER, TempKind::NotTemperature, system);
     let mut t = new_table(&[
-        "film", "at", "Re", "Gr", "Ra", "Pr", "Nu", "h", "h radiation", "convection", "radiation",
+        "film",
+        "at",
+        "Re",
+        "Gr",
+        "Ra",
+        "Pr",
+        "Nu",
+        "h",
+        "h radiation",
+        "convection",
+        "radiation",
     ]);
     let mut names = String::new();
     for f in &sol.films {
@@ -233,7 +250,12 @@ fn films_table(a: &Analysis, system: UnitSystem) -> String {
         let name = &net.links[f.link].name;
         t.add_row(vec![
             Cell::new(name),
-            Cell::new(show(s.property_temperature, Dim::TEMPERATURE, TempKind::Point, system)),
+            Cell::new(show(
+                s.property_temperature,
+                Dim::TEMPERATURE,
+                TempKind::Point,
+                system,
+            )),
             Cell::new(group(s.reynolds)),
             Cell::new(group(s.grashof)),
             Cell::new(group(s.rayleigh)),
@@ -244,7 +266,10 @@ fn films_table(a: &Analysis, system: UnitSystem) -> String {
             Cell::new(power(s.q_convection)),
             Cell::new(power(s.q_radiation)),
         ]);
-        names.push_str(&format!("  {name}: {} in {} ({})\n", f.correlation, f.fluid, s.regime));
+        names.push_str(&format!(
+            "  {name}: {} in {} ({})\n",
+            f.correlation, f.fluid, s.regime
+        ));
     }
     right(&mut t, &[1, 2, 3, 4, 5, 6, 7, 8, 9, 10]);
     format!(

@@ -776,7 +776,9 @@ impl<'a> Cx<'a> {
             let supplied: Vec<_> = use_args
                 .supplied(geom, chain.radius)
                 .into_iter()
-                .filter(|s| s.0 != "diameter" || elements::convection::is_computed_film(kind.name()))
+                .filter(|s| {
+                    s.0 != "diameter" || elements::convection::is_computed_film(kind.name())
+                })
                 .collect();
             let args = self.args(kind, &e.element.args, e.element.span, &supplied);
             let built = args.as_ref().and_then(|a| self.checked_law(kind, a));

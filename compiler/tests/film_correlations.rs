@@ -48,7 +48,9 @@ fn natural_convection_against_ht_conv_free_immersed() {
     check("plate_facing_down_mcadams", |p| {
         c::plate_facing_down_mcadams(f(p, "ra"))
     });
-    check("sphere_churchill", |p| c::sphere_churchill(f(p, "ra"), f(p, "pr")));
+    check("sphere_churchill", |p| {
+        c::sphere_churchill(f(p, "ra"), f(p, "pr"))
+    });
 }
 
 #[test]

@@ -18,7 +18,13 @@ fn points(key: &str) -> Vec<Value> {
 }
 
 fn check(fluid: Fluid, key: &str, tolerance: [f64; 5]) -> usize {
-    let names = ["density", "specific heat", "viscosity", "conductivity", "expansion"];
+    let names = [
+        "density",
+        "specific heat",
+        "viscosity",
+        "conductivity",
+        "expansion",
+    ];
     let mut n = 0;
     for p in points(key) {
         let t = p["T"].as_f64().expect("T");

@@ -25,7 +25,10 @@ fn hover_of_a_computed_film_shows_its_groups_and_h() {
     };
     let text = m.value;
     assert!(text.contains("Churchill–Chu, vertical plate"), "{text}");
-    assert!(text.contains("Ra = ") && text.contains("Pr = ") && text.contains("Nu = "), "{text}");
+    assert!(
+        text.contains("Ra = ") && text.contains("Pr = ") && text.contains("Nu = "),
+        "{text}"
+    );
     assert!(text.contains("radiation h = "), "{text}");
     let sol = snap.analysis.solution.as_ref().expect("solved");
     let film = &sol.films[0];

@@ -26,7 +26,8 @@ pub const GRAVITY: f64 = 9.80665;
 /// Churchill–Chu (1975) for a vertical plate or wall, the whole range of Ra:
 /// Nu = {0.825 + 0.387·Ra^(1/6) / [1 + (0.492/Pr)^(9/16)]^(8/27)}².
 pub fn vertical_plate_churchill_chu(ra: f64, pr: f64) -> f64 {
-    let t = 0.825 + 0.387 * ra.powf(1.0 / 6.0) / (1.0 + (0.492 / pr).powf(9.0 / 16.0)).powf(8.0 / 27.0);
+    let t =
+        0.825 + 0.387 * ra.powf(1.0 / 6.0) / (1.0 + (0.492 / pr).powf(9.0 / 16.0)).powf(8.0 / 27.0);
     t * t
 }
 pub const VERTICAL_PLATE_RANGE: &[Validity] = &[Validity::new("Ra", 0.1, 1e12)];
@@ -34,7 +35,8 @@ pub const VERTICAL_PLATE_RANGE: &[Validity] = &[Validity::new("Ra", 0.1, 1e12)];
 /// Churchill–Chu (1975) for a long horizontal cylinder:
 /// Nu = {0.60 + 0.387·Ra^(1/6) / [1 + (0.559/Pr)^(9/16)]^(8/27)}².
 pub fn horizontal_cylinder_churchill_chu(ra: f64, pr: f64) -> f64 {
-    let t = 0.60 + 0.387 * ra.powf(1.0 / 6.0) / (1.0 + (0.559 / pr).powf(9.0 / 16.0)).powf(8.0 / 27.0);
+    let t =
+        0.60 + 0.387 * ra.powf(1.0 / 6.0) / (1.0 + (0.559 / pr).powf(9.0 / 16.0)).powf(8.0 / 27.0);
     t * t
 }
 pub const HORIZONTAL_CYLINDER_RANGE: &[Validity] = &[Validity::new("Ra", 1e-5, 1e12)];
@@ -49,7 +51,10 @@ pub fn plate_facing_up_lloyd_moran(ra: f64) -> f64 {
         0.15 * ra.powf(1.0 / 3.0)
     }
 }
-pub const PLATE_UP_RANGE: &[Validity] = &[Validity::new("Ra", 1e4, 1e11), Validity::new("Pr", 0.7, f64::INFINITY)];
+pub const PLATE_UP_RANGE: &[Validity] = &[
+    Validity::new("Ra", 1e4, 1e11),
+    Validity::new("Pr", 0.7, f64::INFINITY),
+];
 
 /// The hot face of a horizontal plate facing down (or a cold face facing up), the stable
 /// case: Nu = 0.27·Ra^(1/4) (McAdams 1954), characteristic length A/P.
@@ -62,9 +67,13 @@ pub const PLATE_DOWN_RANGE: &[Validity] = &[Validity::new("Ra", 1e5, 1e10)];
 /// Nu = 2 + 0.589·Ra^(1/4) / [1 + (0.469/Pr)^(9/16)]^(4/9) · {1 + 7.44e-8·Ra / [1 + (0.469/Pr)^(9/16)]^(16/9)}^(1/12).
 pub fn sphere_churchill(ra: f64, pr: f64) -> f64 {
     let f = 1.0 + (0.469 / pr).powf(9.0 / 16.0);
-    2.0 + 0.589 * ra.powf(0.25) / f.powf(4.0 / 9.0) * (1.0 + 7.44e-8 * ra / f.powf(16.0 / 9.0)).powf(1.0 / 12.0)
+    2.0 + 0.589 * ra.powf(0.25) / f.powf(4.0 / 9.0)
+        * (1.0 + 7.44e-8 * ra / f.powf(16.0 / 9.0)).powf(1.0 / 12.0)
 }
-pub const SPHERE_RANGE: &[Validity] = &[Validity::new("Ra", 0.0, 1e13), Validity::new("Pr", 0.7, f64::INFINITY)];
+pub const SPHERE_RANGE: &[Validity] = &[
+    Validity::new("Ra", 0.0, 1e13),
+    Validity::new("Pr", 0.7, f64::INFINITY),
+];
 
 /// Churchill–Bernstein (1977), a cylinder in cross flow:
 /// Nu = 0.3 + 0.62·Re^(1/2)·Pr^(1/3) / [1 + (0.4/Pr)^(2/3)]^(1/4) · [1 + (Re/282000)^(5/8)]^(4/5).
@@ -99,9 +108,15 @@ pub fn plate_mixed(re: f64, pr: f64) -> f64 {
             - plate_turbulent_schlichting(PLATE_TRANSITION_RE, pr)
     }
 }
-pub const PLATE_LAMINAR_RANGE: &[Validity] = &[Validity::new("Re", 0.0, PLATE_TRANSITION_RE), Validity::new("Pr", 0.6, 10.0)];
+pub const PLATE_LAMINAR_RANGE: &[Validity] = &[
+    Validity::new("Re", 0.0, PLATE_TRANSITION_RE),
+    Validity::new("Pr", 0.6, 10.0),
+];
 /// From memory (as the usual statement of the turbulent-plate form); the laminar part keeps its own Pr range.
-pub const PLATE_TURBULENT_RANGE: &[Validity] = &[Validity::new("Re", PLATE_TRANSITION_RE, 1e7), Validity::new("Pr", 0.6, 2000.0)];
+pub const PLATE_TURBULENT_RANGE: &[Validity] = &[
+    Validity::new("Re", PLATE_TRANSITION_RE, 1e7),
+    Validity::new("Pr", 0.6, 2000.0),
+];
 
 /// Fully developed laminar flow in a round pipe: Nu = 3.66 at a uniform wall temperature,
 /// 48/11 ≈ 4.36 at a uniform heat flux (the exact Graetz–Nusselt limits).
@@ -121,7 +136,10 @@ pub fn petukhov_friction(re: f64) -> f64 {
 pub fn pipe_gnielinski(re: f64, pr: f64, f: f64) -> f64 {
     (f / 8.0) * (re - 1000.0) * pr / (1.0 + 12.7 * (f / 8.0).sqrt() * (pr.powf(2.0 / 3.0) - 1.0))
 }
-pub const PIPE_TURBULENT_RANGE: &[Validity] = &[Validity::new("Re", PIPE_TURBULENT_RE, 5e6), Validity::new("Pr", 0.5, 2000.0)];
+pub const PIPE_TURBULENT_RANGE: &[Validity] = &[
+    Validity::new("Re", PIPE_TURBULENT_RE, 5e6),
+    Validity::new("Pr", 0.5, 2000.0),
+];
 
 /// Fully developed pipe flow across the regimes; returns Nu and the regime's name.
 pub fn pipe(re: f64, pr: f64, uniform_heat_flux: bool) -> (f64, &'static str) {

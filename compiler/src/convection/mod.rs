@@ -20,14 +20,26 @@ use serde::Serialize;
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub enum Correlation {
     /// Vertical plate or wall of this height.
-    NaturalWall { height: f64 },
+    NaturalWall {
+        height: f64,
+    },
     /// Long horizontal cylinder of this outer diameter.
-    NaturalCylinder { diameter: f64 },
+    NaturalCylinder {
+        diameter: f64,
+    },
     /// Horizontal plate whose fluid side faces up (or down), characteristic length A/P.
-    NaturalPlate { length: f64, facing_up: bool },
-    NaturalSphere { diameter: f64 },
+    NaturalPlate {
+        length: f64,
+        facing_up: bool,
+    },
+    NaturalSphere {
+        diameter: f64,
+    },
     /// Cylinder in a cross flow of this approach velocity.
-    Crossflow { velocity: f64, diameter: f64 },
+    Crossflow {
+        velocity: f64,
+        diameter: f64,
+    },
     /// Flow along a flat plate of this length in the flow direction; `turbulent` from the
     /// leading edge (a tripped boundary layer), otherwise laminar then mixed.
     PlateFlow {
@@ -59,7 +71,9 @@ impl Correlation {
                 turbulent: true, ..
             } => "Schlichting–Gersten, turbulent flat plate",
             Correlation::PlateFlow { .. } => "Pohlhausen laminar / mixed flat plate",
-            Correlation::PipeFlow { .. } => "fully developed pipe flow: 3.66 or 4.36 laminar, Gnielinski turbulent",
+            Correlation::PipeFlow { .. } => {
+                "fully developed pipe flow: 3.66 or 4.36 laminar, Gnielinski turbulent"
+            }
         }
     }
 
@@ -169,11 +183,17 @@ impl FilmLaw {
             match corr {
                 Correlation::NaturalWall { .. } => {
                     check(c::VERTICAL_PLATE_RANGE, &groups);
-                    (c::vertical_plate_churchill_chu(r, pr), "laminar and turbulent")
+                    (
+                        c::vertical_plate_churchill_chu(r, pr),
+                        "laminar and turbulent",
+                    )
                 }
                 Correlation::NaturalCylinder { .. } => {
                     check(c::HORIZONTAL_CYLINDER_RANGE, &groups);
-                    (c::horizontal_cylinder_churchill_chu(r, pr), "laminar and turbulent")
+                    (
+                        c::horizontal_cylinder_churchill_chu(r, pr),
+                        "laminar and turbulent",
+                    )
                 }
                 Correlation::NaturalSphere { .. } => {
                     check(c::SPHERE_RANGE, &groups);
@@ -185,7 +205,11 @@ impl FilmLaw {
                     let lighter_at_surface = p.expansion * dt > 0.0;
                     if facing_up == lighter_at_surface {
                         check(c::PLATE_UP_RANGE, &groups);
-                        let branch = if r <= 1e7 { "0.54·Ra^(1/4)" } else { "0.15·Ra^(1/3)" };
+                        let branch = if r <= 1e7 {
+                            "0.54·Ra^(1/4)"
+                        } else {
+                            "0.15·Ra^(1/3)"
+                        };
                         (c::plate_facing_up_lloyd_moran(r), branch)
                     } else {
                         check(c::PLATE_DOWN_RANGE, &groups);
@@ -278,8 +302,10 @@ impl FilmLaw {
     pub fn flow(&self, t_from: f64, t_to: f64) -> (f64, f64, f64) {
         const D: f64 = 1e-3; // K
         let q = self.heat_flow(t_from, t_to);
-        let d_from = (self.heat_flow(t_from + D, t_to) - self.heat_flow(t_from - D, t_to)) / (2.0 * D);
-        let d_to = (self.heat_flow(t_from, t_to + D) - self.heat_flow(t_from, t_to - D)) / (2.0 * D);
+        let d_from =
+            (self.heat_flow(t_from + D, t_to) - self.heat_flow(t_from - D, t_to)) / (2.0 * D);
+        let d_to =
+            (self.heat_flow(t_from, t_to + D) - self.heat_flow(t_from, t_to - D)) / (2.0 * D);
         (q, d_from, d_to)
     }
 }

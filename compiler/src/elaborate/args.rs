@@ -445,9 +445,11 @@ impl Cx<'_> {
             _ => None,
         };
         d = match slip {
-            Some(s) => d
-                .with_help(format!("did you mean `{s}`?"))
-                .with_fix(format!("Replace with `{s}`"), e.span, s),
+            Some(s) => d.with_help(format!("did you mean `{s}`?")).with_fix(
+                format!("Replace with `{s}`"),
+                e.span,
+                s,
+            ),
             None => d.with_help(format!("write e.g. `{} = {}`", spec.name, words[0])),
         };
         self.diags.push(d);

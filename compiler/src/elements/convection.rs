@@ -92,7 +92,10 @@ const PLATE_ARGS: &[ArgSpec] = &[
 ];
 const SPHERE_ARGS: &[ArgSpec] = &[
     FLUID,
-    length("diameter", "outer diameter; a spherical build-up supplies it"),
+    length(
+        "diameter",
+        "outer diameter; a spherical build-up supplies it",
+    ),
     AREA,
     PRESSURE,
     EMISSIVITY,
@@ -120,7 +123,10 @@ const PLATE_FLOW_ARGS: &[ArgSpec] = &[
 const PIPE_ARGS: &[ArgSpec] = &[
     FLUID,
     VELOCITY,
-    length("diameter", "bore of the pipe; a radial build-up supplies it"),
+    length(
+        "diameter",
+        "bore of the pipe; a radial build-up supplies it",
+    ),
     AREA,
     WALL,
     PRESSURE,
@@ -144,7 +150,9 @@ pub struct PipeFlow;
 
 /// The fluid with its pressure; E222 for a pressure that does not apply or is outside the range.
 fn fluid(a: &Args) -> Result<Fluid, Diagnostic> {
-    let word = a.choice("fluid").ok_or_else(|| a.missing(&["fluid"], "fluid = air"))?;
+    let word = a
+        .choice("fluid")
+        .ok_or_else(|| a.missing(&["fluid"], "fluid = air"))?;
     let pressure = a.get("pressure");
     match (word, pressure) {
         ("water", Some(_)) => Err(Diagnostic::error(
@@ -177,7 +185,11 @@ fn fluid(a: &Args) -> Result<Fluid, Diagnostic> {
 }
 
 /// The film law of a use, and what the formula text says about it.
-fn film_law(a: &Args, correlation: Correlation, text: String) -> Result<(LinkLaw, Built), Diagnostic> {
+fn film_law(
+    a: &Args,
+    correlation: Correlation,
+    text: String,
+) -> Result<(LinkLaw, Built), Diagnostic> {
     let area = a.require("area", "area = 2 m^2")?;
     let law = FilmLaw {
         correlation,
@@ -189,7 +201,11 @@ fn film_law(a: &Args, correlation: Correlation, text: String) -> Result<(LinkLaw
     // For reference only (the solve evaluates h at every iterate): a surface 10 K above the
     // fluid at 20 °C, or 10 K below it at 60 °C for water, inside both fluids' ranges.
     let (ts, tf) = (303.15, 293.15);
-    let (t_from, t_to) = if law.fluid_at_from { (tf, ts) } else { (ts, tf) };
+    let (t_from, t_to) = if law.fluid_at_from {
+        (tf, ts)
+    } else {
+        (ts, tf)
+    };
     let g = law.heat_flow(t_from, t_to) / (t_from - t_to);
     let radiation = match law.emissivity {
         Some(e) => format!(" + radiation ε·σ·A·(T_s⁴ − T_f⁴) with ε = {e} to surroundings at the fluid's temperature"),
@@ -250,27 +266,54 @@ film_kind!(NaturalCylinder, "natural_cylinder",
         let diameter = len(a, "diameter")?;
         (Correlation::NaturalCylinder { diameter }, format!("L = D = {}", show(diameter, Dim::LENGTH)))
     });
-film_kind!(NaturalPlate, "natural_plate",
+film_kind!(
+    NaturalPlate,
+    "natural_plate",
     "natural convection from a horizontal plate facing up or down (Lloyd–Moran, McAdams)",
-    PLATE_ARGS, |a| {
+    PLATE_ARGS,
+    |a| {
         let length = len(a, "length")?;
-        let facing = a.choice("facing").ok_or_else(|| a.missing(&["facing"], "facing = up"))?;
+        let facing = a
+            .choice("facing")
+            .ok_or_else(|| a.missing(&["facing"], "facing = up"))?;
         let facing_up = facing == "up";
-        (Correlation::NaturalPlate { length, facing_up }, format!("L = A/P = {}", show(length, Dim::LENGTH)))
-    });
-film_kind!(NaturalSphere, "natural_sphere",
+        (
+            Correlation::NaturalPlate { length, facing_up },
+            format!("L = A/P = {}", show(length, Dim::LENGTH)),
+        )
+    }
+);
+film_kind!(
+    NaturalSphere,
+    "natural_sphere",
     "natural convection from a sphere (Churchill), h from the fluid's properties",
-    SPHERE_ARGS, |a| {
+    SPHERE_ARGS,
+    |a| {
         let diameter = len(a, "diameter")?;
-        (Correlation::NaturalSphere { diameter }, format!("L = D = {}", show(diameter, Dim::LENGTH)))
-    });
-film_kind!(CrossflowCylinder, "crossflow_cylinder",
+        (
+            Correlation::NaturalSphere { diameter },
+            format!("L = D = {}", show(diameter, Dim::LENGTH)),
+        )
+    }
+);
+film_kind!(
+    CrossflowCylinder,
+    "crossflow_cylinder",
     "forced flow across a cylinder (Churchill–Bernstein), h from the fluid's properties",
-    CROSSFLOW_ARGS, |a| {
+    CROSSFLOW_ARGS,
+    |a| {
         let diameter = len(a, "diameter")?;
         let velocity = a.require("velocity", "velocity = 3 m/s")?;
-        (Correlation::Crossflow { velocity, diameter }, format!("L = D = {}, velocity {}", show(diameter, Dim::LENGTH), show(velocity, Dim::VELOCITY)))
-    });
+        (
+            Correlation::Crossflow { velocity, diameter },
+            format!(
+                "L = D = {}, velocity {}",
+                show(diameter, Dim::LENGTH),
+                show(velocity, Dim::VELOCITY)
+            ),
+        )
+    }
+);
 film_kind!(PlateFlow, "plate_flow",
     "forced flow along a flat plate: laminar (Pohlhausen), mixed or turbulent (Schlichting–Gersten)",
     PLATE_FLOW_ARGS, |a| {
@@ -279,14 +322,29 @@ film_kind!(PlateFlow, "plate_flow",
         let turbulent = a.choice("boundary_layer") == Some("turbulent");
         (Correlation::PlateFlow { velocity, length, turbulent }, format!("L = {}, velocity {}", show(length, Dim::LENGTH), show(velocity, Dim::VELOCITY)))
     });
-film_kind!(PipeFlow, "pipe_flow",
+film_kind!(
+    PipeFlow,
+    "pipe_flow",
     "fully developed flow in a pipe: Nu = 3.66 or 4.36 laminar, Gnielinski turbulent",
-    PIPE_ARGS, |a| {
+    PIPE_ARGS,
+    |a| {
         let diameter = len(a, "diameter")?;
         let velocity = a.require("velocity", "velocity = 1 m/s")?;
         let uniform_heat_flux = a.choice("wall") == Some("heat_flux");
-        (Correlation::PipeFlow { velocity, diameter, uniform_heat_flux }, format!("L = D = {}, mean velocity {}", show(diameter, Dim::LENGTH), show(velocity, Dim::VELOCITY)))
-    });
+        (
+            Correlation::PipeFlow {
+                velocity,
+                diameter,
+                uniform_heat_flux,
+            },
+            format!(
+                "L = D = {}, mean velocity {}",
+                show(diameter, Dim::LENGTH),
+                show(velocity, Dim::VELOCITY)
+            ),
+        )
+    }
+);
 
 /// True for the kinds above: a radial build-up supplies their `diameter`.
 pub fn is_computed_film(kind: &str) -> bool {

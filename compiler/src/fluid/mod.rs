@@ -136,10 +136,9 @@ impl Fluid {
             Fluid::Air { pressure } if (pressure - ATMOSPHERE).abs() < 1e-9 => {
                 "air at 1 atm".to_string()
             }
-            Fluid::Air { pressure } => format!(
-                "air at {} bar",
-                crate::units::format_number(pressure / 1e5)
-            ),
+            Fluid::Air { pressure } => {
+                format!("air at {} bar", crate::units::format_number(pressure / 1e5))
+            }
             Fluid::Water => "liquid water".to_string(),
         }
     }

@@ -112,7 +112,13 @@ pub(crate) const SYMBOLS: &[Symbol] = &[
     // Time outside the SI (no prefixes).
     sym("min", MINUTE, Dim::TIME, false, "minute"),
     // Pressure outside the SI: the standard atmosphere (NIST SP 811, exact).
-    sym("atm", 101_325.0, Dim::PRESSURE, false, "standard atmosphere"),
+    sym(
+        "atm",
+        101_325.0,
+        Dim::PRESSURE,
+        false,
+        "standard atmosphere",
+    ),
     sym("h", HOUR, Dim::TIME, false, "hour"),
     sym("d", DAY, Dim::TIME, false, "day"),
     // Energy.
