@@ -821,6 +821,10 @@ impl<'a> Cx<'a> {
         }
         if complete {
             self.diags.extend(chain.critical_radius_warning(name, els));
+            if let Some(&film) = links.last() {
+                net.radius_checks
+                    .extend(chain.pending_check(name, els, film));
+            }
             if let (Some(a), Some(b)) = (from, to) {
                 let area = if geom == shell::Geometry::Plane {
                     use_args.area.map(|a| a.0)
