@@ -211,7 +211,11 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
                 sol.convergence = Some(conv);
                 // The ranges of the correlations and fluids are judged at the answer, where
                 // the surface temperatures and h agree (iterates may stray outside them).
-                let checks = crate::convection::report::checks(&analysis.network, &sol.films);
+                let mut checks = crate::convection::report::checks(&analysis.network, &sol.films);
+                checks.extend(crate::convection::report::critical_radius(
+                    &analysis.network,
+                    &sol.films,
+                ));
                 let failed = checks.iter().any(|d| d.severity == Severity::Error);
                 analysis.diagnostics.extend(checks);
                 if !failed {

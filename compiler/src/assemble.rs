@@ -7,7 +7,7 @@
 //! a child of the declaration that made it (hover, go-to-definition and references rely on it).
 //! The network itself (`crate::network`) stays plain data.
 
-use crate::network::{Group, Link, LinkFigure, LinkId, Network, Node, NodeId};
+use crate::network::{Group, Link, LinkFigure, LinkId, Network, Node, NodeId, RadiusCheck};
 use crate::region::Region;
 use crate::span::Span;
 use crate::symbols::{Symbol, SymbolKind, SymbolTable};
@@ -100,6 +100,11 @@ impl Assembler {
         }
         self.net.groups.push(group);
         id
+    }
+
+    /// A critical-radius check (W110) to make once the computed film `check.film` is solved.
+    pub fn radius_check(&mut self, check: RadiusCheck) {
+        self.net.radius_checks.push(check);
     }
 
     /// A meshed region, for its temperature and flux fields.

@@ -88,8 +88,26 @@ pub struct Network {
     pub dynamics: crate::transient::model::Dynamics,
     /// Named dimensionless figures of links (a fin's efficiency), for reports.
     pub figures: Vec<LinkFigure>,
+    /// W110 checks to make once computed films are solved.
+    pub radius_checks: Vec<RadiusCheck>,
     /// 2-D regions meshed into the network, for their temperature and flux fields.
     pub regions: Vec<crate::region::Region>,
+}
+
+/// A critical-radius check (W110) that waits for the solve: the outermost shell of a radial
+/// build-up under a computed film, whose h is known only at the solved temperatures.
+#[derive(Clone, Debug, Serialize)]
+pub struct RadiusCheck {
+    /// The computed film's link.
+    pub film: LinkId,
+    pub use_name: String,
+    pub use_span: Span,
+    pub shell: String,
+    pub shell_span: Span,
+    pub spherical: bool,
+    /// W/(m·K) and m of the shell.
+    pub k: f64,
+    pub r_out: f64,
 }
 
 /// A named figure of one link, such as `fin_efficiency`.

@@ -85,6 +85,8 @@ pub struct Chain {
     last_shell: Option<(usize, f64, f64)>,
     /// The film coefficient after the last shell.
     outer_h: Option<f64>,
+    /// The last element is a computed film: its h is known only once solved.
+    computed_outer: bool,
 }
 
 impl Chain {
@@ -94,6 +96,7 @@ impl Chain {
             radius: bore,
             last_shell: None,
             outer_h: None,
+            computed_outer: false,
         }
     }
 
@@ -114,6 +117,11 @@ impl Chain {
                 }
                 self.radius = r_out.map(|r| (r, span));
                 self.outer_h = None;
+                self.computed_outer = false;
+            }
+            (Some(_), Some(_)) if elements::convection::is_computed_film(kind.name()) => {
+                self.outer_h = None;
+                self.computed_outer = true;
             }
             (Some(_), Some(b)) if kind.name() == "film" => {
                 self.outer_h = b.area.map(|area| b.conductance / area)
@@ -130,34 +138,81 @@ impl Chain {
         els: &[BuildupElement],
     ) -> Option<Diagnostic> {
         let ((i, k, r_out), h) = (self.last_shell?, self.outer_h?);
-        let spherical = self.geom == Geometry::Sphere;
-        let r_crit = shell::critical_radius(spherical, k, h);
-        if r_out >= r_crit {
+        let e = &els[i];
+        let shell = (e.name.name.as_str(), e.element.span);
+        critical_radius_diagnostic(
+            &use_name.name,
+            use_name.span,
+            shell,
+            self.geom == Geometry::Sphere,
+            k,
+            r_out,
+            h,
+            "",
+        )
+    }
+
+    /// The same check for a computed outer film, to be made once the film's h is solved.
+    pub fn pending_check(
+        &self,
+        use_name: &Ident,
+        els: &[BuildupElement],
+        film: usize,
+    ) -> Option<crate::network::RadiusCheck> {
+        let (i, k, r_out) = self.last_shell?;
+        if !self.computed_outer {
             return None;
         }
         let e = &els[i];
-        let formula = if spherical { "2k/h" } else { "k/h" };
-        let show = elements::show;
-        Some(
-            Diagnostic::warning(
-                "W110",
-                format!(
-                    "in `{}`, the outer radius of `{}` ({}) is below the critical insulation radius {formula} = {} (k = {}, h = {}): this insulation increases the heat loss",
-                    use_name.name,
-                    e.name.name,
-                    show(r_out, Dim::LENGTH),
-                    show(r_crit, Dim::LENGTH),
-                    show(k, Dim::CONDUCTIVITY),
-                    show(h, Dim::HEAT_TRANSFER_COEFF),
-                ),
-                e.element.span,
-            )
-            .with_label("insulation thinner than the critical radius")
-            .with_secondary(use_name.span, "used here")
-            .with_help(format!(
-                "below r = {formula} the growing outer surface sheds more heat than the layer holds back; to cut the heat loss, make the outer radius well above {}, or use a material with lower k",
-                show(r_crit, Dim::LENGTH)
-            )),
-        )
+        Some(crate::network::RadiusCheck {
+            film,
+            use_name: use_name.name.clone(),
+            use_span: use_name.span,
+            shell: e.name.name.clone(),
+            shell_span: e.element.span,
+            spherical: self.geom == Geometry::Sphere,
+            k,
+            r_out,
+        })
     }
+}
+
+/// W110 for a shell of conductivity `k` ending at `r_out` under a film of coefficient `h`;
+/// `note` says where h came from when it was computed.
+#[allow(clippy::too_many_arguments)]
+pub fn critical_radius_diagnostic(
+    use_name: &str,
+    use_span: Span,
+    (shell, shell_span): (&str, Span),
+    spherical: bool,
+    k: f64,
+    r_out: f64,
+    h: f64,
+    note: &str,
+) -> Option<Diagnostic> {
+    let r_crit = shell::critical_radius(spherical, k, h);
+    if r_out >= r_crit {
+        return None;
+    }
+    let formula = if spherical { "2k/h" } else { "k/h" };
+    let show = elements::show;
+    Some(
+        Diagnostic::warning(
+            "W110",
+            format!(
+                "in `{use_name}`, the outer radius of `{shell}` ({}) is below the critical insulation radius {formula} = {} (k = {}, h = {}{note}): this insulation increases the heat loss",
+                show(r_out, Dim::LENGTH),
+                show(r_crit, Dim::LENGTH),
+                show(k, Dim::CONDUCTIVITY),
+                show(h, Dim::HEAT_TRANSFER_COEFF),
+            ),
+            shell_span,
+        )
+        .with_label("insulation thinner than the critical radius")
+        .with_secondary(use_span, "used here")
+        .with_help(format!(
+            "below r = {formula} the growing outer surface sheds more heat than the layer holds back; to cut the heat loss, make the outer radius well above {}, or use a material with lower k",
+            show(r_crit, Dim::LENGTH)
+        )),
+    )
 }

@@ -212,6 +212,40 @@ pub fn report(a: &Analysis, model: &str, figures: &Figures, system: UnitSystem) 
     }
     out.push_str(&t.finish());
 
+    if !sol.films.is_empty() {
+        out.push_str("### Computed films\n\nAt the solved temperatures: properties at the film temperature (the bulk temperature for pipe flow); heat from the surface into the fluid.\n\n");
+        let mut t = Table::new(
+            &[
+                "film",
+                "correlation",
+                "Re",
+                "Ra",
+                "Pr",
+                "Nu",
+                "h",
+                "convection",
+                "radiation",
+            ],
+            &[2, 3, 4, 5, 6, 7, 8],
+        );
+        let group = |v: Option<f64>| v.map(|v| format!("{v:.4e}")).unwrap_or_else(|| "—".into());
+        for f in &sol.films {
+            let s = &f.state;
+            t.row(&[
+                code(&net.links[f.link].name),
+                format!("{} in {} ({})", f.correlation, f.fluid, s.regime),
+                group(s.reynolds),
+                group(s.rayleigh),
+                format!("{:.4}", s.prandtl),
+                format!("{:.4}", s.nusselt),
+                plain(s.h, Dim::HEAT_TRANSFER_COEFF),
+                power(s.q_convection),
+                power(s.q_radiation),
+            ]);
+        }
+        out.push_str(&t.finish());
+    }
+
     if !sol.groups.is_empty() {
         out.push_str("### Build-up U- and R-values\n\nSurface films included; U = 1/(R·A), R-value = R·A.\n\n");
         let mut t = Table::new(

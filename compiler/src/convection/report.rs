@@ -43,6 +43,28 @@ fn range_text(low: f64, high: f64) -> String {
     }
 }
 
+/// W110 for the radial build-ups whose outermost shell sits under a computed film, with the
+/// film's h (convection and radiation together) at the solved temperatures.
+pub fn critical_radius(net: &Network, films: &[FilmResult]) -> Vec<Diagnostic> {
+    net.radius_checks
+        .iter()
+        .filter_map(|c| {
+            let f = films.iter().find(|f| f.link == c.film)?;
+            let h = f.state.h + f.state.h_radiation;
+            crate::radial::critical_radius_diagnostic(
+                &c.use_name,
+                c.use_span,
+                (&c.shell, c.shell_span),
+                c.spherical,
+                c.k,
+                c.r_out,
+                h,
+                ", convection and radiation at the solved temperatures",
+            )
+        })
+        .collect()
+}
+
 /// E505 for a film whose property temperature lies outside its fluid's range at the answer
 /// (the answer used the properties at the range's end, so it is not reported); W120 for a
 /// dimensionless group outside the correlation's range (the correlation is extrapolated; the

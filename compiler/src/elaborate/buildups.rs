@@ -158,6 +158,11 @@ impl Cx<'_> {
         }
         if complete {
             self.diags.extend(chain.critical_radius_warning(name, els));
+            if let Some(&film) = links.last() {
+                if let Some(check) = chain.pending_check(name, els, film) {
+                    self.asm.radius_check(check);
+                }
+            }
             if let (Some(a), Some(b)) = (from, to) {
                 let area = if geom == shell::Geometry::Plane {
                     use_args.area.map(|a| a.0)

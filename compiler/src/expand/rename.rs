@@ -56,10 +56,7 @@ impl Renamer<'_> {
             ExprKind::Name(id) => match (id.name.as_str(), self.index) {
                 (n @ ("index" | "count"), Some((i, c))) if !self.locals.contains(n) => {
                     let value = if n == "index" { i } else { c };
-                    ExprKind::Number {
-                        value,
-                        unit: None,
-                    }
+                    ExprKind::Number { value, unit: None }
                 }
                 _ => ExprKind::Name(self.ident(id)),
             },

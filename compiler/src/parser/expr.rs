@@ -289,10 +289,7 @@ fn number(cx: Cx, t: Tk, span: Span) -> Result<Expr, PErr> {
         )
     });
     Ok(Expr {
-        kind: ExprKind::Number {
-            value,
-            unit,
-        },
+        kind: ExprKind::Number { value, unit },
         span,
     })
 }
