@@ -37,6 +37,9 @@ pub struct Totals {
     pub findings: u64,
     /// Executions spent minimizing findings (not counted in `execs`).
     pub minimize_execs: u64,
+    /// Slow inputs and timeouts that were not slow again when run a second time: the machine
+    /// was busy (the limits are wall-clock time), not the input. Not findings.
+    pub unconfirmed: u64,
     /// Executions by time taken: under 1 ms, 10 ms, 100 ms, 1 s, and longer.
     pub times: [u64; 5],
     /// Time spent in each stage, over the inputs that finished.
@@ -72,6 +75,7 @@ pub fn run(settings: &Settings, seeds: &[Seed]) -> std::io::Result<(Totals, Stor
         restarts: 0,
         findings: 0,
         minimize_execs: 0,
+        unconfirmed: 0,
         times: [0; 5],
         stage_time: BTreeMap::new(),
     };
@@ -119,6 +123,14 @@ pub fn run(settings: &Settings, seeds: &[Seed]) -> std::io::Result<(Totals, Stor
             if store.seen(&f) {
                 continue;
             }
+            if !confirmed(&mut worker, &input, &f, settings, &mut t)? {
+                t.unconfirmed += 1;
+                eprintln!(
+                    "unconfirmed: {} in {} — {}; not so on a second run (a busy machine), not kept",
+                    f.kind, f.stage, f.detail
+                );
+                continue;
+            }
             let minimized = minimize(&mut worker, &input, &f, settings, &mut t)?;
             eprintln!(
                 "new finding: {} in {} ({}) — {}; {} → {} bytes",
@@ -164,6 +176,25 @@ fn exec(
             Ok(o)
         }
     }
+}
+
+/// Whether a finding recurs when its input runs again. Only time limits can fail to recur
+/// (everything else the oracle checks is deterministic); they are wall-clock limits, so a
+/// slow input on a loaded machine is run once more before it counts.
+fn confirmed(
+    worker: &mut Worker,
+    input: &str,
+    finding: &Finding,
+    settings: &Settings,
+    t: &mut Totals,
+) -> std::io::Result<bool> {
+    if !matches!(finding.kind.as_str(), "timeout" | "slow") {
+        return Ok(true);
+    }
+    t.minimize_execs += 1;
+    let sig = finding.signature();
+    let again = exec(worker, input, settings, t)?;
+    Ok(again.findings.iter().any(|f| f.signature() == sig))
 }
 
 /// The smallest input found within the time allowed that still shows the same finding:

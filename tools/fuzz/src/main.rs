@@ -132,13 +132,14 @@ fn real_main() -> Result<ExitCode, String> {
     let (t, store) = campaign::run(&settings, &seeds).map_err(|e| e.to_string())?;
     let secs = t.elapsed.as_secs_f64();
     println!(
-        "executions: {} in {secs:.1} s ({:.1}/s); kept {} new inputs (pool {}); {} worker restarts; {} minimizing executions",
+        "executions: {} in {secs:.1} s ({:.1}/s); kept {} new inputs (pool {}); {} worker restarts; {} minimizing executions; {} slow inputs not slow again on a second run",
         t.execs,
         t.execs as f64 / secs.max(1e-9),
         t.kept,
         t.pool,
         t.restarts,
-        t.minimize_execs
+        t.minimize_execs,
+        t.unconfirmed
     );
     let [a, b, c, d, e] = t.times;
     println!("time per input: {a} under 1 ms, {b} under 10 ms, {c} under 100 ms, {d} under 1 s, {e} longer");
