@@ -37,8 +37,8 @@ pub struct Totals {
     pub findings: u64,
     /// Executions spent minimizing findings (not counted in `execs`).
     pub minimize_execs: u64,
-    /// Slow inputs and timeouts that were not slow again when run a second time: the machine
-    /// was busy (the limits are wall-clock time), not the input. Not findings.
+    /// Slow inputs, timeouts and memory findings that did not recur when run a second time (see
+    /// [`confirmed`]). Not findings.
     pub unconfirmed: u64,
     /// Executions by time taken: under 1 ms, 10 ms, 100 ms, 1 s, and longer.
     pub times: [u64; 5],
@@ -126,7 +126,7 @@ pub fn run(settings: &Settings, seeds: &[Seed]) -> std::io::Result<(Totals, Stor
             if !confirmed(&mut worker, &input, &f, settings, &mut t)? {
                 t.unconfirmed += 1;
                 eprintln!(
-                    "unconfirmed: {} in {} — {}; not so on a second run (a busy machine), not kept",
+                    "unconfirmed: {} in {} — {}; not so on a second run, not kept",
                     f.kind, f.stage, f.detail
                 );
                 continue;
@@ -178,9 +178,11 @@ fn exec(
     }
 }
 
-/// Whether a finding recurs when its input runs again. Only time limits can fail to recur
-/// (everything else the oracle checks is deterministic); they are wall-clock limits, so a
-/// slow input on a loaded machine is run once more before it counts.
+/// Whether a finding recurs when its input runs again. Only the resource limits can fail to
+/// recur (everything else the oracle checks is deterministic): time is wall-clock time, so a
+/// quick input overruns it on a loaded machine, and a worker that served thousands of inputs
+/// holds memory its allocator kept, so a modest input can tip it over the memory limit (the
+/// worker is then killed, and the second run is in a fresh one).
 fn confirmed(
     worker: &mut Worker,
     input: &str,
@@ -188,7 +190,7 @@ fn confirmed(
     settings: &Settings,
     t: &mut Totals,
 ) -> std::io::Result<bool> {
-    if !matches!(finding.kind.as_str(), "timeout" | "slow") {
+    if !matches!(finding.kind.as_str(), "timeout" | "slow" | "memory") {
         return Ok(true);
     }
     t.minimize_execs += 1;

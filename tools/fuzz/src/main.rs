@@ -132,7 +132,7 @@ fn real_main() -> Result<ExitCode, String> {
     let (t, store) = campaign::run(&settings, &seeds).map_err(|e| e.to_string())?;
     let secs = t.elapsed.as_secs_f64();
     println!(
-        "executions: {} in {secs:.1} s ({:.1}/s); kept {} new inputs (pool {}); {} worker restarts; {} minimizing executions; {} slow inputs not slow again on a second run",
+        "executions: {} in {secs:.1} s ({:.1}/s); kept {} new inputs (pool {}); {} worker restarts; {} minimizing executions; {} resource findings that did not recur on a second run",
         t.execs,
         t.execs as f64 / secs.max(1e-9),
         t.kept,
