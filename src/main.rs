@@ -4,6 +4,8 @@ mod console;
 mod diff_cmd;
 mod diff_render;
 mod explain_cmd;
+mod explore_cmd;
+mod explore_report;
 mod files;
 mod fmt_cmd;
 mod git_rev;
@@ -17,8 +19,6 @@ mod report;
 mod run_cmd;
 mod run_report;
 mod solve_cmd;
-mod study_cmd;
-mod study_report;
 
 use caloris_compiler::units::UnitSystem;
 use caloris_compiler::Analysis;
@@ -37,7 +37,7 @@ pub mod exit {
     pub const USAGE: u8 = 2;
     /// The model solved but at least one design limit fails.
     pub const LIMIT_FAILED: u8 = 3;
-    /// A run or study was stopped with Ctrl-C; what was computed so far was written.
+    /// A run or exploration was stopped with Ctrl-C; what was computed so far was written.
     pub const INTERRUPTED: u8 = 130;
 }
 
@@ -158,11 +158,11 @@ enum Command {
         after_help = "Examples:\n  caloris run examples/allotment_standpipe_frost.heat --plot frost.svg\n  caloris run model.heat --every 30min --cross water=0°C"
     )]
     Run(Box<run_cmd::RunCli>),
-    /// Solve a model over a sweep of parameters and/or its named cases, checking every limit.
+    /// Solve a model over a range of parameter values and/or its named cases, checking every limit.
     #[command(
-        after_help = "Examples:\n  caloris study examples/hot_water_tank_jacket.heat\n  caloris study model.heat --sweep jacket=10mm..80mm:8"
+        after_help = "Examples:\n  caloris explore examples/hot_water_tank_jacket.heat\n  caloris explore model.heat --over jacket=10mm..80mm:8"
     )]
-    Study(Box<study_cmd::StudyCli>),
+    Explore(Box<explore_cmd::ExploreCli>),
 }
 
 #[derive(Clone, Copy, ValueEnum)]
@@ -256,7 +256,7 @@ fn main() -> ExitCode {
             }
         },
         Command::Run(c) => run_cmd::run(*c),
-        Command::Study(c) => study_cmd::study(*c),
+        Command::Explore(c) => explore_cmd::explore(*c),
     };
     ExitCode::from(code)
 }

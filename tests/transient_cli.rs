@@ -1,4 +1,4 @@
-//! `caloris run` and `caloris study` from the outside: reports, formats, exit codes, charts and
+//! `caloris run` and `caloris explore` from the outside: reports, formats, exit codes, charts and
 //! Ctrl-C.
 
 use assert_cmd::Command;
@@ -159,15 +159,15 @@ fn run_usage_errors_say_what_to_write() {
 }
 
 #[test]
-fn study_of_the_jacket_thickness() {
+fn exploring_the_jacket_thickness() {
     let (code, stdout, stderr) = out(&[
-        "study",
+        "explore",
         TANK,
-        "--sweep",
+        "--over",
         "jacket=10mm..120mm:12",
         "--case",
         "all",
-        "--measure",
+        "--track",
         "temperature(wall.foam)",
     ]);
     assert_eq!(code, 3, "{stderr}");
@@ -175,11 +175,11 @@ fn study_of_the_jacket_thickness() {
 }
 
 #[test]
-fn study_json_agrees_with_series_resistances() {
+fn explore_json_agrees_with_series_resistances() {
     let (code, stdout, _) = out(&[
-        "study",
+        "explore",
         TANK,
-        "--sweep",
+        "--over",
         "jacket=50mm",
         "--case",
         "cold_cupboard",
@@ -229,13 +229,13 @@ fn study_json_agrees_with_series_resistances() {
 }
 
 #[test]
-fn a_transient_study_and_its_chart() {
+fn exploring_a_transient_run_and_its_chart() {
     let svg = scratch("lagging.svg");
     let (code, stdout, stderr) = out(&[
-        "study",
+        "explore",
         STANDPIPE,
         "--transient",
-        "--sweep",
+        "--over",
         "lagging=0mm..40mm:5",
         "--format",
         "csv",
@@ -264,25 +264,35 @@ fn a_transient_study_and_its_chart() {
 }
 
 #[test]
-fn study_usage_errors() {
-    let (code, stdout, stderr) = out(&["study", TANK]);
-    assert_eq!(code, 3, "without --sweep every case is studied: {stderr}");
+fn explore_usage_errors() {
+    // The words of the command are the tool's own; the old ones are not aliases.
+    let (code, _, stderr) = out(&["study", TANK]);
+    assert_eq!(code, 2, "`study` is not a command: {stderr}");
+    let (code, _, stderr) = out(&["explore", TANK, "--sweep", "jacket=10mm..20mm:3"]);
+    assert_eq!(code, 2, "`--sweep` is not an option: {stderr}");
+    let (code, _, stderr) = out(&["explore", TANK, "--measure", "temperature(wall.foam)"]);
+    assert_eq!(code, 2, "`--measure` is not an option: {stderr}");
+    let (code, stdout, stderr) = out(&["explore", TANK]);
+    assert_eq!(code, 3, "without --over every case is solved: {stderr}");
     assert!(
         stdout.contains("cases cold_cupboard, warm_cupboard"),
         "{stdout}"
     );
-    let (code, _, stderr) = out(&["study", TANK, "--sweep", "jacket=10W..20W:3"]);
+    let (code, _, stderr) = out(&["explore", TANK, "--over", "jacket=10W..20W:3"]);
     assert_eq!(code, 2);
     assert!(
         stderr.contains("parameter `jacket` is a length (m); the value given is a power (W)"),
         "{stderr}"
     );
-    let (code, _, stderr) = out(&["study", TANK, "--sweep", "jacket=1mm..2mm:1"]);
+    let (code, _, stderr) = out(&["explore", TANK, "--over", "jacket=1mm..2mm:1"]);
     assert_eq!(code, 2);
     assert!(stderr.contains("from 2 to 10000 points"), "{stderr}");
-    let (code, _, stderr) = out(&["study", TANK, "--case", "all", "--plot", "x.svg"]);
+    let (code, _, stderr) = out(&["explore", TANK, "--case", "all", "--plot", "x.svg"]);
     assert_eq!(code, 2);
-    assert!(stderr.contains("--plot draws a sweep"), "{stderr}");
+    assert!(
+        stderr.contains("--plot draws the chart over a parameter"),
+        "{stderr}"
+    );
     assert!(!Path::new("x.svg").exists());
 }
 

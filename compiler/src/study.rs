@@ -174,7 +174,7 @@ pub fn parse_sweep(text: &str) -> Result<Axis, String> {
             None => (rest, 11),
         };
         if !(2..=10_000).contains(&count) {
-            return Err(format!("a sweep needs from 2 to 10000 points, not {count}"));
+            return Err(format!("a range needs from 2 to 10000 points, not {count}"));
         }
         let (a, b) = (parse_value(from)?, parse_value(to)?);
         if a.dim != b.dim {
@@ -303,7 +303,7 @@ pub fn run_study(
     }
     if plan.axes.len() > 2 {
         return Err(StudyError::Request(
-            "a study sweeps at most two parameters".into(),
+            "at most two parameters may be given with --over".into(),
         ));
     }
     for ax in &plan.axes {
@@ -349,7 +349,7 @@ pub fn run_study(
         resolve(&base, m).map_err(StudyError::Request)?;
     }
     if plan.measures.is_empty() && base.limits.is_empty() {
-        return Err(StudyError::Request("the model states no limits; name what to report with a measure such as `temperature(node)`".into()));
+        return Err(StudyError::Request("the model states no limits; name what to report with `--track`, e.g. `--track temperature(node)`".into()));
     }
 
     let first: Vec<Option<Quantity>> = plan

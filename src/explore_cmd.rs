@@ -1,9 +1,9 @@
-//! `caloris study`: the model solved over a sweep of one or two parameters and/or its named
+//! `caloris explore`: the model solved over a range of one or two parameters and/or its named
 //! cases, steady or transient, with every limit evaluated at every point.
 
+use crate::explore_report::{self, AxisUnits};
 use crate::progress::{catch_interrupt, stop_requested, Progress, STOP};
 use crate::run_cmd::analyse;
-use crate::study_report::{self, AxisUnits};
 use crate::{colour_on, exit, loader, parse_settings, plot, read_model, usage, Format, Units};
 use caloris_compiler::render::render_diagnostics;
 use caloris_compiler::study::{
@@ -12,25 +12,26 @@ use caloris_compiler::study::{
 use std::io::IsTerminal;
 use std::path::PathBuf;
 
-/// `caloris study` arguments.
+/// `caloris explore` arguments.
 #[derive(clap::Args)]
-pub struct StudyCli {
+pub struct ExploreCli {
     /// Model file (`-` reads standard input).
     file: PathBuf,
-    /// Sweep a parameter: `NAME=FROM..TO:N` (N values, ends included; 11 by default) or
+    /// A parameter over a range: `NAME=FROM..TO:N` (N values, ends included; 11 by default) or
     /// `NAME=V1,V2,...`. At most twice.
     #[arg(long, value_name = "NAME=FROM..TO:N")]
-    sweep: Vec<String>,
-    /// A case declared in the model (repeatable; `all` for every case). Without --sweep and
-    /// --case, every case is studied.
+    over: Vec<String>,
+    /// A case declared in the model (repeatable; `all` for every case). Without --over and
+    /// --case, every case is solved.
     #[arg(long)]
     case: Vec<String>,
     /// Run the model's transient run at every point (name it when there are several).
     #[arg(long, num_args = 0..=1, default_missing_value = "", value_name = "RUN")]
     transient: Option<String>,
-    /// Also report a quantity, written like a limit's measure: `temperature(tank.surface)`.
-    #[arg(long)]
-    measure: Vec<String>,
+    /// Also report a quantity at every point, written like a limit's measure:
+    /// `temperature(tank.surface)`.
+    #[arg(long, value_name = "MEASURE(SUBJECT)")]
+    track: Vec<String>,
     /// Set a parameter at every point, e.g. `--set t_out=-12°C` (repeatable).
     #[arg(long, value_name = "NAME=VALUE")]
     set: Vec<String>,
@@ -40,21 +41,21 @@ pub struct StudyCli {
     /// Unit system of the report.
     #[arg(long, value_enum, default_value_t = Units::Si)]
     units: Units,
-    /// Also write the sweep chart as SVG.
+    /// Also write the chart over the first parameter as SVG.
     #[arg(long, value_name = "FILE.svg")]
     plot: Option<PathBuf>,
 }
 
-pub fn study(args: StudyCli) -> u8 {
+pub fn explore(args: ExploreCli) -> u8 {
     let (name, text) = match read_model(&args.file) {
         Ok(v) => v,
         Err(msg) => return usage(msg),
     };
     let mut axes = Vec::new();
-    for s in &args.sweep {
+    for s in &args.over {
         match parse_sweep(s) {
             Ok(a) => axes.push(a),
-            Err(e) => return usage(format!("--sweep {e}")),
+            Err(e) => return usage(format!("--over {e}")),
         }
     }
     let settings = match parse_settings(&args.set) {
@@ -76,7 +77,7 @@ pub fn study(args: StudyCli) -> u8 {
     }
     if axes.is_empty() && args.case.is_empty() {
         if all_cases.is_empty() {
-            return usage("nothing to study: give --sweep NAME=FROM..TO:N, or declare `case` lines in the model (or name them with --case)");
+            return usage("nothing to explore: give --over NAME=FROM..TO:N, or declare `case` lines in the model (or name them with --case)");
         }
         cases = all_cases.clone();
     }
@@ -93,17 +94,17 @@ pub fn study(args: StudyCli) -> u8 {
         },
     };
     if args.plot.is_some() && axes.is_empty() {
-        return usage("--plot draws a sweep; add --sweep NAME=FROM..TO:N");
+        return usage("--plot draws the chart over a parameter; add --over NAME=FROM..TO:N");
     }
     let plan = Plan {
         axes,
         cases,
         mode,
-        measures: args.measure.clone(),
+        measures: args.track.clone(),
         settings,
     };
     catch_interrupt();
-    let mut progress = Progress::new("study");
+    let mut progress = Progress::new("explore");
     let mut on_progress = |done: usize, total: usize| progress.update(done as f64, total as f64);
     let loader = loader::FsLoader::for_model(&args.file);
     let outcome = run_study(
@@ -133,24 +134,25 @@ pub fn study(args: StudyCli) -> u8 {
         }
     };
     let units_system = args.units.system_for(&base);
-    let units = AxisUnits::from_specs(&r, &args.sweep, units_system);
+    let units = AxisUnits::from_specs(&r, &args.over, units_system);
     let title = base.title.as_deref();
     let out = match args.format {
-        Format::Table => study_report::table(
+        Format::Table => explore_report::table(
             title,
             &r,
             &units,
             units_system,
             colour_on(std::io::stdout().is_terminal()),
         ),
-        Format::Csv => study_report::csv(&r, &units, units_system),
+        Format::Csv => explore_report::csv(&r, &units, units_system),
         Format::Json => {
-            serde_json::to_string_pretty(&study_report::json(title, &r)).unwrap_or_default() + "\n"
+            serde_json::to_string_pretty(&explore_report::json(title, &r)).unwrap_or_default()
+                + "\n"
         }
     };
     print!("{out}");
     if let Some(path) = &args.plot {
-        let svg = plot::svg(&study_report::chart(title, &r, &units, units_system));
+        let svg = plot::svg(&explore_report::chart(title, &r, &units, units_system));
         if let Err(e) = std::fs::write(path, svg) {
             return usage(format!("cannot write `{}`: {e}", path.display()));
         }

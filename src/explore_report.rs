@@ -1,5 +1,5 @@
-//! Reports of a study: a terminal table, CSV and JSON (one row or object per point), and the
-//! sweep chart (one panel per limit or measure, one curve per case and value of a second swept
+//! Reports of `caloris explore`: a terminal table, CSV and JSON (one row or object per point),
+//! and the chart over the first parameter (one panel per limit or tracked quantity, one curve per case and value of a second
 //! parameter).
 
 use crate::output::CAUTION;
@@ -89,7 +89,7 @@ pub fn describe(r: &StudyResult, units: &AxisUnits) -> String {
         }
     };
     format!(
-        "Study: {}; {mode}",
+        "Explored: {}; {mode}",
         if parts.is_empty() {
             "the model as written".into()
         } else {
@@ -337,8 +337,8 @@ fn point_json(p: &Point) -> Value {
                 "passed": l.result.passed, "margin": l.result.margin,
                 "first_failure_s": l.first_failure, "worst_time_s": l.worst_time,
             })).collect::<Vec<_>>(),
-            "measures": measures.iter().map(|m| json!({
-                "measure": m.label, "value": m.value, "unit": m.measure.dim().si_unit(), "min": m.min, "max": m.max,
+            "tracked": measures.iter().map(|m| json!({
+                "quantity": m.label, "value": m.value, "unit": m.measure.dim().si_unit(), "min": m.min, "max": m.max,
             })).collect::<Vec<_>>(),
         }),
         Outcome::Failed { messages } => json!({"status": "failed", "errors": messages}),
@@ -359,7 +359,7 @@ pub fn json(title: Option<&str>, r: &StudyResult) -> Value {
     })
 }
 
-/// The sweep chart: x is the first swept parameter.
+/// The chart: x is the first parameter given with `--over`.
 pub fn chart(title: Option<&str>, r: &StudyResult, units: &AxisUnits, system: UnitSystem) -> Chart {
     let transient = is_transient(r);
     // Curves: one per (case, value of the second parameter).
@@ -410,7 +410,7 @@ pub fn chart(title: Option<&str>, r: &StudyResult, units: &AxisUnits, system: Un
     });
     let Some((limits, measures)) = sample else {
         return Chart {
-            title: title.unwrap_or("Study").into(),
+            title: title.unwrap_or("Explored").into(),
             x_label: String::new(),
             panels,
             footnote: String::new(),
@@ -521,7 +521,7 @@ pub fn chart(title: Option<&str>, r: &StudyResult, units: &AxisUnits, system: Un
         })
         .unwrap_or_default();
     Chart {
-        title: title.map(|t| format!("{t} — study")).unwrap_or_else(|| "Study".into()),
+        title: title.map(|t| format!("{t} — explored")).unwrap_or_else(|| "Explored".into()),
         x_label,
         panels,
         footnote: "Engineering estimate from the stated model; confirm against local codes and licensed practice where safety depends on it.".into(),
