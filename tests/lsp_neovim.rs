@@ -63,7 +63,10 @@ fn neovim_drives_the_language_server_through_the_shipped_plugin() {
     );
     assert!(
         stdout.contains("ok - diagnostics arrive after an edit")
-            && stdout.contains("ok - hover on a node shows its temperature"),
+            && stdout.contains("ok - hover on a node shows its temperature")
+            && stdout.contains("ok - buffer-local maps for hover and definition")
+            && (stdout.contains("ok - inlay hints shown as end-of-line text")
+                || stdout.contains("ok - inlay hints are native")),
         "{report}"
     );
 }

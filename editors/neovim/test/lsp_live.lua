@@ -111,6 +111,30 @@ local ok_all, err = pcall(function()
   local hints = request('textDocument/inlayHint', 0, 0, { range = { start = { line = 0, character = 0 }, ['end'] = { line = 99, character = 0 } } })
   report(hints and #hints == 12, 'inlay hints for nodes, links and limits', hints and #hints)
 
+  -- On attach the plugin sets the usual buffer-local maps.
+  local k = vim.fn.maparg('K', 'n', false, true)
+  local gd = vim.fn.maparg('gd', 'n', false, true)
+  report(k.buffer == 1 and k.desc == 'caloris: hover' and gd.desc == 'caloris: definition', 'buffer-local maps for hover and definition', vim.inspect({ k.desc, gd.desc }))
+
+  -- Where Neovim has no inlay hints (0.7-0.9), the solved values appear as end-of-line text.
+  if vim.lsp.inlay_hint == nil then
+    local shown = {}
+    local got_hints = vim.wait(20000, function()
+      shown = require('caloris').shown_hints(buf)
+      return #shown >= 10
+    end, 50)
+    local jl = find('node junction', 'junction')
+    local on_junction = ''
+    for _, h in ipairs(shown) do
+      if h[1] == jl then
+        on_junction = h[2]
+      end
+    end
+    report(got_hints and on_junction:find('°C', 1, true) ~= nil, 'inlay hints shown as end-of-line text (the junction temperature)', vim.inspect(shown))
+  else
+    report(true, 'inlay hints are native in this Neovim')
+  end
+
   local tokens = request('textDocument/semanticTokens/full', 0, 0)
   report(tokens and tokens.data and #tokens.data > 0, 'semantic tokens')
 
