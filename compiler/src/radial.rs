@@ -123,6 +123,16 @@ impl Chain {
         }
     }
 
+    /// The outermost shell's index and its critical insulation radius (k/h for a cylinder, 2k/h
+    /// for a sphere), when a film follows it.
+    pub fn critical_radius(&self) -> Option<(usize, f64)> {
+        let ((i, k, _), h) = (self.last_shell?, self.outer_h?);
+        Some((
+            i,
+            shell::critical_radius(self.geom == Geometry::Sphere, k, h),
+        ))
+    }
+
     /// W110 when the outermost shell, followed by a film, ends below the critical radius.
     pub fn critical_radius_warning(
         &self,

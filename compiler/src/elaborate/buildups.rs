@@ -5,11 +5,12 @@
 
 use super::Cx;
 use crate::diagnostic::{did_you_mean, Diagnostic};
-use crate::elements::{self, shell};
+use crate::elements::{self, shell, Figure};
 use crate::network::{Group, Link, NodeId};
 use crate::radial::{self, UseArgs};
 use crate::schema;
 use crate::syntax::{BuildupElement, ElementCall, Ident, Item, ItemKind, Module};
+use crate::units::Dim;
 use rustc_hash::FxHashMap;
 
 /// The build-ups a model declares, by name.
@@ -147,8 +148,11 @@ impl Cx<'_> {
                     links.push(id);
                     if let Some(args) = &args {
                         self.diags.extend(kind.warnings(args));
-                        for (n, v) in kind.figures(args) {
-                            self.asm.figure(id, n, v);
+                        for f in kind.figures(args) {
+                            self.asm.figure(id, f);
+                        }
+                        for (n, rule) in kind.solved_figures(args) {
+                            self.asm.solved_figure(id, n, rule);
                         }
                     }
                 }
@@ -158,6 +162,13 @@ impl Cx<'_> {
         }
         if complete {
             self.diags.extend(chain.critical_radius_warning(name, els));
+            // Reported always, not only inside the warning: a reviewer checks it either way.
+            if let Some((i, r_crit)) = chain.critical_radius() {
+                if let Some(&id) = links.get(i) {
+                    self.asm
+                        .figure(id, Figure::of("critical_radius", r_crit, Dim::LENGTH));
+                }
+            }
             if let (Some(a), Some(b)) = (from, to) {
                 let area = if geom == shell::Geometry::Plane {
                     use_args.area.map(|a| a.0)
@@ -171,6 +182,10 @@ impl Cx<'_> {
                     from: a,
                     to: b,
                     area,
+                    length: match geom {
+                        shell::Geometry::Cylinder => use_args.length.map(|l| l.0),
+                        _ => None,
+                    },
                     links,
                 });
             }
