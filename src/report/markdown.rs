@@ -260,7 +260,7 @@ pub fn report(a: &Analysis, model: &str, figures: &Figures, system: UnitSystem) 
         out.push_str("The model states no design limits.\n\n");
     } else {
         out.push_str(
-            "The margin is how far the value is inside the limit; negative when it fails.\n\n",
+            "The margin is how far the value is inside the limit; negative when it fails. The margin % is of the limit (a temperature limit in kelvin).\n\n",
         );
         let mut t = Table::new(
             &[
