@@ -86,7 +86,8 @@ impl Cx<'_> {
         let mut prev = from;
         let mut complete = true;
         // Each shell starts at the radius where the one before it ended.
-        let mut chain = radial::Chain::new(geom, use_args.inner_radius);
+        let mut chain =
+            radial::Chain::new(geom, use_args.inner_radius, use_args.length.map(|l| l.0));
         for (i, e) in els.iter().enumerate() {
             let next = if i + 1 == els.len() {
                 to
@@ -161,7 +162,12 @@ impl Cx<'_> {
             prev = next;
         }
         if complete {
-            self.diags.extend(chain.critical_radius_warning(name, els));
+            // The loss the insulation adds in W needs the temperature difference, known here
+            // when both ends are held.
+            let held = |n: Option<NodeId>| n.and_then(|n| self.asm.net().nodes[n].fixed);
+            let delta_t = held(from).zip(held(to)).map(|(a, b)| a - b);
+            self.diags
+                .extend(chain.insulation_warning(name, els, delta_t));
             // Reported always, not only inside the warning: a reviewer checks it either way.
             if let Some((i, r_crit)) = chain.critical_radius() {
                 if let Some(&id) = links.get(i) {
