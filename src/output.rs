@@ -1,6 +1,7 @@
 //! Result reports: a terminal table, the JSON contract (docs/json.md) and CSV.
 
-use caloris_compiler::units::{display_unit, Dim, Quantity, TempKind, UnitSystem};
+use caloris_compiler::network::LinkFigure;
+use caloris_compiler::units::{display_unit, format_number, Dim, Quantity, TempKind, UnitSystem};
 use caloris_compiler::Analysis;
 use comfy_table::{Cell, CellAlignment, Color, Table};
 use serde_json::{json, Value};
@@ -98,57 +99,21 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
     out.push_str(&format!("Links (heat flow positive from → to)\n{t}\n\n"));
 
     if !sol.groups.is_empty() {
-        let mut t = new_table(&[
-            "build-up use",
-            "resistance",
-            "R-value",
-            "U-value",
-            "heat flow",
-        ]);
-        for g in &sol.groups {
-            t.add_row(vec![
-                Cell::new(&g.name),
-                Cell::new(show(
-                    g.resistance,
-                    Dim::RESISTANCE,
-                    TempKind::NotTemperature,
-                    system,
-                )),
-                Cell::new(
-                    g.r_value
-                        .map(|v| show(v, Dim::AREA_RESISTANCE, TempKind::NotTemperature, system))
-                        .unwrap_or_default(),
-                ),
-                Cell::new(
-                    g.u_value
-                        .map(|v| {
-                            show(
-                                v,
-                                Dim::HEAT_TRANSFER_COEFF,
-                                TempKind::NotTemperature,
-                                system,
-                            )
-                        })
-                        .unwrap_or_default(),
-                ),
-                Cell::new(power(g.heat_flow)),
-            ]);
-        }
-        right(&mut t, &[1, 2, 3, 4]);
-        out.push_str(&format!("Build-ups (films included)\n{t}\n\n"));
+        out.push_str(&groups_table(a, system));
     }
 
-    if !net.figures.is_empty() {
+    let figures = link_figures(a);
+    if !figures.is_empty() {
         let mut t = new_table(&["link", "figure", "value"]);
-        for f in &net.figures {
+        for f in figures {
             t.add_row(vec![
                 Cell::new(&net.links[f.link].name),
                 Cell::new(f.name),
-                Cell::new(format!("{:.4}", f.value)),
+                Cell::new(show(f.value, f.dim, f.kind, system)),
             ]);
         }
         right(&mut t, &[2]);
-        out.push_str(&format!("Element figures (dimensionless)\n{t}\n\n"));
+        out.push_str(&format!("Element figures\n{t}\n\n"));
     }
 
     if !sol.films.is_empty() {
@@ -182,7 +147,9 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
     ));
 
     if !sol.limits.is_empty() {
-        let mut t = new_table(&["limit", "measure", "value", "limit", "margin", "verdict"]);
+        let mut t = new_table(&[
+            "limit", "measure", "value", "limit", "margin", "margin %", "verdict",
+        ]);
         for l in &sol.limits {
             let dim = l.measure_dim();
             let verdict = if l.passed { "pass" } else { "FAIL" };
@@ -196,10 +163,11 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
                 Cell::new(show(l.actual, dim, l.kind(), system)),
                 Cell::new(format!("{} {}", l.op, show(l.limit, dim, l.kind(), system))),
                 Cell::new(show(l.margin, dim, l.margin_kind(), system)),
+                Cell::new(percent(l.margin_percent)),
                 v,
             ]);
         }
-        right(&mut t, &[2, 4]);
+        right(&mut t, &[2, 4, 5]);
         out.push_str(&format!("Design limits\n{t}\n\n"));
     }
     if let Some(c) = &sol.convergence {
@@ -213,6 +181,66 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
         sol.worst_residual
     ));
     out
+}
+
+/// Every figure of every link, those known before the solve and those at the solved
+/// temperatures, in link order (a link's own figures in the order its element gives them).
+pub fn link_figures(a: &Analysis) -> Vec<&LinkFigure> {
+    let solved = a.solution.as_ref().map(|s| s.figures.as_slice());
+    let mut all: Vec<&LinkFigure> = a
+        .network
+        .figures
+        .iter()
+        .chain(solved.unwrap_or_default())
+        .collect();
+    all.sort_by_key(|f| f.link);
+    all
+}
+
+/// Build-up uses: resistance, R- and U-value (also rounded to two significant figures, as
+/// ISO 6946 states a U-value, and labelled so), heat flow, and per metre for a pipe.
+fn groups_table(a: &Analysis, system: UnitSystem) -> String {
+    let Some(sol) = a.solution.as_ref() else {
+        return String::new();
+    };
+    let nt = TempKind::NotTemperature;
+    let per_length = sol.groups.iter().any(|g| g.heat_flow_per_length.is_some());
+    let mut headers = vec![
+        "build-up use",
+        "resistance",
+        "R-value",
+        "U-value",
+        "U-value (rounded, 2 s.f.)",
+        "heat flow",
+    ];
+    if per_length {
+        headers.push("heat flow per metre");
+    }
+    let mut t = new_table(&headers);
+    let opt = |v: Option<f64>, dim| v.map(|v| show(v, dim, nt, system)).unwrap_or_default();
+    for g in &sol.groups {
+        // Rounded in the unit shown, as a reader rounds it (a US report rounds Btu/(h·ft²·°F)).
+        let rounded = g
+            .u_value
+            .map(|v| caloris_compiler::results::rounded_u_value(v, system));
+        let mut row = vec![
+            Cell::new(&g.name),
+            Cell::new(show(g.resistance, Dim::RESISTANCE, nt, system)),
+            Cell::new(opt(g.r_value, Dim::AREA_RESISTANCE)),
+            Cell::new(opt(g.u_value, Dim::HEAT_TRANSFER_COEFF)),
+            Cell::new(rounded.unwrap_or_default()),
+            Cell::new(show(g.heat_flow, Dim::POWER, nt, system)),
+        ];
+        if per_length {
+            row.push(Cell::new(opt(
+                g.heat_flow_per_length,
+                Dim::LINEAR_HEAT_FLOW,
+            )));
+        }
+        t.add_row(row);
+    }
+    right(&mut t, &[1, 2, 3, 4, 5, 6]);
+    format!("Build-ups (films included)\n{t}\n\n")
 }
 
 /// Computed films at the solved temperatures: the correlation, the groups, h and the heat by
@@ -320,9 +348,9 @@ pub fn json(a: &Analysis) -> String {
         }
     }
     let mut figures_of = vec![serde_json::Map::new(); net.links.len()];
-    for f in &net.figures {
+    for f in link_figures(a) {
         if let Some(m) = figures_of.get_mut(f.link) {
-            m.insert(f.name.to_string(), json!(f.value));
+            m.insert(f.json_name(), json!(f.value));
         }
     }
     let mut film_of = vec![Value::Null; net.links.len()];
@@ -377,7 +405,8 @@ pub fn json(a: &Analysis) -> String {
                     json!({
                         "name": r.name, "buildup": g.buildup, "from": net.nodes[g.from].name, "to": net.nodes[g.to].name,
                         "resistance_K_per_W": r.resistance, "heat_flow_W": r.heat_flow, "area_m2": g.area,
-                        "u_value_W_per_m2K": r.u_value, "r_value_m2K_per_W": r.r_value,
+                        "u_value_W_per_m2K": r.u_value, "u_value_rounded_W_per_m2K": r.u_value_rounded,
+                        "r_value_m2K_per_W": r.r_value, "heat_flow_per_length_W_per_m": r.heat_flow_per_length,
                     })
                 })
                 .collect()
@@ -392,6 +421,7 @@ pub fn json(a: &Analysis) -> String {
                     json!({
                         "name": l.name, "measure": l.measure.name(), "subject": l.subject, "op": l.op,
                         "value": l.actual, "limit": l.limit, "unit": unit, "passed": l.passed, "margin": l.margin,
+                        "margin_percent": finite(l.margin_percent),
                     })
                 })
                 .collect()
@@ -425,6 +455,20 @@ pub fn json(a: &Analysis) -> String {
         "caution": CAUTION,
     });
     serde_json::to_string_pretty(&doc).unwrap_or_default() + "\n"
+}
+
+/// A limit's margin in percent of the limit (`12.5 %`); `—` for a limit of zero.
+pub fn percent(v: f64) -> String {
+    if v.is_finite() {
+        format!("{} %", format_number(v))
+    } else {
+        "—".to_string()
+    }
+}
+
+/// A number for JSON, `null` when it is not finite (JSON has no NaN).
+fn finite(v: f64) -> Option<f64> {
+    v.is_finite().then_some(v)
 }
 
 fn si_unit(dim: Dim) -> (String, ()) {

@@ -158,6 +158,9 @@ fn check_line(a: &Analysis, line: &str) -> Result<(), String> {
         .split_once('=')
         .ok_or(format!("cannot read expectation `{line}`"))?;
     let (value, tol) = rhs.split_once('±').ok_or("expected `± TOLERANCE`")?;
+    if let Some(inner) = lhs.trim().strip_prefix("figure(") {
+        return check_figure(a, sol, inner, value, tol);
+    }
     let lhs_expr = parse_expr(lhs.trim(), FileId(0)).map_err(|d| d.message)?;
     let ExprKind::Call { func, args } = lhs_expr.kind else {
         return Err("expected MEASURE(SUBJECT)".into());
@@ -185,6 +188,41 @@ fn check_line(a: &Analysis, line: &str) -> Result<(), String> {
         Err(format!(
             "{}: expected {expected} ± {tol} (SI), got {actual} (difference {:e})",
             lhs.trim(),
+            actual - expected
+        ))
+    }
+}
+
+/// `figure(LINK, NAME) = VALUE ± TOL`: a named figure of a link (before or after the solve),
+/// compared in SI.
+fn check_figure(
+    a: &Analysis,
+    sol: &caloris_compiler::results::Solution,
+    inner: &str,
+    value: &str,
+    tol: &str,
+) -> Result<(), String> {
+    let (link, name) = inner
+        .trim_end_matches(')')
+        .split_once(',')
+        .ok_or("expected `figure(LINK, NAME)`")?;
+    let (link, name) = (link.trim(), name.trim());
+    let id = a.network.link_id(link).ok_or(format!("no link `{link}`"))?;
+    let actual = a
+        .network
+        .figures
+        .iter()
+        .chain(&sol.figures)
+        .find(|f| f.link == id && f.name == name)
+        .map(|f| f.value)
+        .ok_or(format!("link `{link}` has no figure `{name}`"))?;
+    let expected = quantity(value.trim())?;
+    let tol = quantity(tol.trim())?;
+    if (actual - expected).abs() <= tol {
+        Ok(())
+    } else {
+        Err(format!(
+            "figure({link}, {name}): expected {expected} ± {tol} (SI), got {actual} (difference {:e})",
             actual - expected
         ))
     }

@@ -168,7 +168,13 @@ fn every_example_gives_a_report_whose_numbers_match_the_solve() {
                     .expect("build-up row");
                 // Radial build-ups (pipe lagging) have no area, so no U-value per area.
                 match g["u_value_W_per_m2K"].as_f64() {
-                    Some(u) => assert!(agrees(number(&row[5]), u), "{stem}: U {}", row[5]),
+                    Some(u) => {
+                        assert!(agrees(number(&row[5]), u), "{stem}: U {}", row[5]);
+                        // Rounded to two significant figures, as ISO 6946 states a U-value.
+                        let rounded = g["u_value_rounded_W_per_m2K"].as_f64().expect("rounded U");
+                        assert_eq!(number(&row[6]), rounded, "{stem}: rounded U {}", row[6]);
+                        assert!((rounded - u).abs() <= 0.05 * u, "{stem}: {rounded} vs {u}");
+                    }
                     None => assert!(row[5].is_empty(), "{stem}: U shown without one: {}", row[5]),
                 }
             }
@@ -185,7 +191,16 @@ fn every_example_gives_a_report_whose_numbers_match_the_solve() {
             } else {
                 "**FAIL**"
             };
-            assert_eq!(row[4], verdict);
+            assert_eq!(row[5], verdict);
+            // The margin in percent of the limit, as the JSON gives it.
+            match l["margin_percent"].as_f64() {
+                Some(p) => assert!(
+                    agrees(number(row[4].trim_end_matches(" %")), p),
+                    "{stem}: margin % {}",
+                    row[4]
+                ),
+                None => assert_eq!(row[4], "—"),
+            }
         }
 
         let net = parse_svg(&dir.join("network.svg"));

@@ -7,10 +7,14 @@
 //! a child of the declaration that made it (hover, go-to-definition and references rely on it).
 //! The network itself (`crate::network`) stays plain data.
 
-use crate::network::{Group, Link, LinkFigure, LinkId, Network, Node, NodeId, RadiusCheck};
+use crate::elements::Figure;
+use crate::network::{
+    FigureRule, Group, Link, LinkFigure, LinkId, Network, Node, NodeId, RadiusCheck, SolvedFigure,
+};
 use crate::region::Region;
 use crate::span::Span;
 use crate::symbols::{Symbol, SymbolKind, SymbolTable};
+use crate::units::TempKind;
 use rustc_hash::FxHashMap;
 
 /// The network being built, with an index of its nodes by name.
@@ -86,9 +90,23 @@ impl Assembler {
         self.net.links.len() - 1
     }
 
-    /// A named dimensionless figure of a link, such as a fin's efficiency.
-    pub fn figure(&mut self, link: LinkId, name: &'static str, value: f64) {
-        self.net.figures.push(LinkFigure { link, name, value });
+    /// A named figure of a link known before the solve, such as a fin's efficiency or a
+    /// shape factor (SI units, `dim` its dimension).
+    pub fn figure(&mut self, link: LinkId, f: Figure) {
+        self.net.figures.push(LinkFigure {
+            link,
+            name: f.name,
+            value: f.value,
+            dim: f.dim,
+            kind: TempKind::NotTemperature,
+        });
+    }
+
+    /// A figure of a link that the solution works out from its temperatures (a fin's tip).
+    pub fn solved_figure(&mut self, link: LinkId, name: &'static str, rule: FigureRule) {
+        self.net
+            .solved_figures
+            .push(SolvedFigure { link, name, rule });
     }
 
     /// A complete build-up use; its element links learn which group they belong to here, so no

@@ -106,7 +106,15 @@ fn number_with_unit(lex: &mut logos::Lexer<Tok>) -> u32 {
     let Some(first) = unit.chars().next() else {
         return num_len;
     };
-    if !is_unit_start(first) && first != '(' {
+    // A reciprocal unit is written with the number one: `0.004 1/K`, `2 1/(m*K)`. Only after a
+    // space, since the digits right after a number are part of it.
+    let reciprocal = after_space > 0 && {
+        let mut c = unit.chars();
+        c.next() == Some('1')
+            && c.next() == Some('/')
+            && c.next().is_some_and(|n| is_unit_start(n) || n == '(')
+    };
+    if !is_unit_start(first) && first != '(' && !reciprocal {
         return num_len;
     }
     // A unit never starts with a bracket unless written `(…)` right after the number with no
@@ -172,6 +180,11 @@ pub fn lex(text: &str, file: FileId) -> Vec<Token> {
 /// The tokens of `text` one by one, for callers that keep them in a form of their own.
 pub fn tokens(text: &str, file: FileId) -> impl Iterator<Item = Token> + '_ {
     let mut lexer = Tok::lexer(text);
+    // A byte-order mark that some editors write at the start of a file is not part of the
+    // model; spans still count from the file's first byte.
+    if text.starts_with('\u{FEFF}') {
+        lexer.bump('\u{FEFF}'.len_utf8());
+    }
     std::iter::from_fn(move || {
         let res = lexer.next()?;
         let r = lexer.span();

@@ -19,6 +19,7 @@ pub mod expand;
 pub mod fluid;
 pub mod format;
 pub mod formula;
+pub mod insulation_loss;
 pub mod laws;
 pub mod lexer;
 pub mod library;

@@ -210,6 +210,10 @@ pub struct LimitResult {
     /// How far inside the limit the value is (negative when it fails), SI; a temperature
     /// margin is a difference in kelvin.
     pub margin: f64,
+    /// The margin as a percentage of the limit: 100·margin/|limit|, the limit of a temperature
+    /// taken in kelvin so the figure does not depend on the scale it was written in; NaN for a
+    /// limit of zero.
+    pub margin_percent: f64,
     pub span: Span,
 }
 
@@ -252,6 +256,11 @@ pub fn verdict(spec: &LimitSpec, actual: f64) -> LimitResult {
         limit: spec.value,
         passed,
         margin,
+        margin_percent: if spec.value == 0.0 {
+            f64::NAN
+        } else {
+            100.0 * margin / spec.value.abs()
+        },
         span: spec.span,
     }
 }

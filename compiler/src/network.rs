@@ -2,6 +2,7 @@
 //! the span that declared it so results can be shown where they came from.
 
 use crate::span::Span;
+use crate::units::{Dim, TempKind};
 use serde::Serialize;
 
 pub type NodeId = usize;
@@ -76,6 +77,8 @@ pub struct Group {
     pub from: NodeId,
     pub to: NodeId,
     pub area: Option<f64>,
+    /// The length of a cylindrical (pipe) build-up, m, for its heat loss per metre.
+    pub length: Option<f64>,
     pub links: Vec<LinkId>,
 }
 
@@ -86,10 +89,14 @@ pub struct Network {
     pub groups: Vec<Group>,
     /// Capacities, initial temperatures and schedules for transient runs (empty when steady).
     pub dynamics: crate::transient::model::Dynamics,
-    /// Named dimensionless figures of links (a fin's efficiency), for reports.
+    /// Named figures of links known before the solve (a fin's efficiency, a shape factor),
+    /// for reports.
     pub figures: Vec<LinkFigure>,
     /// W110 checks to make once computed films are solved.
     pub radius_checks: Vec<RadiusCheck>,
+    /// Figures of links that need the solved temperatures (a fin's tip temperature), worked
+    /// out by `results::Solution`.
+    pub solved_figures: Vec<SolvedFigure>,
     /// 2-D regions meshed into the network, for their temperature and flux fields.
     pub regions: Vec<crate::region::Region>,
 }
@@ -110,12 +117,69 @@ pub struct RadiusCheck {
     pub r_out: f64,
 }
 
-/// A named figure of one link, such as `fin_efficiency`.
+/// A named figure of one link, such as `fin_efficiency` or `shape_factor`, in SI units.
 #[derive(Clone, Debug, Serialize)]
 pub struct LinkFigure {
     pub link: LinkId,
     pub name: &'static str,
     pub value: f64,
+    /// The figure's dimension (`Dim::NONE` for efficiencies and groups).
+    pub dim: Dim,
+    /// `Point` for a temperature on a scale, so reports convert it as one.
+    pub kind: TempKind,
+}
+
+impl LinkFigure {
+    /// The field name in the JSON report: the figure's name and its SI unit
+    /// (`shape_factor_m`, `fin_tip_temperature_K`); a dimensionless figure keeps its name.
+    pub fn json_name(&self) -> String {
+        match crate::units::json_unit_suffix(self.dim) {
+            Some(suffix) => format!("{}_{suffix}", self.name),
+            None => self.name.to_string(),
+        }
+    }
+}
+
+/// How a figure follows from the solved temperatures and heat flow of its link.
+#[derive(Clone, Copy, Debug, Serialize)]
+pub enum FigureRule {
+    /// T_to + ratio·(T_from − T_to): a temperature between the link's ends (a fin's tip, whose
+    /// excess over the fluid is a known fraction of the base's).
+    Between(f64),
+    /// The temperature of the link's first node (a fin's base).
+    FromTemperature,
+    /// The link's heat flow divided by a number (per fin of an array), in W.
+    HeatFlowOver(f64),
+}
+
+/// A figure of a link worked out once the network is solved.
+#[derive(Clone, Debug, Serialize)]
+pub struct SolvedFigure {
+    pub link: LinkId,
+    pub name: &'static str,
+    pub rule: FigureRule,
+}
+
+impl SolvedFigure {
+    /// The figure at solved temperatures (K) and the link's heat flow (W).
+    pub fn at(&self, link: &Link, t: &[f64], heat_flow: f64) -> LinkFigure {
+        let (value, dim, kind) = match self.rule {
+            FigureRule::Between(r) => (
+                t[link.to] + r * (t[link.from] - t[link.to]),
+                Dim::TEMPERATURE,
+                TempKind::Point,
+            ),
+            FigureRule::FromTemperature => (t[link.from], Dim::TEMPERATURE, TempKind::Point),
+            FigureRule::HeatFlowOver(n) => (heat_flow / n, Dim::POWER, TempKind::NotTemperature),
+        };
+        LinkFigure {
+            link: self.link,
+            name: self.name,
+            value,
+            dim,
+            kind,
+        }
+    }
 }
 
 impl Network {

@@ -6,6 +6,7 @@
 
 use crate::diagnostic::Diagnostic;
 use crate::elements::{self, shell, shell::Geometry, Args, Built, ElementKind};
+use crate::insulation_loss;
 use crate::span::Span;
 use crate::syntax::{BuildupElement, Ident};
 use crate::units::Dim;
@@ -79,23 +80,37 @@ pub fn supplied_inside(name: &str, span: Span) -> Diagnostic {
 /// Walks a build-up from the bore outwards.
 pub struct Chain {
     geom: Geometry,
+    /// The length of a cylindrical build-up, m.
+    length: Option<f64>,
     /// The radius the next element starts at, with the span that set it.
     pub radius: Option<(f64, Span)>,
     /// The outermost shell so far: element index, k, outer radius.
     last_shell: Option<(usize, f64, f64)>,
-    /// The film coefficient after the last shell.
-    outer_h: Option<f64>,
-    /// The last element is a computed film: its h is known only once solved.
+    /// The film coefficient after the last shell, and that film's resistance.
+    outer_h: Option<(f64, f64)>,
+    /// Every shell so far, for the whole build-up's insulation check.
+    shells: Vec<insulation_loss::Shell>,
+    /// The resistance of every element that is neither a shell nor the outer film, K/W.
+    other: f64,
+    /// False once an element's resistance is unknown here (a computed film, a failed element):
+    /// the insulation check then says nothing rather than guess.
+    known: bool,
+    /// The last element is a computed film: its h is known only once solved, so the outermost
+    /// shell's critical radius is checked after the solve ([`Chain::pending_check`]).
     computed_outer: bool,
 }
 
 impl Chain {
-    pub fn new(geom: Geometry, bore: Option<(f64, Span)>) -> Chain {
+    pub fn new(geom: Geometry, bore: Option<(f64, Span)>, length: Option<f64>) -> Chain {
         Chain {
             geom,
+            length,
             radius: bore,
             last_shell: None,
             outer_h: None,
+            shells: Vec::new(),
+            other: 0.0,
+            known: true,
             computed_outer: false,
         }
     }
@@ -109,46 +124,147 @@ impl Chain {
         built: Option<&Built>,
     ) {
         let is_shell = matches!(kind.name(), "cylinder" | "sphere");
+        // A film followed by anything is an inner element, no longer the outer film.
+        if let Some((_, r)) = self.outer_h.take() {
+            self.other += r;
+        }
+        self.computed_outer = false;
         match (args, built) {
+            (Some(_), Some(_)) if elements::convection::is_computed_film(kind.name()) => {
+                self.computed_outer = true;
+                self.known = false;
+            }
             (Some(a), Some(_)) if is_shell => {
                 let r_out = shell::outer_radius(a);
                 if let (Some(r_out), Ok(k)) = (r_out, shell::conductivity(a, "")) {
                     self.last_shell = Some((i, k, r_out));
+                    match self.radius {
+                        Some((r_in, _)) => self.shells.push(insulation_loss::Shell {
+                            index: i,
+                            k,
+                            r_in,
+                            r_out,
+                        }),
+                        None => self.known = false,
+                    }
                 }
                 self.radius = r_out.map(|r| (r, span));
-                self.outer_h = None;
-                self.computed_outer = false;
-            }
-            (Some(_), Some(_)) if elements::convection::is_computed_film(kind.name()) => {
-                self.outer_h = None;
-                self.computed_outer = true;
             }
             (Some(_), Some(b)) if kind.name() == "film" => {
-                self.outer_h = b.area.map(|area| b.conductance / area)
+                self.outer_h = b
+                    .area
+                    .map(|area| (b.conductance / area, 1.0 / b.conductance));
+                if self.outer_h.is_none() {
+                    self.known = false;
+                }
             }
-            _ if is_shell => self.radius = None,
-            _ => {}
+            (Some(_), Some(b)) if b.conductance.is_finite() && b.conductance > 0.0 => {
+                self.other += 1.0 / b.conductance
+            }
+            _ if is_shell => {
+                self.radius = None;
+                self.known = false;
+            }
+            _ => self.known = false,
         }
     }
 
-    /// W110 when the outermost shell, followed by a film, ends below the critical radius.
-    pub fn critical_radius_warning(
+    /// The outermost shell's index and its critical insulation radius (k/h for a cylinder, 2k/h
+    /// for a sphere), when a film follows it.
+    pub fn critical_radius(&self) -> Option<(usize, f64)> {
+        let ((i, k, _), (h, _)) = (self.last_shell?, self.outer_h?);
+        Some((
+            i,
+            shell::critical_radius(self.geom == Geometry::Sphere, k, h),
+        ))
+    }
+
+    /// The whole build-up against the bare pipe, when it ends in a film and every element's
+    /// resistance is known.
+    pub fn insulation(&self) -> Option<insulation_loss::Comparison> {
+        let (h, _) = self.outer_h?;
+        if !self.known {
+            return None;
+        }
+        let spherical = self.geom == Geometry::Sphere;
+        let b = insulation_loss::RadialBuildup {
+            spherical,
+            length: if spherical { 1.0 } else { self.length? },
+            shells: self.shells.clone(),
+            h,
+            other: self.other,
+        };
+        b.compare()
+    }
+
+    /// W110 when the build-up's insulation, taken as a whole, loses more heat than the bare
+    /// pipe: by how much (in W when both ends are held at known temperatures, and in %), and
+    /// the outer radius where the loss falls back to the bare pipe's.
+    pub fn insulation_warning(
         &self,
         use_name: &Ident,
         els: &[BuildupElement],
+        delta_t: Option<f64>,
     ) -> Option<Diagnostic> {
-        let ((i, k, r_out), h) = (self.last_shell?, self.outer_h?);
-        let e = &els[i];
-        let shell = (e.name.name.as_str(), e.element.span);
-        critical_radius_diagnostic(
-            &use_name.name,
-            use_name.span,
-            shell,
-            self.geom == Geometry::Sphere,
-            k,
-            r_out,
-            h,
-            "",
+        let c = self.insulation()?;
+        if !c.increases_loss() {
+            return None;
+        }
+        let e = els.get(c.outermost)?;
+        let show = elements::show;
+        let spherical = self.geom == Geometry::Sphere;
+        let shape = if spherical { "vessel" } else { "pipe" };
+        let how_much = match delta_t {
+            Some(dt) => format!(
+                "{} more ({:.1} %)",
+                show(c.watts(dt).abs(), Dim::POWER),
+                c.percent()
+            ),
+            None => format!("{:.1} % more", c.percent()),
+        };
+        let back = match c.break_even {
+            Some(r) => format!(
+                "the loss falls back to the bare {shape}'s at an outer radius of {} (the break-even radius)",
+                show(r, Dim::LENGTH)
+            ),
+            None => format!("no outer radius of `{}` brings the loss back to the bare {shape}'s", e.name.name),
+        };
+        let critical = self
+            .critical_radius()
+            .filter(|(i, _)| *i == c.outermost)
+            .map(|(_, r)| {
+                format!(
+                    "; its critical radius {} = {}",
+                    if spherical { "2k/h" } else { "k/h" },
+                    show(r, Dim::LENGTH)
+                )
+            })
+            .unwrap_or_default();
+        Some(
+            Diagnostic::warning(
+                "W110",
+                format!(
+                    "in `{}`, the insulation up to `{}` increases the heat loss over the bare {shape} (outer radius {}): {how_much}; {back}{critical}",
+                    use_name.name,
+                    e.name.name,
+                    show(c.pipe_radius, Dim::LENGTH),
+                ),
+                e.element.span,
+            )
+            .with_label("insulation that raises the heat loss")
+            .with_secondary(use_name.span, "used here")
+            .with_help(match c.break_even {
+                // Beyond a hundred times the pipe's radius no one would lag it so.
+                Some(r) if r > 100.0 * c.pipe_radius => format!(
+                    "no practical thickness of `{}` brings the loss below the bare {shape}'s; to cut it, use a material with lower k; where the extra loss is wanted (a cable shedding heat through its jacket), keep it",
+                    e.name.name
+                ),
+                Some(r) => format!(
+                    "to cut the heat loss, make the outer radius well above {}, or use a material with lower k; where the extra loss is wanted (a cable shedding heat through its jacket), keep it",
+                    show(r, Dim::LENGTH)
+                ),
+                None => "to cut the heat loss, use a material with lower k; where the extra loss is wanted, keep it".to_string(),
+            }),
         )
     }
 

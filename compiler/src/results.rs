@@ -2,7 +2,7 @@
 //! U- and R-values, and limit verdicts.
 
 use crate::limits::{self, LimitResult, LimitSpec, Measure, Subject};
-use crate::network::Network;
+use crate::network::{LinkFigure, Network};
 use crate::solve::Temperatures;
 use serde::Serialize;
 
@@ -18,6 +18,11 @@ pub struct GroupResult {
     pub heat_flow: f64,
     /// W/(m²·K), films included.
     pub u_value: Option<f64>,
+    /// The U-value rounded to two significant figures, as ISO 6946 states results; shown
+    /// labelled as rounded beside the unrounded value.
+    pub u_value_rounded: Option<f64>,
+    /// W/m: the heat flow per metre of a cylindrical (pipe) build-up.
+    pub heat_flow_per_length: Option<f64>,
     /// m²·K/W
     pub r_value: Option<f64>,
 }
@@ -43,6 +48,29 @@ pub struct Solution {
     /// Computed convection films at the solved temperatures: groups, h, heat by convection and
     /// by radiation.
     pub films: Vec<crate::convection::report::FilmResult>,
+    /// Figures of links at the solved temperatures (a fin's tip and base temperatures, its
+    /// heat flow per fin), from `Network::solved_figures`.
+    pub figures: Vec<LinkFigure>,
+}
+
+/// A U-value (W/(m²·K)) rounded to two significant figures in the unit a report shows it in,
+/// as a reader rounds it: `0.28 W/(m²·K)`, `0.049 Btu/(h·ft²·°F)`.
+pub fn rounded_u_value(u: f64, system: crate::units::UnitSystem) -> String {
+    use crate::units::{display_unit, format_number, Dim, TempKind};
+    let unit = display_unit(Dim::HEAT_TRANSFER_COEFF, TempKind::NotTemperature, system);
+    let shown = round_significant(unit.from_si(u), 2);
+    format!("{} {}", format_number(shown), unit.text)
+}
+
+/// `v` rounded to `digits` significant figures (0.2849 → 0.28 with two).
+pub fn round_significant(v: f64, digits: i32) -> f64 {
+    if v == 0.0 || !v.is_finite() {
+        return v;
+    }
+    // A computed U-value is no exact decimal, so rounding its binary value half away from
+    // zero is what rounding by hand would give.
+    let scale = 10f64.powi(digits - 1 - v.abs().log10().floor() as i32);
+    (v * scale).round() / scale
 }
 
 impl Solution {
@@ -77,11 +105,15 @@ impl Solution {
                     .iter()
                     .map(|&l| 1.0 / net.links[l].conductance_at(&t))
                     .sum();
+                let heat_flow = (t[g.from] - t[g.to]) / resistance;
+                let u_value = g.area.map(|a| 1.0 / (resistance * a));
                 GroupResult {
                     name: g.name.clone(),
                     resistance,
-                    heat_flow: (t[g.from] - t[g.to]) / resistance,
-                    u_value: g.area.map(|a| 1.0 / (resistance * a)),
+                    heat_flow,
+                    u_value,
+                    u_value_rounded: u_value.map(|u| round_significant(u, 2)),
+                    heat_flow_per_length: g.length.map(|l| heat_flow / l),
                     r_value: g.area.map(|a| resistance * a),
                 }
             })
@@ -96,7 +128,19 @@ impl Solution {
             limits: Vec::new(),
             convergence: None,
             films: Vec::new(),
+            figures: Vec::new(),
         };
+        sol.figures = net
+            .solved_figures
+            .iter()
+            .map(|f| {
+                f.at(
+                    &net.links[f.link],
+                    &sol.temperatures,
+                    sol.heat_flows[f.link],
+                )
+            })
+            .collect();
         sol.films = crate::convection::report::film_results(net, &sol.temperatures);
         sol.limits = limit_specs
             .iter()

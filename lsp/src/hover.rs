@@ -10,6 +10,7 @@ use crate::settings::Settings;
 use crate::snapshot::{Snapshot, Stage};
 use caloris_compiler::elements::{self, ElementKind};
 use caloris_compiler::query::{format_significant, network_at, node_balance, target_at, Target};
+use caloris_compiler::results::rounded_u_value;
 use caloris_compiler::schema::{self, DeclSpec};
 use caloris_compiler::span::FileId;
 use caloris_compiler::symbols::{Symbol, SymbolKind};
@@ -271,6 +272,21 @@ fn link(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
                 both(q(rv, Dim::AREA_RESISTANCE), sys)
             );
         }
+        if let Some(u) = r.u_value {
+            let _ = write!(
+                out,
+                "\n\nU-value rounded to two significant figures, as ISO 6946 states it: {} ({})",
+                rounded_u_value(u, sys),
+                rounded_u_value(u, crate::display::other(sys))
+            );
+        }
+        if let Some(per_m) = r.heat_flow_per_length {
+            let _ = write!(
+                out,
+                "\n\nHeat flow per metre of pipe: {}",
+                both(q(per_m, Dim::LINEAR_HEAT_FLOW), sys)
+            );
+        }
         let _ = write!(out, "\n\nElements in series from `{from}`:\n");
         for &l in &group.links {
             let link = &net.links[l];
@@ -310,7 +326,7 @@ fn link(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
     }
     let _ = write!(out, "\n\n```text\n{}\n```", link.formula);
     let _ = write!(out, "\n\n{}", link_figures::resistance_line(link, sol, sys));
-    out.push_str(&link_figures::figures(net, l));
+    out.push_str(&link_figures::figures(net, sol, l, sys));
     let Some(sol) = sol else {
         return format!("{out}\n\n{}", unsolved(snap));
     };

@@ -7,7 +7,7 @@ use crate::display::{both, point, q};
 use caloris_compiler::network::{Link, LinkLaw, Network};
 use caloris_compiler::region::Region;
 use caloris_compiler::results::Solution;
-use caloris_compiler::units::{format_number, Dim, UnitSystem};
+use caloris_compiler::units::{format_number, Dim, Quantity, UnitSystem};
 use std::fmt::Write;
 
 /// Why a link's resistance depends on its end temperatures; `None` for a linear link.
@@ -43,11 +43,26 @@ pub fn resistance_line(link: &Link, sol: Option<&Solution>, sys: UnitSystem) -> 
     out
 }
 
-/// `- \`fin_efficiency\` = 0.8312` lines for the link's named figures, or nothing.
-pub fn figures(net: &Network, link: usize) -> String {
+/// `- \`fin_efficiency\` = 0.8312` lines for the link's named figures, those known before the
+/// solve and, once solved, those at the solved temperatures (a fin's tip temperature), each in
+/// both unit systems; or nothing.
+pub fn figures(net: &Network, sol: Option<&Solution>, link: usize, sys: UnitSystem) -> String {
     let mut out = String::new();
-    for f in net.figures.iter().filter(|f| f.link == link) {
-        let _ = write!(out, "\n- `{}` = {}", f.name, format_number(f.value));
+    let solved = sol.map(|s| s.figures.as_slice()).unwrap_or_default();
+    for f in net.figures.iter().chain(solved).filter(|f| f.link == link) {
+        let shown = if f.dim.is_none() {
+            format_number(f.value)
+        } else {
+            both(
+                Quantity {
+                    value: f.value,
+                    dim: f.dim,
+                    kind: f.kind,
+                },
+                sys,
+            )
+        };
+        let _ = write!(out, "\n- `{}` = {shown}", f.name);
     }
     if out.is_empty() {
         out

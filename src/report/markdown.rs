@@ -247,7 +247,7 @@ pub fn report(a: &Analysis, model: &str, figures: &Figures, system: UnitSystem) 
     }
 
     if !sol.groups.is_empty() {
-        out.push_str("### Build-up U- and R-values\n\nSurface films included; U = 1/(R·A), R-value = R·A.\n\n");
+        out.push_str("### Build-up U- and R-values\n\nSurface films included; U = 1/(R·A), R-value = R·A. The rounded U-value is given to two significant figures, as ISO 6946 states results; the unrounded value beside it is what the model computes.\n\n");
         let mut t = Table::new(
             &[
                 "build-up use",
@@ -256,9 +256,10 @@ pub fn report(a: &Analysis, model: &str, figures: &Figures, system: UnitSystem) 
                 "resistance",
                 "R-value",
                 "U-value",
+                "U-value (rounded, 2 s.f.)",
                 "heat flow",
             ],
-            &[2, 3, 4, 5, 6],
+            &[2, 3, 4, 5, 6, 7],
         );
         for (g, r) in net.groups.iter().zip(&sol.groups) {
             t.row(&[
@@ -271,6 +272,9 @@ pub fn report(a: &Analysis, model: &str, figures: &Figures, system: UnitSystem) 
                     .unwrap_or_default(),
                 r.u_value
                     .map(|v| plain(v, Dim::HEAT_TRANSFER_COEFF))
+                    .unwrap_or_default(),
+                r.u_value
+                    .map(|v| caloris_compiler::results::rounded_u_value(v, system))
                     .unwrap_or_default(),
                 power(r.heat_flow),
             ]);
@@ -290,11 +294,18 @@ pub fn report(a: &Analysis, model: &str, figures: &Figures, system: UnitSystem) 
         out.push_str("The model states no design limits.\n\n");
     } else {
         out.push_str(
-            "The margin is how far the value is inside the limit; negative when it fails.\n\n",
+            "The margin is how far the value is inside the limit; negative when it fails. The margin % is of the limit (a temperature limit in kelvin).\n\n",
         );
         let mut t = Table::new(
-            &["limit", "condition", "value", "margin", "verdict"],
-            &[2, 3],
+            &[
+                "limit",
+                "condition",
+                "value",
+                "margin",
+                "margin %",
+                "verdict",
+            ],
+            &[2, 3, 4],
         );
         for l in &sol.limits {
             let dim = l.measure.dim();
@@ -314,6 +325,7 @@ pub fn report(a: &Analysis, model: &str, figures: &Figures, system: UnitSystem) 
                 ),
                 q(l.actual, dim, l.kind()),
                 q(l.margin, dim, l.margin_kind()),
+                crate::output::percent(l.margin_percent),
                 verdict,
             ]);
         }

@@ -82,6 +82,10 @@ class Case:
     def temperature(self, node, t_c, tolerance=CLOSED_T_TOL):
         self.header.append(f"# expect: temperature({node}) = {num(t_c)} °C ± {tolerance}")
 
+    def figure(self, link, name, value, unit, tolerance):
+        """A named figure of a link (`fin_tip_temperature`, `shape_factor`), in `unit`."""
+        self.header.append(f"# expect: figure({link}, {name}) = {num(value)} {unit} ± {tolerance}")
+
     def heat_flow(self, link, q, rel=1e-9):
         self.header.append(f"# expect: heat_flow({link}) = {num(q)} W ± {tol(q, rel)} W")
 

@@ -195,6 +195,9 @@ def shell_critical_radius_cable():
     c.header.append("# expect: warning W110 at @cylinder(pvc@")
     c.heat_flow("sleeved", q_sleeved)
     c.heat_flow("bare", q_bare)
+    # Reported on the jacket always, not only inside the warning.
+    c.figure("sleeved.jacket", "critical_radius", k / h, "m", f"{tol(k / h)} m")
+    # Heat loss per metre of the 1 m run.
     c.line("# Both conductors are held at 60 °C; only one has a jacket.")
     c.line("node core_a (fixed = 60 °C)")
     c.line("node core_b (fixed = 60 °C)")
@@ -481,6 +484,10 @@ def shape_factor_buried_services():
     c.heat_flow("heating_pipe", k_soil * s_pipe * (t_pipe - t_lawn))
     c.heat_flow("water_tank", k_soil * s_sph * (t_tank - t_lawn))
     c.heat_flow("flow_to_return", k_conc * s_pair * (t_flow - t_ret))
+    # The shape factor itself, as the reports give it.
+    c.figure("heating_pipe", "shape_factor", s_pipe, "m", f"{tol(s_pipe)} m")
+    c.figure("water_tank", "shape_factor", s_sph, "m", f"{tol(s_sph)} m")
+    c.figure("flow_to_return", "shape_factor", s_pair, "m", f"{tol(s_pair)} m")
     c.line("material garden_soil (k = 1.3 W/(m*K))   # moist loam, typical value, from memory")
     c.line("material duct_concrete (k = 1.4 W/(m*K)) # typical value, from memory")
     c.line()
@@ -523,6 +530,28 @@ def fin_ode(k, h, ac, p, L, tip_h=None):
     return -k * ac * sol.sol(0.0)[1]
 
 
+def fin_tip_ratio_closed_form(k, h, ac, p, L, tip_h=None):
+    """θ(L)/θ_b of the closed-form fin solutions: 1/cosh(mL) (adiabatic tip),
+    1/(cosh mL + (h_tip/(m·k))·sinh mL) (convective tip)."""
+    m = math.sqrt(h * p / (k * ac))
+    r = 0.0 if tip_h is None else tip_h / (m * k)
+    return 1.0 / (math.cosh(m * L) + r * math.sinh(m * L))
+
+
+def fin_tip_ratio_ode(k, h, ac, p, L, tip_h=None):
+    """θ(L)/θ_b from scipy.integrate.solve_bvp of the same fin equation as fin_ode."""
+    m2 = h * p / (k * ac)
+    x = np.linspace(0, L, 50)
+
+    def bc(ya, yb):
+        tip = yb[1] if tip_h is None else k * yb[1] + tip_h * yb[0]
+        return np.array([ya[0] - 1.0, tip])
+
+    sol = integrate.solve_bvp(lambda x, y: np.vstack([y[1], m2 * y[0]]), bc, x, np.vstack([np.ones_like(x), np.zeros_like(x)]), tol=1e-10, max_nodes=100000)
+    assert sol.success, sol.message
+    return float(sol.sol(L)[0])
+
+
 def fin_charger_heatsink():
     c = case(
         "fin_charger_heatsink",
@@ -548,13 +577,24 @@ def fin_charger_heatsink():
         g = fin_closed_form(*args)
         agree(g, fin_ode(*args), 1e-7, name)
         c.heat_flow(name, g * (t_base - t_air))
+        # The tip temperature: T_air + θ(L)/θ_b·(T_base − T_air), closed form against the ODE.
+        ratio = fin_tip_ratio_closed_form(*args)
+        agree(ratio, fin_tip_ratio_ode(*args), 1e-7, name + " tip")
+        c.figure(name, "fin_tip_temperature", t_air + ratio * (t_base - t_air), "°C", "1e-9 K")
+        c.figure(name, "fin_base_temperature", t_base, "°C", "1e-9 K")
     g_row = 14 * fin_closed_form(*fins["straight_adiabatic"])
     c.heat_flow("row_of_fins", g_row * (t_base - t_air))
+    c.figure("row_of_fins", "fin_heat_flow_per_fin", g_row / 14 * (t_base - t_air), "W", "1e-9 W")
+    c.figure("row_of_fins", "fin_array_heat_flow", g_row * (t_base - t_air), "W", "1e-8 W")
     # A loaded free node: P leaves through 14 fins and a base-plate film.
     p_load, g_plate = lit("18"), lit("6") * lit("0.012")
     t_node = t_air + p_load / (g_row + g_plate)
     c.temperature("charger_plate", t_node)
     c.heat_flow("plate_fins", g_row * (t_node - t_air))
+    ratio = fin_tip_ratio_closed_form(*fins["straight_adiabatic"])
+    c.figure("plate_fins", "fin_base_temperature", t_node, "°C", "1e-8 K")
+    c.figure("plate_fins", "fin_tip_temperature", t_air + ratio * (t_node - t_air), "°C", "1e-8 K")
+    c.figure("plate_fins", "fin_heat_flow_per_fin", g_row / 14 * (t_node - t_air), "W", "1e-9 W")
     c.line("material aluminium_6063 (k = 205 W/(m*K))   # typical value, from memory")
     c.line("material stainless_pin  (k = 16 W/(m*K))    # typical value, from memory")
     c.line()

@@ -5,11 +5,12 @@
 
 use super::Cx;
 use crate::diagnostic::{did_you_mean, Diagnostic};
-use crate::elements::{self, shell};
+use crate::elements::{self, shell, Figure};
 use crate::network::{Group, Link, NodeId};
 use crate::radial::{self, UseArgs};
 use crate::schema;
 use crate::syntax::{BuildupElement, ElementCall, Ident, Item, ItemKind, Module};
+use crate::units::Dim;
 use rustc_hash::FxHashMap;
 
 /// The build-ups a model declares, by name.
@@ -85,7 +86,8 @@ impl Cx<'_> {
         let mut prev = from;
         let mut complete = true;
         // Each shell starts at the radius where the one before it ended.
-        let mut chain = radial::Chain::new(geom, use_args.inner_radius);
+        let mut chain =
+            radial::Chain::new(geom, use_args.inner_radius, use_args.length.map(|l| l.0));
         for (i, e) in els.iter().enumerate() {
             let next = if i + 1 == els.len() {
                 to
@@ -147,8 +149,11 @@ impl Cx<'_> {
                     links.push(id);
                     if let Some(args) = &args {
                         self.diags.extend(kind.warnings(args));
-                        for (n, v) in kind.figures(args) {
-                            self.asm.figure(id, n, v);
+                        for f in kind.figures(args) {
+                            self.asm.figure(id, f);
+                        }
+                        for (n, rule) in kind.solved_figures(args) {
+                            self.asm.solved_figure(id, n, rule);
                         }
                     }
                 }
@@ -157,7 +162,19 @@ impl Cx<'_> {
             prev = next;
         }
         if complete {
-            self.diags.extend(chain.critical_radius_warning(name, els));
+            // The loss the insulation adds in W needs the temperature difference, known here
+            // when both ends are held.
+            let held = |n: Option<NodeId>| n.and_then(|n| self.asm.net().nodes[n].fixed);
+            let delta_t = held(from).zip(held(to)).map(|(a, b)| a - b);
+            self.diags
+                .extend(chain.insulation_warning(name, els, delta_t));
+            // Reported always, not only inside the warning: a reviewer checks it either way.
+            if let Some((i, r_crit)) = chain.critical_radius() {
+                if let Some(&id) = links.get(i) {
+                    self.asm
+                        .figure(id, Figure::of("critical_radius", r_crit, Dim::LENGTH));
+                }
+            }
             if let Some(&film) = links.last() {
                 if let Some(check) = chain.pending_check(name, els, film) {
                     self.asm.radius_check(check);
@@ -176,6 +193,10 @@ impl Cx<'_> {
                     from: a,
                     to: b,
                     area,
+                    length: match geom {
+                        shell::Geometry::Cylinder => use_args.length.map(|l| l.0),
+                        _ => None,
+                    },
                     links,
                 });
             }

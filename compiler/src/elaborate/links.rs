@@ -82,8 +82,11 @@ impl Cx<'_> {
         self.diags.extend(kind.warnings(&args));
         // The figures belong to the first link the element makes.
         let first = self.asm.net().links.len();
-        for (n, v) in kind.figures(&args) {
-            self.asm.figure(first, n, v);
+        for f in kind.figures(&args) {
+            self.asm.figure(first, f);
+        }
+        for (n, rule) in kind.solved_figures(&args) {
+            self.asm.solved_figure(first, n, rule);
         }
         match kind.expand(&args) {
             Ok(Some(x)) => {

@@ -8,8 +8,9 @@
 // split the element API.
 #![allow(clippy::result_large_err)]
 
-use super::{material, q, show, ArgSpec, Args, Built, ElementKind};
+use super::{material, q, show, ArgSpec, Args, Built, ElementKind, Figure};
 use crate::diagnostic::Diagnostic;
+use crate::network::FigureRule;
 use crate::units::Dim;
 use std::f64::consts::PI;
 
@@ -74,6 +75,11 @@ pub struct FinSolution {
     pub ml: f64,
     /// Biot number h·(t/2)/k (or h·(D/4)/k for a pin), for the 1-D assumption.
     pub biot: f64,
+    /// θ_tip/θ_b: the tip's excess temperature over the base's, 1/cosh(mL) for an adiabatic
+    /// tip and 1/(cosh mL + (h_tip/mk)·sinh mL) for a convective one.
+    pub tip_ratio: f64,
+    /// Number of identical fins the link stands for.
+    pub count: f64,
     pub formula: String,
 }
 
@@ -124,6 +130,11 @@ pub fn solve(a: &Args) -> Result<FinSolution, Diagnostic> {
     let m = (h * p / (k * ac)).sqrt();
     let big_m = (h * p * k * ac).sqrt();
     let ml = m * l;
+    // θ(L)/θ_b of the same closed-form solutions (θ = T − T_fluid).
+    let tip_ratio = match a.get("tip_h") {
+        None => 1.0 / ml.cosh(),
+        Some(ht) => 1.0 / (ml.cosh() + ht / (m * k) * ml.sinh()),
+    };
     let (g1, tip_text, a_f) = match a.get("tip_h") {
         None => (
             big_m * ml.tanh(),
@@ -147,6 +158,8 @@ pub fn solve(a: &Args) -> Result<FinSolution, Diagnostic> {
         effectiveness: g1 / (h * ac),
         ml,
         biot: h * half_thickness / k,
+        tip_ratio,
+        count,
         formula: format!(
             "{shape}, L = {}, m = √(hP/(kA_c)) = {:.4} 1/m, mL = {ml:.4}; {tip_text}; η = {efficiency:.4}{}; R = {}",
             show(l, Dim::LENGTH),
@@ -175,13 +188,27 @@ impl ElementKind for Fin {
             formula: s.formula.into(),
         })
     }
-    fn figures(&self, a: &Args) -> Vec<(&'static str, f64)> {
+    fn figures(&self, a: &Args) -> Vec<Figure> {
         match solve(a) {
             Ok(s) => vec![
-                ("fin_efficiency", s.efficiency),
-                ("fin_effectiveness", s.effectiveness),
-                ("fin_mL", s.ml),
-                ("fin_biot", s.biot),
+                Figure::number("fin_efficiency", s.efficiency),
+                Figure::number("fin_effectiveness", s.effectiveness),
+                Figure::number("fin_mL", s.ml),
+                Figure::number("fin_biot", s.biot),
+                Figure::number("fin_tip_ratio", s.tip_ratio),
+            ],
+            Err(_) => Vec::new(),
+        }
+    }
+    fn solved_figures(&self, a: &Args) -> Vec<(&'static str, FigureRule)> {
+        match solve(a) {
+            // The link runs from the base node to the fluid node, so the base is its first end
+            // and the tip lies between the two at θ_tip/θ_b.
+            Ok(s) => vec![
+                ("fin_base_temperature", FigureRule::FromTemperature),
+                ("fin_tip_temperature", FigureRule::Between(s.tip_ratio)),
+                ("fin_heat_flow_per_fin", FigureRule::HeatFlowOver(s.count)),
+                ("fin_array_heat_flow", FigureRule::HeatFlowOver(1.0)),
             ],
             Err(_) => Vec::new(),
         }

@@ -13,6 +13,7 @@ pub mod shell;
 
 use crate::diagnostic::Diagnostic;
 use crate::span::Span;
+use crate::units::Dim;
 use rustc_hash::FxHashMap;
 
 /// A material as declared, in SI units.
@@ -125,6 +126,28 @@ pub struct Built {
     pub formula: Formula,
 }
 
+/// A named figure of an element, in SI units.
+#[derive(Clone, Copy, Debug)]
+pub struct Figure {
+    pub name: &'static str,
+    pub value: f64,
+    pub dim: Dim,
+}
+
+impl Figure {
+    /// A dimensionless figure (an efficiency, a group).
+    pub fn number(name: &'static str, value: f64) -> Figure {
+        Figure {
+            name,
+            value,
+            dim: Dim::NONE,
+        }
+    }
+    pub fn of(name: &'static str, value: f64, dim: Dim) -> Figure {
+        Figure { name, value, dim }
+    }
+}
+
 /// A kind of link.
 pub trait ElementKind: Sync {
     fn name(&self) -> &'static str;
@@ -163,8 +186,13 @@ pub trait ElementKind: Sync {
     fn expand(&self, _args: &Args) -> Result<Option<generation::Expansion>, Diagnostic> {
         Ok(None)
     }
-    /// Named dimensionless figures of a use, for reports (a fin's efficiency, ...).
-    fn figures(&self, _args: &Args) -> Vec<(&'static str, f64)> {
+    /// Named figures of a use known from its arguments, for reports (a fin's efficiency, a
+    /// shape factor, ...).
+    fn figures(&self, _args: &Args) -> Vec<Figure> {
+        Vec::new()
+    }
+    /// Figures of a use that follow from the solved temperatures (a fin's tip temperature).
+    fn solved_figures(&self, _args: &Args) -> Vec<(&'static str, crate::network::FigureRule)> {
         Vec::new()
     }
     /// Warnings about a use whose arguments are valid but outside where the formula holds well.

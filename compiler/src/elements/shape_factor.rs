@@ -6,7 +6,7 @@
 #![allow(clippy::result_large_err)]
 
 use super::shell::{conduction_law, conductivity};
-use super::{material, q, show, ArgSpec, Args, Built, ElementKind};
+use super::{material, q, show, ArgSpec, Args, Built, ElementKind, Figure};
 use crate::diagnostic::Diagnostic;
 use crate::network::LinkLaw;
 use crate::units::Dim;
@@ -84,7 +84,24 @@ fn finish(a: &Args, s: f64, text: String) -> Result<(LinkLaw, Built), Diagnostic
     Ok(conduction_law(a, s, built))
 }
 
+/// The shape factor S of a use, in m, for reports: the law keeps it for a k(T) medium; at
+/// constant k it is the conductance over k.
+fn shape_figure(kind: &dyn ElementKind, a: &Args) -> Vec<Figure> {
+    let s = match kind.law(a) {
+        Ok((LinkLaw::Conduction { shape, .. }, _)) => shape,
+        Ok((law, b)) => match (law, conductivity(a, "")) {
+            (LinkLaw::Linear { .. }, Ok(k)) => b.conductance / k,
+            _ => return Vec::new(),
+        },
+        Err(_) => return Vec::new(),
+    };
+    vec![Figure::of("shape_factor", s, Dim::LENGTH)]
+}
+
 impl ElementKind for BuriedPipe {
+    fn figures(&self, a: &Args) -> Vec<Figure> {
+        shape_figure(self, a)
+    }
     fn name(&self) -> &'static str {
         "buried_pipe"
     }
@@ -125,6 +142,9 @@ impl ElementKind for BuriedPipe {
 }
 
 impl ElementKind for BuriedSphere {
+    fn figures(&self, a: &Args) -> Vec<Figure> {
+        shape_figure(self, a)
+    }
     fn name(&self) -> &'static str {
         "buried_sphere"
     }
@@ -164,6 +184,9 @@ impl ElementKind for BuriedSphere {
 }
 
 impl ElementKind for ParallelCylinders {
+    fn figures(&self, a: &Args) -> Vec<Figure> {
+        shape_figure(self, a)
+    }
     fn name(&self) -> &'static str {
         "parallel_cylinders"
     }

@@ -24,6 +24,22 @@ use pieces::Piece;
 /// Returns the formatted text (ending in one newline, or empty for a file with no tokens), or
 /// the syntax errors that stop formatting. Formatting is idempotent and only changes whitespace.
 pub fn format_source(text: &str) -> Result<String, Vec<Diagnostic>> {
+    // A file keeps its line endings and its byte-order mark: the layout is made on the text
+    // with plain `\n` endings and written back as the file had them, so a CRLF file stays
+    // CRLF (a comment would otherwise keep its `\r` and the other lines lose theirs).
+    let bom = text.starts_with('\u{FEFF}');
+    let crlf = text.contains("\r\n");
+    if bom || crlf {
+        let plain = text.trim_start_matches('\u{FEFF}').replace("\r\n", "\n");
+        let out = format_plain(&plain)?;
+        let out = if crlf { out.replace('\n', "\r\n") } else { out };
+        return Ok(if bom { format!("\u{FEFF}{out}") } else { out });
+    }
+    format_plain(text)
+}
+
+/// The canonical layout of text with `\n` line endings and no byte-order mark.
+fn format_plain(text: &str) -> Result<String, Vec<Diagnostic>> {
     let (_, diags) = parse(text, FileId(0));
     let errors: Vec<Diagnostic> = diags.into_iter().filter(Diagnostic::is_error).collect();
     if !errors.is_empty() {

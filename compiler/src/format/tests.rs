@@ -83,9 +83,11 @@ fn empty_and_comment_only_files() {
 
 #[test]
 fn windows_line_endings_and_tabs() {
+    // A file written with CRLF line endings keeps them (a Windows editor's file must not turn
+    // into a whole-file diff); tabs between tokens become the canonical spacing.
     assert_eq!(
         fmt("node\ta\t(fixed = 1 °C)\r\n\r\n\r\nnode b # x\r\n"),
-        "node a (fixed = 1 °C)\n\nnode b  # x\n"
+        "node a (fixed = 1 °C)\r\n\r\nnode b  # x\r\n"
     );
 }
 

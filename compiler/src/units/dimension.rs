@@ -56,6 +56,8 @@ impl Dim {
     pub const CAPACITY: Dim = Dim::new(2, 1, -2, -1);
     /// W/m³
     pub const VOLUMETRIC_POWER: Dim = Dim::new(-1, 1, -3, 0);
+    /// W/m: heat flow per metre of pipe.
+    pub const LINEAR_HEAT_FLOW: Dim = Dim::new(1, 1, -3, 0);
     /// m/s
     pub const VELOCITY: Dim = Dim::new(1, 0, -1, 0);
     /// N = kg·m/s²
@@ -208,6 +210,11 @@ struct Named {
 }
 
 const NAMED: &[Named] = &[
+    Named {
+        dim: Dim::LINEAR_HEAT_FLOW,
+        name: "heat flow per length",
+        si: "W/m",
+    },
     Named {
         dim: Dim::NONE,
         name: "dimensionless",

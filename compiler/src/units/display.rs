@@ -27,7 +27,28 @@ const DISPLAY: &[(Dim, &str, &str)] = &[
     (Dim::SPECIFIC_HEAT, "J/(kg·K)", "Btu/(lb·°F)"),
     (Dim::CAPACITY, "J/K", "Btu/°F"),
     (Dim::VOLUMETRIC_POWER, "W/m³", "Btu/(h·ft³)"),
+    (Dim::LINEAR_HEAT_FLOW, "W/m", "Btu/(h·ft)"),
 ];
+
+/// The unit suffix of a JSON field name (`heat_flow_W`, `shape_factor_m`) for the dimensions
+/// reports name figures in; `None` for a dimensionless figure, and for a dimension without a
+/// suffix of its own, whose figure then carries the SI unit in base units (`kg·m/s`).
+pub fn json_unit_suffix(dim: Dim) -> Option<&'static str> {
+    const SUFFIX: &[(Dim, &str)] = &[
+        (Dim::LENGTH, "m"),
+        (Dim::AREA, "m2"),
+        (Dim::TIME, "s"),
+        (Dim::TEMPERATURE, "K"),
+        (Dim::POWER, "W"),
+        (Dim::LINEAR_HEAT_FLOW, "W_per_m"),
+        (Dim::RESISTANCE, "K_per_W"),
+        (Dim::CONDUCTANCE, "W_per_K"),
+        (Dim::HEAT_TRANSFER_COEFF, "W_per_m2K"),
+        (Dim::AREA_RESISTANCE, "m2K_per_W"),
+        (Dim::CAPACITY, "J_per_K"),
+    ];
+    SUFFIX.iter().find(|(d, _)| *d == dim).map(|(_, s)| *s)
+}
 
 fn display_text(dim: Dim, kind: TempKind, system: UnitSystem) -> Option<&'static str> {
     if dim == Dim::TEMPERATURE {

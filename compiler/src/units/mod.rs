@@ -19,7 +19,7 @@ mod suggest;
 mod table;
 
 pub use dimension::Dim;
-pub use display::{display_unit, format_number, format_quantity};
+pub use display::{display_unit, format_number, format_quantity, json_unit_suffix};
 pub use parse::parse_unit;
 pub use table::unit_spellings;
 pub use table::{
