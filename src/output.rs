@@ -427,18 +427,7 @@ pub fn json(a: &Analysis) -> String {
                 .collect()
         })
         .unwrap_or_default();
-    let diagnostics: Vec<Value> = a
-        .diagnostics
-        .iter()
-        .map(|d| {
-            let f = a.sources.get(d.primary.span.file);
-            let lc = f.lines.line_col_chars(d.primary.span.start);
-            json!({
-                "code": d.code, "severity": d.severity, "message": d.message, "file": f.name,
-                "line": lc.line + 1, "column": lc.col + 1, "help": d.help,
-            })
-        })
-        .collect();
+    let diagnostics = diagnostics_json(a);
     let doc = json!({
         "title": a.title,
         "nodes": nodes,
@@ -464,6 +453,22 @@ pub fn percent(v: f64) -> String {
     } else {
         "—".to_string()
     }
+}
+
+/// The analysis's diagnostics for a JSON report (`solve`, `run`): code, severity, message,
+/// place and help.
+pub fn diagnostics_json(a: &Analysis) -> Vec<Value> {
+    a.diagnostics
+        .iter()
+        .map(|d| {
+            let f = a.sources.get(d.primary.span.file);
+            let lc = f.lines.line_col_chars(d.primary.span.start);
+            json!({
+                "code": d.code, "severity": d.severity, "message": d.message, "file": f.name,
+                "line": lc.line + 1, "column": lc.col + 1, "help": d.help,
+            })
+        })
+        .collect()
 }
 
 /// A number for JSON, `null` when it is not finite (JSON has no NaN).
