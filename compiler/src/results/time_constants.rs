@@ -127,7 +127,8 @@ pub fn network_time_constants(net: &Network, t: &[f64]) -> Option<TimeConstants>
     let lambda = a.self_adjoint_eigenvalues(faer::Side::Lower).ok()?;
     let (lo, hi) = (*lambda.first()?, *lambda.last()?);
     let scale = hi.abs().max(f64::MIN_POSITIVE);
-    if !(lo > 1e-12 * scale) || !hi.is_finite() {
+    // A zero (or NaN) eigenvalue: a capacity node that never settles.
+    if lo.is_nan() || lo <= 1e-12 * scale || !hi.is_finite() {
         return None;
     }
     Some(TimeConstants {
