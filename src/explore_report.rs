@@ -197,6 +197,21 @@ pub fn table(
             r.planned
         ));
     }
+    if !r.warnings.is_empty() {
+        out.push_str("\nWarnings (each once over all points):\n");
+        for w in &r.warnings {
+            out.push_str(&format!(
+                "  {} at {}:{}:{} ({} of {} points): {}\n",
+                w.code,
+                w.file,
+                w.line,
+                w.column,
+                w.points,
+                r.points.len(),
+                w.message
+            ));
+        }
+    }
     out.push('\n');
     out.push_str(CAUTION);
     out.push('\n');
@@ -355,6 +370,7 @@ pub fn json(title: Option<&str>, r: &StudyResult) -> Value {
         "points": r.points.iter().map(point_json).collect::<Vec<_>>(),
         "planned": r.planned,
         "interrupted": r.interrupted,
+        "warnings": r.warnings,
         "caution": CAUTION,
     })
 }

@@ -119,6 +119,9 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
     if !sol.films.is_empty() {
         out.push_str(&films_table(a, system));
     }
+    if !sol.capacity_nodes.is_empty() {
+        out.push_str(&capacities_table(a, system));
+    }
 
     for r in &net.regions {
         let field = r.field(&sol.temperatures, &sol.heat_flows);
@@ -195,6 +198,45 @@ pub fn link_figures(a: &Analysis) -> Vec<&LinkFigure> {
         .collect();
     all.sort_by_key(|f| f.link);
     all
+}
+
+/// Capacity nodes: capacity, Biot number (the warning W701 stays for Bi > 0.1), the lumped
+/// time constant R·C where one path dominates, and the network's slowest and fastest.
+fn capacities_table(a: &Analysis, system: UnitSystem) -> String {
+    let (net, Some(sol)) = (&a.network, a.solution.as_ref()) else {
+        return String::new();
+    };
+    let nt = TempKind::NotTemperature;
+    let mut t = new_table(&["node", "capacity", "Biot number", "R·C", "through"]);
+    for d in &sol.capacity_nodes {
+        t.add_row(vec![
+            Cell::new(&net.nodes[d.node].name),
+            Cell::new(show(d.capacity, Dim::CAPACITY, nt, system)),
+            Cell::new(d.biot.map(format_number).unwrap_or_else(|| "—".into())),
+            Cell::new(
+                d.rc.map(|(tau, _)| show(tau, Dim::TIME, nt, system))
+                    .unwrap_or_else(|| "—".into()),
+            ),
+            Cell::new(
+                d.rc.map(|(_, l)| net.links[l].name.clone())
+                    .unwrap_or_default(),
+            ),
+        ]);
+    }
+    right(&mut t, &[1, 2, 3]);
+    let mut out = format!(
+        "Capacity nodes (R·C where one link carries at least 90 % of the node's conductance)\n{t}\n"
+    );
+    match &sol.time_constants {
+        Some(tc) => out.push_str(&format!(
+            "Network time constants ({} modes, at the solved temperatures): slowest {}, fastest {}\n\n",
+            tc.modes,
+            show(tc.slowest, Dim::TIME, nt, system),
+            show(tc.fastest, Dim::TIME, nt, system)
+        )),
+        None => out.push_str("Network time constants: not computed (no capacity node held by a path to a fixed temperature, or more free nodes than the dense analysis takes)\n\n"),
+    }
+    out
 }
 
 /// Build-up uses: resistance, R- and U-value (also rounded to two significant figures, as
@@ -359,12 +401,22 @@ pub fn json(a: &Analysis) -> String {
             *slot = film_json(f);
         }
     }
+    let mut dynamics_of = vec![None; net.nodes.len()];
+    for d in sol.map(|s| s.capacity_nodes.as_slice()).unwrap_or_default() {
+        if let Some(slot) = dynamics_of.get_mut(d.node) {
+            *slot = Some(d);
+        }
+    }
     let nodes: Vec<Value> = net
         .nodes
         .iter()
         .enumerate()
         .map(|(i, n)| {
+            let d = dynamics_of[i];
             json!({
+                "capacity_J_per_K": d.map(|d| d.capacity),
+                "biot": d.and_then(|d| d.biot),
+                "rc_time_constant_s": d.and_then(|d| d.rc.map(|r| r.0)),
                 "name": n.name,
                 "temperature_K": sol.map(|s| s.temperatures[i]),
                 "fixed": n.fixed.is_some(),
@@ -427,18 +479,7 @@ pub fn json(a: &Analysis) -> String {
                 .collect()
         })
         .unwrap_or_default();
-    let diagnostics: Vec<Value> = a
-        .diagnostics
-        .iter()
-        .map(|d| {
-            let f = a.sources.get(d.primary.span.file);
-            let lc = f.lines.line_col_chars(d.primary.span.start);
-            json!({
-                "code": d.code, "severity": d.severity, "message": d.message, "file": f.name,
-                "line": lc.line + 1, "column": lc.col + 1, "help": d.help,
-            })
-        })
-        .collect();
+    let diagnostics = diagnostics_json(a);
     let doc = json!({
         "title": a.title,
         "nodes": nodes,
@@ -450,6 +491,7 @@ pub fn json(a: &Analysis) -> String {
             "name": r.name, "cells_x": r.nx, "cells_y": r.ny, "width_m": r.width, "height_m": r.height, "thickness_m": r.thickness,
             "cells": sol.map(|s| r.field(&s.temperatures, &s.heat_flows)),
         })).collect::<Vec<Value>>(),
+        "time_constants": sol.and_then(|s| s.time_constants.as_ref()).map(|t| json!({"slowest_s": t.slowest, "fastest_s": t.fastest, "modes": t.modes})),
         "nonlinear_solve": sol.and_then(|s| s.convergence.as_ref()).map(|c| json!({"method": c.method, "iterations": c.iterations, "final_residual_W": c.final_residual})),
         "diagnostics": diagnostics,
         "caution": CAUTION,
@@ -464,6 +506,22 @@ pub fn percent(v: f64) -> String {
     } else {
         "—".to_string()
     }
+}
+
+/// The analysis's diagnostics for a JSON report (`solve`, `run`): code, severity, message,
+/// place and help.
+pub fn diagnostics_json(a: &Analysis) -> Vec<Value> {
+    a.diagnostics
+        .iter()
+        .map(|d| {
+            let f = a.sources.get(d.primary.span.file);
+            let lc = f.lines.line_col_chars(d.primary.span.start);
+            json!({
+                "code": d.code, "severity": d.severity, "message": d.message, "file": f.name,
+                "line": lc.line + 1, "column": lc.col + 1, "help": d.help,
+            })
+        })
+        .collect()
 }
 
 /// A number for JSON, `null` when it is not finite (JSON has no NaN).

@@ -389,6 +389,7 @@ pub fn json(a: &Analysis, r: &RunResult) -> Value {
         "stats": r.stats,
         "interrupted": r.interrupted,
         "notes": r.notes,
+        "diagnostics": crate::output::diagnostics_json(a),
         "caution": CAUTION,
     })
 }

@@ -38,6 +38,7 @@ pub mod solve;
 pub mod source;
 pub mod span;
 pub mod study;
+pub mod study_warnings;
 pub mod symbols;
 pub mod syntax;
 pub mod transient;

@@ -7,6 +7,7 @@ use crate::solve::Temperatures;
 use serde::Serialize;
 
 mod solution_check;
+pub mod time_constants;
 pub use solution_check::BALANCE_TOLERANCE;
 
 #[derive(Clone, Debug, Serialize)]
@@ -51,6 +52,10 @@ pub struct Solution {
     /// Figures of links at the solved temperatures (a fin's tip and base temperatures, its
     /// heat flow per fin), from `Network::solved_figures`.
     pub figures: Vec<LinkFigure>,
+    /// Every free capacity node's capacity, Biot number and R·C (empty for a steady model).
+    pub capacity_nodes: Vec<time_constants::NodeDynamics>,
+    /// The network's slowest and fastest time constants (see [`time_constants`]).
+    pub time_constants: Option<time_constants::TimeConstants>,
 }
 
 /// A U-value (W/(m²·K)) rounded to two significant figures in the unit a report shows it in,
@@ -129,7 +134,13 @@ impl Solution {
             convergence: None,
             films: Vec::new(),
             figures: Vec::new(),
+            capacity_nodes: Vec::new(),
+            time_constants: None,
         };
+        if !net.dynamics.capacities.is_empty() {
+            sol.capacity_nodes = time_constants::node_dynamics(net, &sol.temperatures);
+            sol.time_constants = time_constants::network_time_constants(net, &sol.temperatures);
+        }
         sol.figures = net
             .solved_figures
             .iter()

@@ -105,6 +105,8 @@ pub struct StudyResult {
     /// Points planned (all combinations); fewer are present when interrupted.
     pub planned: usize,
     pub interrupted: bool,
+    /// The model's warnings over all points, once each.
+    pub warnings: Vec<crate::study_warnings::StudyWarning>,
 }
 
 /// Why a study could not start.
@@ -372,6 +374,7 @@ pub fn run_study(
         points: Vec::new(),
         planned,
         interrupted: false,
+        warnings: Vec::new(),
     };
     'all: for (case, co) in &case_overrides {
         for v1 in &first {
@@ -389,7 +392,15 @@ pub fn run_study(
                 let mut overrides = co.clone();
                 overrides.extend(plan.settings.iter().cloned());
                 overrides.extend(values.iter().cloned());
-                let outcome = point(name, text, loader, plan, overrides, hooks.cancel);
+                let outcome = point(
+                    name,
+                    text,
+                    loader,
+                    plan,
+                    overrides,
+                    hooks.cancel,
+                    &mut result.warnings,
+                );
                 if hooks.cancel.is_some_and(|c| c.load(Ordering::Relaxed)) {
                     // A point cut short is not a result.
                     result.interrupted = true;
@@ -416,6 +427,7 @@ fn point(
     plan: &Plan,
     overrides: Vec<(String, Quantity)>,
     cancel: Option<&AtomicBool>,
+    warnings: &mut Vec<crate::study_warnings::StudyWarning>,
 ) -> Outcome {
     let transient = matches!(plan.mode, Mode::Transient(_));
     let a = analyze(
@@ -428,6 +440,7 @@ fn point(
             ..Options::default()
         },
     );
+    crate::study_warnings::collect(warnings, &a);
     if a.has_errors() {
         return Outcome::Failed {
             messages: a

@@ -206,6 +206,7 @@ fn steady_node(snap: &Snapshot, s: &Symbol, sys: UnitSystem) -> String {
             }
         }
     }
+    out.push_str(&hover_transient::capacity_lines(a, id, sys));
     out
 }
 

@@ -1,12 +1,13 @@
 //! The transient run's figures in hover: a node's final, peak and lowest temperatures, and a
-//! table of them on the `transient` declaration. The run happens in the worker after the solve;
+//! table of them on the `transient` declaration; a capacity node's capacity, Biot number and
+//! time constants from the steady solve. The run happens in the worker after the solve;
 //! hover only reads what is there and says "running…" until then.
 
-use crate::display::{both, one, point, time};
+use crate::display::{both, one, point, q, time};
 use crate::snapshot::{Snapshot, TransientState};
 use caloris_compiler::network::NodeId;
 use caloris_compiler::transient::{NodeSummary, RunSummary};
-use caloris_compiler::units::UnitSystem;
+use caloris_compiler::units::{format_number, Dim, UnitSystem};
 use std::fmt::Write;
 
 /// Rows in the declaration's table before the rest are counted instead of listed.
@@ -111,5 +112,37 @@ fn table(snap: &Snapshot, s: &RunSummary, sys: UnitSystem) -> String {
         );
     }
     out.push_str("\nTimes from the run's start.");
+    out
+}
+
+/// A capacity node's capacity (both unit systems), Biot number and R·C, with the network's
+/// slowest and fastest time constants; nothing for a node without capacity.
+pub fn capacity_lines(a: &caloris_compiler::Analysis, id: usize, sys: UnitSystem) -> String {
+    let Some(sol) = a.solution.as_ref() else {
+        return String::new();
+    };
+    let Some(d) = sol.capacity_nodes.iter().find(|d| d.node == id) else {
+        return String::new();
+    };
+    let mut out = format!("\n\nCapacity {}", both(q(d.capacity, Dim::CAPACITY), sys));
+    if let Some(bi) = d.biot {
+        let _ = write!(out, " · Biot number {}", format_number(bi));
+    }
+    if let Some((tau, l)) = d.rc {
+        let _ = write!(
+            out,
+            " · R·C {} through `{}`",
+            both(q(tau, Dim::TIME), sys),
+            a.network.links[l].name
+        );
+    }
+    if let Some(tc) = &sol.time_constants {
+        let _ = write!(
+            out,
+            "\n\nNetwork time constants: slowest {}, fastest {}",
+            both(q(tc.slowest, Dim::TIME), sys),
+            both(q(tc.fastest, Dim::TIME), sys)
+        );
+    }
     out
 }

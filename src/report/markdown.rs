@@ -85,6 +85,33 @@ impl Table {
 }
 
 /// The whole report.
+/// `## Diagnostics`: every warning of the model with its place and help, so a reviewer reading
+/// only the report sees what the terminal showed.
+fn diagnostics_section(out: &mut String, a: &Analysis) {
+    out.push_str("## Diagnostics\n\n");
+    if a.diagnostics.is_empty() {
+        out.push_str("No warnings.\n\n");
+        return;
+    }
+    for d in &a.diagnostics {
+        let f = a.sources.get(d.primary.span.file);
+        let lc = f.lines.line_col_chars(d.primary.span.start);
+        let kind = if d.is_error() { "error" } else { "warning" };
+        let _ = write!(
+            out,
+            "- **{kind} {}** at {}: {}",
+            d.code,
+            code(&format!("{}:{}:{}", f.name, lc.line + 1, lc.col + 1)),
+            md_text(&d.message)
+        );
+        if let Some(h) = &d.help {
+            let _ = write!(out, " — {}", md_text(h));
+        }
+        out.push('\n');
+    }
+    out.push('\n');
+}
+
 pub fn report(a: &Analysis, model: &str, figures: &Figures, system: UnitSystem) -> String {
     let net = &a.network;
     let q = |value: f64, dim: Dim, kind: TempKind| {
@@ -153,6 +180,7 @@ pub fn report(a: &Analysis, model: &str, figures: &Figures, system: UnitSystem) 
         }
     }
     out.push('\n');
+    diagnostics_section(&mut out, a);
 
     out.push_str("## Inputs\n\n");
     inputs(&mut out, a, system);
