@@ -81,10 +81,15 @@ fn empty_and_comment_only_files() {
     assert_eq!(fmt("buildup b {}\n"), "buildup b {}\n");
 }
 
+/// A CRLF file keeps its line endings (the layout is the LF file's); tabs become spaces.
 #[test]
 fn windows_line_endings_and_tabs() {
     assert_eq!(
         fmt("node\ta\t(fixed = 1 °C)\r\n\r\n\r\nnode b # x\r\n"),
+        "node a (fixed = 1 °C)\r\n\r\nnode b  # x\r\n"
+    );
+    assert_eq!(
+        fmt("node\ta\t(fixed = 1 °C)\n\n\nnode b # x\n"),
         "node a (fixed = 1 °C)\n\nnode b  # x\n"
     );
 }
