@@ -81,13 +81,16 @@ fn empty_and_comment_only_files() {
     assert_eq!(fmt("buildup b {}\n"), "buildup b {}\n");
 }
 
+/// A CRLF file keeps its line endings (the layout is the LF file's); tabs become spaces.
 #[test]
 fn windows_line_endings_and_tabs() {
-    // A file written with CRLF line endings keeps them (a Windows editor's file must not turn
-    // into a whole-file diff); tabs between tokens become the canonical spacing.
     assert_eq!(
         fmt("node\ta\t(fixed = 1 °C)\r\n\r\n\r\nnode b # x\r\n"),
         "node a (fixed = 1 °C)\r\n\r\nnode b  # x\r\n"
+    );
+    assert_eq!(
+        fmt("node\ta\t(fixed = 1 °C)\n\n\nnode b # x\n"),
+        "node a (fixed = 1 °C)\n\nnode b  # x\n"
     );
 }
 

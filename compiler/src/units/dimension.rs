@@ -159,7 +159,7 @@ impl Dim {
     pub fn si_unit(self) -> String {
         match named(self) {
             Some(n) => n.si.to_string(),
-            None => base_unit_text(self),
+            None => trade_unit_text(self),
         }
     }
 
@@ -177,7 +177,7 @@ impl Dim {
                 };
                 format!("{article} {} ({})", n.name, n.si)
             }
-            None => format!("a quantity in {}", base_unit_text(self)),
+            None => format!("a quantity in {}", trade_unit_text(self)),
         }
     }
 }
@@ -369,15 +369,47 @@ pub(crate) fn superscript(n: i32) -> String {
     s
 }
 
+/// The dimension in the trade's units: heat as W (J where one second per watt is left over),
+/// then m, s and K — `W/(m·K²)` for a conductivity slope rather than `kg·m/(s³·K²)`. A
+/// dimension without mass keeps the base units (`m/s`, `1/K`). The text parses back with
+/// [`crate::units::parse_unit`] to the same dimension at scale 1.
+pub(crate) fn trade_unit_text(d: Dim) -> String {
+    let w = i32::from(d.mass);
+    if w == 0 {
+        return base_unit_text(d);
+    }
+    // Every kilogram comes with m²/s³ in a watt.
+    let length = i32::from(d.length) - 2 * w;
+    let time = i32::from(d.time) + 3 * w;
+    let heat = match time {
+        0 => "W",
+        t if t == w => "J",
+        // Seconds left over on both sides (a momentum, a viscosity): not a heat quantity, and
+        // the base units read better.
+        _ => return base_unit_text(d),
+    };
+    let time = 0;
+    unit_text(&[
+        (heat, w),
+        ("m", length),
+        ("s", time),
+        ("K", i32::from(d.temperature)),
+    ])
+}
+
 /// The dimension written as a product of SI base units: `kg·m²/s³`, `1/s`, `m/(kg·K)`.
 /// The text parses back with [`crate::units::parse_unit`] to the same dimension at scale 1.
 pub(crate) fn base_unit_text(d: Dim) -> String {
-    let parts = [
-        ("kg", d.mass),
-        ("m", d.length),
-        ("s", d.time),
-        ("K", d.temperature),
-    ];
+    unit_text(&[
+        ("kg", i32::from(d.mass)),
+        ("m", i32::from(d.length)),
+        ("s", i32::from(d.time)),
+        ("K", i32::from(d.temperature)),
+    ])
+}
+
+/// Factors with their exponents as `a·b²/(c·d³)`; `1` when every exponent is zero.
+fn unit_text(parts: &[(&str, i32)]) -> String {
     let factor = |sym: &str, e: i32| -> String {
         if e == 1 {
             sym.to_string()
@@ -388,12 +420,12 @@ pub(crate) fn base_unit_text(d: Dim) -> String {
     let num: Vec<String> = parts
         .iter()
         .filter(|(_, e)| *e > 0)
-        .map(|(s, e)| factor(s, i32::from(*e)))
+        .map(|(s, e)| factor(s, *e))
         .collect();
     let den: Vec<String> = parts
         .iter()
         .filter(|(_, e)| *e < 0)
-        .map(|(s, e)| factor(s, -i32::from(*e)))
+        .map(|(s, e)| factor(s, -*e))
         .collect();
     let num_text = if num.is_empty() {
         "1".to_string()
@@ -492,6 +524,25 @@ mod tests {
         }
     }
 
+    /// Dimensions without a name of their own are written in the trade's units.
+    #[test]
+    fn unnamed_dimensions_read_in_the_trades_units() {
+        assert_eq!(Dim::CONDUCTIVITY_SLOPE.si_unit(), "W/(m·K²)");
+        assert_eq!(Dim::new(0, 1, -3, -2).si_unit(), "W/(m²·K²)");
+        assert_eq!(Dim::new(-1, 1, -2, -1).si_unit(), "J/(m³·K)");
+        assert_eq!(Dim::new(1, 1, -1, 0).si_unit(), "kg·m/s");
+        assert_eq!(Dim::new(0, 0, 0, -1).si_unit(), "1/K");
+        assert!(Dim::CONDUCTIVITY_SLOPE.describe().contains("W/(m·K²)"));
+        for d in [
+            Dim::CONDUCTIVITY_SLOPE,
+            Dim::new(-1, 1, -2, -1),
+            Dim::new(3, 2, -6, -1),
+        ] {
+            let u = crate::units::parse_unit(&d.si_unit()).expect("parses");
+            assert_eq!((u.dim, u.scale), (d, 1.0), "{}", d.si_unit());
+        }
+    }
+
     #[test]
     fn si_unit_texts() {
         assert_eq!(Dim::LENGTH.si_unit(), "m");
@@ -504,7 +555,7 @@ mod tests {
         assert_eq!(Dim::CONDUCTANCE.si_unit(), "W/K");
         assert_eq!(Dim::SPECIFIC_HEAT.si_unit(), "J/(kg·K)");
         assert_eq!(Dim::NONE.si_unit(), "1");
-        assert_eq!(Dim::new(2, 1, -3, 1).si_unit(), "kg·m²·K/s³");
+        assert_eq!(Dim::new(2, 1, -3, 1).si_unit(), "W·K");
         assert_eq!(Dim::new(0, 0, -1, 0).si_unit(), "1/s");
         assert_eq!(Dim::new(-1, -1, 0, -1).si_unit(), "1/(kg·m·K)");
         assert_eq!(Dim::new(1, 1, -1, 0).si_unit(), "kg·m/s");
