@@ -347,7 +347,7 @@ fn point_json(p: &Point) -> Value {
         Outcome::Solved { limits, measures } => json!({
             "status": "solved",
             "limits": limits.iter().map(|l| json!({
-                "name": l.result.name, "measure": l.result.measure.name(), "subject": l.result.subject, "op": l.result.op,
+                "name": l.result.name, "measure": l.result.measure.name(), "subject": l.result.subject, "op": l.result.op, "limit_as_written": l.result.written,
                 "value": l.result.actual, "limit": l.result.limit, "unit": l.result.measure.dim().si_unit(),
                 "passed": l.result.passed, "margin": l.result.margin,
                 "first_failure_s": l.first_failure, "worst_time_s": l.worst_time,

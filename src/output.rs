@@ -164,7 +164,7 @@ pub fn table(a: &Analysis, system: UnitSystem, colour: bool) -> String {
                 Cell::new(&l.name),
                 Cell::new(format!("{}({})", l.measure.name(), l.subject)),
                 Cell::new(show(l.actual, dim, l.kind(), system)),
-                Cell::new(format!("{} {}", l.op, show(l.limit, dim, l.kind(), system))),
+                Cell::new(l.limit_text(&show(l.limit, dim, l.kind(), system))),
                 Cell::new(show(l.margin, dim, l.margin_kind(), system)),
                 Cell::new(percent(l.margin_percent)),
                 v,
@@ -472,7 +472,7 @@ pub fn json(a: &Analysis) -> String {
                     let (unit, _) = si_unit(l.measure.dim());
                     json!({
                         "name": l.name, "measure": l.measure.name(), "subject": l.subject, "op": l.op,
-                        "value": l.actual, "limit": l.limit, "unit": unit, "passed": l.passed, "margin": l.margin,
+                        "value": l.actual, "limit": l.limit, "limit_as_written": l.written, "unit": unit, "passed": l.passed, "margin": l.margin,
                         "margin_percent": finite(l.margin_percent),
                     })
                 })

@@ -242,11 +242,7 @@ pub fn table(
                 Cell::new(format!("{}({})", res.measure.name(), res.subject)),
                 Cell::new(show_measure(res.measure, res.actual, system)),
                 Cell::new(show_time(l.worst_time)),
-                Cell::new(format!(
-                    "{} {}",
-                    res.op,
-                    show_measure(res.measure, res.limit, system)
-                )),
+                Cell::new(res.limit_text(&show_measure(res.measure, res.limit, system))),
                 Cell::new(show_margin(res.measure, res.margin, system)),
                 v,
                 Cell::new(l.first_failure.map(show_time).unwrap_or_else(|| "—".into())),
@@ -367,7 +363,7 @@ pub fn json(a: &Analysis, r: &RunResult) -> Value {
         .map(|l| {
             let res = &l.result;
             json!({
-                "name": res.name, "measure": res.measure.name(), "subject": res.subject, "op": res.op,
+                "name": res.name, "measure": res.measure.name(), "subject": res.subject, "op": res.op, "limit_as_written": res.written,
                 "worst": res.actual, "worst_time_s": l.worst_time, "limit": res.limit, "unit": res.measure.dim().si_unit(),
                 "passed": res.passed, "margin": res.margin, "first_failure_s": l.first_failure,
             })

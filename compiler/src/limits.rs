@@ -55,6 +55,8 @@ pub struct LimitSpec {
     pub op: CmpOp,
     /// The limit value in SI (kelvin for temperatures).
     pub value: f64,
+    /// The value as the model writes it (`1.2 kWh/d`, `max_surface`), spaces collapsed.
+    pub written: String,
 }
 
 /// Resolve `measure(subject)` against the network.
@@ -192,6 +194,12 @@ pub fn check_limit(
         subject: s,
         op,
         value: q.value,
+        written: src
+            .get(value.span.range())
+            .unwrap_or_default()
+            .split_whitespace()
+            .collect::<Vec<_>>()
+            .join(" "),
     })
 }
 
@@ -214,10 +222,24 @@ pub struct LimitResult {
     /// taken in kelvin so the figure does not depend on the scale it was written in; NaN for a
     /// limit of zero.
     pub margin_percent: f64,
+    /// The limit as the model writes it (`1.2 kWh/d`).
+    pub written: String,
     pub span: Span,
 }
 
 impl LimitResult {
+    /// The limit for a report that shows it as `shown` (`50 W`): with the model's own writing
+    /// first when that says something else (`1.2 kWh/d (50 W)`, `max_surface (60 °C)`), so a
+    /// reviewer finds the number they wrote.
+    pub fn limit_text(&self, shown: &str) -> String {
+        let squeeze = |s: &str| s.chars().filter(|c| !c.is_whitespace()).collect::<String>();
+        if self.written.is_empty() || squeeze(&self.written) == squeeze(shown) {
+            format!("{} {shown}", self.op)
+        } else {
+            format!("{} {} ({shown})", self.op, self.written)
+        }
+    }
+
     /// Kind for displaying actual and limit values.
     pub fn kind(&self) -> TempKind {
         if self.measure == Measure::Temperature {
@@ -261,6 +283,7 @@ pub fn verdict(spec: &LimitSpec, actual: f64) -> LimitResult {
         } else {
             100.0 * margin / spec.value.abs()
         },
+        written: spec.written.clone(),
         span: spec.span,
     }
 }

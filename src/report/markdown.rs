@@ -345,11 +345,10 @@ pub fn report(a: &Analysis, model: &str, figures: &Figures, system: UnitSystem) 
             t.row(&[
                 code(&l.name),
                 format!(
-                    "{}({}) {} {}",
+                    "{}({}) {}",
                     l.measure.name(),
                     l.subject,
-                    l.op,
-                    q(l.limit, dim, l.kind())
+                    l.limit_text(&q(l.limit, dim, l.kind()))
                 ),
                 q(l.actual, dim, l.kind()),
                 q(l.margin, dim, l.margin_kind()),
