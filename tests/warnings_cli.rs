@@ -1,4 +1,4 @@
-//! Warnings reach every output: `solve` and `run` JSON, `study` JSON and table (once per study,
+//! Warnings reach every output: `solve` and `run` JSON, `explore` JSON and table (once over all points,
 //! not once per point) and the Diagnostics section of `report.md`.
 
 use assert_cmd::Command;
@@ -30,16 +30,16 @@ fn scratch(name: &str) -> PathBuf {
 const CABLE: &str = "param t = 2 mm\nmaterial pvc (k = 0.16 W/(m*K))\nnode core (fixed = 60 °C)\nnode air (fixed = 20 °C)\nbuildup jacketed {\n  jacket:  cylinder(pvc, thickness = t)\n  outside: film(h = 8 W/(m^2*K))\n}\nlink sleeved: core to air jacketed(inner_radius = 1 mm, length = 1 m)\n";
 
 #[test]
-fn a_study_reports_each_warning_once_with_the_points_that_gave_it() {
+fn explore_reports_each_warning_once_with_the_points_that_gave_it() {
     let file = scratch("cable_study.heat");
     std::fs::write(&file, CABLE).expect("written");
     let f = file.to_str().expect("utf-8 path");
     let args = [
-        "study",
+        "explore",
         f,
-        "--sweep",
+        "--over",
         "t=1mm..3mm:5",
-        "--measure",
+        "--track",
         "heat_flow(sleeved)",
     ];
     let (code, json, _) = out(&[&args[..], &["--format", "json"]].concat());

@@ -203,6 +203,33 @@ pub fn check_limit(
     })
 }
 
+/// Whether two texts write the same number in the same unit, whatever the spelling
+/// (`0.30 W/(m^2*K)` and `0.3 W/(m²·K)`), so that a report does not repeat it.
+fn same_quantity_text(a: &str, b: &str) -> bool {
+    fn split(s: &str) -> Option<(f64, String)> {
+        let s = s.trim();
+        let end = s
+            .char_indices()
+            .find(|&(i, c)| {
+                !(c.is_ascii_digit() || c == '.' || c == '-' || (i > 0 && matches!(c, 'e' | 'E')))
+            })
+            .map_or(s.len(), |(i, _)| i);
+        let value: f64 = s[..end].parse().ok()?;
+        let unit: String = s[end..]
+            .replace("^2", "²")
+            .replace("^3", "³")
+            .replace(['*', '.'], "·")
+            .chars()
+            .filter(|c| !c.is_whitespace())
+            .collect();
+        Some((value, unit))
+    }
+    match (split(a), split(b)) {
+        (Some((x, u)), Some((y, v))) => u == v && (x - y).abs() <= 1e-9 * x.abs().max(y.abs()),
+        _ => false,
+    }
+}
+
 /// The verdict of one limit on a solution.
 #[derive(Clone, Debug, Serialize)]
 pub struct LimitResult {
@@ -232,8 +259,7 @@ impl LimitResult {
     /// first when that says something else (`1.2 kWh/d (50 W)`, `max_surface (60 °C)`), so a
     /// reviewer finds the number they wrote.
     pub fn limit_text(&self, shown: &str) -> String {
-        let squeeze = |s: &str| s.chars().filter(|c| !c.is_whitespace()).collect::<String>();
-        if self.written.is_empty() || squeeze(&self.written) == squeeze(shown) {
+        if self.written.is_empty() || same_quantity_text(&self.written, shown) {
             format!("{} {shown}", self.op)
         } else {
             format!("{} {} ({shown})", self.op, self.written)
@@ -285,5 +311,47 @@ pub fn verdict(spec: &LimitSpec, actual: f64) -> LimitResult {
         },
         written: spec.written.clone(),
         span: spec.span,
+    }
+}
+
+#[cfg(test)]
+mod written_limits {
+    use super::*;
+
+    fn result(written: &str) -> LimitResult {
+        LimitResult {
+            name: "standby_loss".into(),
+            measure: Measure::HeatFlow,
+            subject: "wall".into(),
+            op: "<=",
+            actual: 70.9,
+            limit: 50.0,
+            passed: false,
+            margin: -20.9,
+            margin_percent: -41.8,
+            written: written.into(),
+            span: Span::default(),
+        }
+    }
+
+    #[test]
+    fn a_limit_written_in_another_unit_is_shown_as_written_too() {
+        assert_eq!(
+            result("1.2 kWh/d").limit_text("50 W"),
+            "<= 1.2 kWh/d (50 W)"
+        );
+        assert_eq!(result("max_loss").limit_text("50 W"), "<= max_loss (50 W)");
+        // 60 °C in a US report.
+        assert_eq!(result("60 °C").limit_text("140 °F"), "<= 60 °C (140 °F)");
+    }
+
+    #[test]
+    fn the_same_quantity_in_another_spelling_is_not_repeated() {
+        assert_eq!(result("50 W").limit_text("50 W"), "<= 50 W");
+        assert_eq!(
+            result("0.30 W/(m^2*K)").limit_text("0.3 W/(m²·K)"),
+            "<= 0.3 W/(m²·K)"
+        );
+        assert_eq!(result("").limit_text("50 W"), "<= 50 W");
     }
 }
