@@ -42,7 +42,17 @@ fn render_one(
         .with_config(config)
         .with_code(d.code)
         .with_message(&d.message);
-    let mut label = Label::new((name(primary), primary.range())).with_color(col);
+    // Labels in the order they stand in their file: ariadne starts a new snippet (headed with
+    // the primary's position) at a label above the one before it, so a "first declared here"
+    // on line 1 after a primary on line 3 would read as if it were at line 3.
+    let mut spans: Vec<crate::span::Span> = std::iter::once(primary)
+        .chain(d.secondary.iter().map(|s| s.span))
+        .collect();
+    spans.sort();
+    let order = |s: crate::span::Span| spans.iter().position(|&x| x == s).unwrap_or(0) as i32;
+    let mut label = Label::new((name(primary), primary.range()))
+        .with_color(col)
+        .with_order(order(primary));
     if !d.primary.message.is_empty() {
         label = label.with_message(&d.primary.message);
     }
@@ -51,7 +61,8 @@ fn render_one(
         report = report.with_label(
             Label::new((name(s.span), s.span.range()))
                 .with_message(&s.message)
-                .with_color(Color::Blue),
+                .with_color(Color::Blue)
+                .with_order(order(s.span)),
         );
     }
     if let Some(h) = &d.help {
