@@ -331,7 +331,9 @@ impl Cx<'_> {
             Range::Fraction if v <= 1.0 => return true,
             Range::Fraction => Diagnostic::error(
                 "E213",
-                format!("{name} must lie between 0 and 1; `{written}` is not"),
+                self.owned(format!(
+                    "{name} must lie between 0 and 1; `{written}` is not"
+                )),
                 e.span,
             )
             .with_label("outside 0 … 1")
@@ -344,7 +346,9 @@ impl Cx<'_> {
             }
             Range::Count(max) => Diagnostic::error(
                 "E216",
-                format!("`{name}` must be a whole number from 1 to {max}; `{written}` is not"),
+                self.owned(format!(
+                    "`{name}` must be a whole number from 1 to {max}; `{written}` is not"
+                )),
                 e.span,
             )
             .with_label("not a usable count")
@@ -355,7 +359,7 @@ impl Cx<'_> {
             Range::AboveAbsoluteZero if v > 0.0 => return true,
             Range::AboveAbsoluteZero => Diagnostic::error(
                 "E202",
-                "this temperature is at or below absolute zero",
+                self.owned(format!("`{name}` is at or below absolute zero")),
                 e.span,
             )
             .with_label("below 0 K")
@@ -363,6 +367,17 @@ impl Cx<'_> {
         };
         self.diags.push(d);
         false
+    }
+
+    /// A message about an argument, led by what the argument belongs to (`` `cylinder`
+    /// (`wall` of build-up `lagged`) in link `main`: ``) when a declaration is being checked, so
+    /// that the message alone says where to look.
+    fn owned(&self, message: String) -> String {
+        if self.owner.is_empty() {
+            message
+        } else {
+            format!("{}: {message}", self.owner)
+        }
     }
 
     /// The text of an expression as written.
@@ -401,7 +416,9 @@ impl Cx<'_> {
         self.diags.push(
             Diagnostic::error(
                 "E202",
-                format!("{what} must be greater than zero; `{written}` is not"),
+                self.owned(format!(
+                    "{what} must be greater than zero; `{written}` is not"
+                )),
                 e.span,
             )
             .with_label(if v == 0.0 { "zero" } else { "not positive" })
