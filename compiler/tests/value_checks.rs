@@ -125,3 +125,30 @@ fn a_solution_with_a_non_finite_value_is_unusable() {
         .expect("E504");
     assert!(d.message.contains("energy balance"), "{}", d.message);
 }
+
+/// A range error names what the argument belongs to and the parameter, and shows the value
+/// that came through a `param` (a reviewer need not work it out).
+#[test]
+fn a_range_error_names_the_element_and_the_value_of_a_parameter() {
+    let a = analyse(
+        "param t = 5 mm - 8 mm\nmaterial wool (k = 0.04 W/(m*K))\nnode a (fixed = 1 °C)\nnode b (fixed = 2 °C)\n\
+         buildup lagged {\n  lagging: cylinder(wool, thickness = t)\n  outside: film(h = 9 W/(m^2*K))\n}\n\
+         link main: a to b lagged(inner_radius = 27 mm, length = 1 m)\n\
+         link glow: a to b radiation(area = 1 m^2, emissivity = 2)\n",
+    );
+    let messages: Vec<&str> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.is_error())
+        .map(|d| d.message.as_str())
+        .collect();
+    assert_eq!(
+        messages,
+        [
+            "`cylinder` (`lagging` of build-up `lagged`) in link `main`: thickness must be greater than zero; `t` (= -0.003 m) is not",
+            "`radiation` in link `glow`: emissivity must lie between 0 and 1; `2` is not",
+        ],
+        "{:?}",
+        a.diagnostics
+    );
+}

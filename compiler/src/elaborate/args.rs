@@ -323,17 +323,16 @@ impl Cx<'_> {
     /// The range check of a spec; reports and returns false outside it.
     fn in_spec_range(&mut self, spec: &ArgSpec, v: f64, e: &Expr) -> bool {
         let name = spec.name;
-        let written = self.written(e);
+        let dim = spec.ty.dim();
+        let written = self.written_with_value(e, v, dim);
         let d = match spec.range {
             Range::Any => return true,
-            Range::Positive => return self.positive(v, e, name),
-            Range::Fraction if !self.positive(v, e, name) => return false,
+            Range::Positive => return self.positive(v, e, name, dim),
+            Range::Fraction if !self.positive(v, e, name, dim) => return false,
             Range::Fraction if v <= 1.0 => return true,
             Range::Fraction => Diagnostic::error(
                 "E213",
-                self.owned(format!(
-                    "{name} must lie between 0 and 1; `{written}` is not"
-                )),
+                self.owned(format!("{name} must lie between 0 and 1; {written} is not")),
                 e.span,
             )
             .with_label("outside 0 … 1")
@@ -347,7 +346,7 @@ impl Cx<'_> {
             Range::Count(max) => Diagnostic::error(
                 "E216",
                 self.owned(format!(
-                    "`{name}` must be a whole number from 1 to {max}; `{written}` is not"
+                    "`{name}` must be a whole number from 1 to {max}; {written} is not"
                 )),
                 e.span,
             )
@@ -380,6 +379,21 @@ impl Cx<'_> {
         }
     }
 
+    /// An argument's value as written, in backticks, and — when it is not a number written
+    /// out (a parameter, an expression) — the value it came to: `` `t` (= -0.003 m) ``.
+    fn written_with_value(&self, e: &Expr, v: f64, dim: Option<Dim>) -> String {
+        let written = self.written(e);
+        let literal = match &e.kind {
+            ExprKind::Number { .. } => true,
+            ExprKind::Neg(x) => matches!(x.kind, ExprKind::Number { .. }),
+            _ => false,
+        };
+        match dim {
+            Some(dim) if !literal => format!("`{written}` (= {})", crate::elements::show(v, dim)),
+            _ => format!("`{written}`"),
+        }
+    }
+
     /// The text of an expression as written.
     fn written(&self, e: &Expr) -> String {
         self.text(e.span)
@@ -408,16 +422,16 @@ impl Cx<'_> {
         self.in_range(q, what, e).then_some(q)
     }
 
-    pub(super) fn positive(&mut self, v: f64, e: &Expr, what: &str) -> bool {
+    pub(super) fn positive(&mut self, v: f64, e: &Expr, what: &str, dim: Option<Dim>) -> bool {
         if v > 0.0 && v.is_finite() {
             return true;
         }
-        let written = self.written(e);
+        let written = self.written_with_value(e, v, dim);
         self.diags.push(
             Diagnostic::error(
                 "E202",
                 self.owned(format!(
-                    "{what} must be greater than zero; `{written}` is not"
+                    "{what} must be greater than zero; {written} is not"
                 )),
                 e.span,
             )

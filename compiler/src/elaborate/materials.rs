@@ -110,7 +110,7 @@ impl Cx<'_> {
             );
             let k = pair.get(1).and_then(|v| {
                 self.quantity(v, Dim::CONDUCTIVITY, "a table conductivity")
-                    .filter(|q| self.positive(q.value, v, "k"))
+                    .filter(|q| self.positive(q.value, v, "k", Some(Dim::CONDUCTIVITY)))
             });
             match (t, k) {
                 (Some(t), Some(k)) => points.push((t.value, k.value, pair[0].span)),
