@@ -175,6 +175,10 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
         // would bury the real mistake under its echoes.
         diagnostics.retain(|d| !matches!(d.code, "E301" | "E302" | "W102"));
     }
+    if has_syntax_errors {
+        let lost = crate::lost_names::lost_names(&sources, &diagnostics);
+        crate::lost_names::drop_echoes(&mut diagnostics, &lost);
+    }
     diagnostics.sort_by_key(|d| (d.primary.span.file, d.primary.span.start, d.severity));
     diagnostics.dedup_by(|a, b| a.primary.span == b.primary.span && a.message == b.message);
     let mut analysis = Analysis {

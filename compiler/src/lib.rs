@@ -24,6 +24,7 @@ pub mod laws;
 pub mod lexer;
 pub mod library;
 pub mod limits;
+pub mod lost_names;
 pub mod network;
 pub mod nonlinear;
 pub mod parser;
