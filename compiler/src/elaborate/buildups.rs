@@ -6,7 +6,7 @@
 use super::Cx;
 use crate::diagnostic::{did_you_mean, Diagnostic};
 use crate::elements::{self, shell, Figure};
-use crate::network::{Group, Link, NodeId};
+use crate::network::{Group, NodeId};
 use crate::radial::{self, UseArgs};
 use crate::schema;
 use crate::syntax::{BuildupElement, ElementCall, Ident, Item, ItemKind, Module};
@@ -133,19 +133,16 @@ impl Cx<'_> {
             );
             match (prev, next, built) {
                 (Some(a), Some(b), Some((law, built))) => {
-                    let id = self.asm.link(Link {
-                        name: format!("{}.{}", name.name, e.name.name),
-                        span: e.span,
-                        from: a,
-                        to: b,
+                    // Its group is set by the assembler when the group is added, once the use
+                    // is known to be complete.
+                    let id = self.asm.link(super::links::element_link(
+                        format!("{}.{}", name.name, e.name.name),
+                        e.span,
+                        (a, b),
+                        kind,
                         law,
-                        area: built.area,
-                        kind: kind.name().to_string(),
-                        formula: built.formula,
-                        // Set by the assembler when the group is added, once the use is known
-                        // to be complete.
-                        group: None,
-                    });
+                        built,
+                    ));
                     links.push(id);
                     if let Some(args) = &args {
                         self.diags.extend(kind.warnings(args));

@@ -95,17 +95,14 @@ impl Cx<'_> {
                 }
             }
             Ok(None) => {
-                self.asm.link(Link {
-                    name: name.name.clone(),
+                self.asm.link(element_link(
+                    name.name.clone(),
                     span,
-                    from: a,
-                    to: b,
+                    (a, b),
+                    kind,
                     law,
-                    area: built.area,
-                    kind: kind.name().to_string(),
-                    formula: built.formula,
-                    group: None,
-                });
+                    built,
+                ));
             }
             Err(d) => self.diags.push(d),
         }
@@ -233,5 +230,28 @@ impl Cx<'_> {
         }
         self.diags.push(d);
         None
+    }
+}
+
+/// The link one element makes between two nodes, with its law and formula; a build-up use's
+/// links learn their group when the group is added.
+pub(super) fn element_link(
+    name: String,
+    span: Span,
+    (from, to): (NodeId, NodeId),
+    kind: &dyn ElementKind,
+    law: LinkLaw,
+    built: elements::Built,
+) -> Link {
+    Link {
+        name,
+        span,
+        from,
+        to,
+        law,
+        area: built.area,
+        kind: kind.name().to_string(),
+        formula: built.formula,
+        group: None,
     }
 }
