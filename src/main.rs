@@ -6,6 +6,7 @@ mod diff_render;
 mod explain_cmd;
 mod explore_cmd;
 mod explore_report;
+mod export_cmd;
 mod files;
 mod fmt_cmd;
 mod git_rev;
@@ -73,6 +74,11 @@ enum Command {
         after_help = "Examples:\n  caloris solve examples/garden_office_wall.heat\n  caloris solve model.heat --format json > results.json\n  caloris solve model.heat --set t_out=-12°C --units us"
     )]
     Solve(solve_cmd::SolveCli),
+    /// Write the assembled steady system in Matrix Market files: DIR/A.mtx, DIR/b.mtx, DIR/nodes.csv.
+    #[command(
+        after_help = "Examples:\n  caloris export examples/garden_office_wall.heat -o matrix/\n  caloris export model.heat -o winter/ --case winter"
+    )]
+    Export(export_cmd::ExportCli),
     /// Rewrite model files in the one canonical layout (comments and blank lines kept).
     #[command(
         after_help = "Examples:\n  caloris fmt examples/\n  caloris fmt --check .                    # for CI: lists files that would change"
@@ -219,6 +225,7 @@ fn main() -> ExitCode {
     let code = match cli.command {
         Command::Check(args) => solve_cmd::check(args),
         Command::Solve(args) => solve_cmd::solve(args),
+        Command::Export(args) => export_cmd::run(args),
         Command::Fmt { files, check } => fmt_cmd::run(&files, check),
         Command::Diff {
             files,

@@ -144,7 +144,7 @@ pub fn solve(args: SolveCli) -> u8 {
 }
 
 /// Under `--deny-warnings`, fail a model that has warnings.
-fn deny_warnings(name: &str, a: &Analysis) -> Option<u8> {
+pub(crate) fn deny_warnings(name: &str, a: &Analysis) -> Option<u8> {
     let n = console::denied_warnings(&a.diagnostics);
     (n > 0).then(|| {
         eprintln!(
@@ -174,7 +174,7 @@ fn each_model(args: &ModelArgs, mut f: impl FnMut(&PathBuf, &[(String, Quantity)
 }
 
 /// Read and analyse one model with the case and settings applied; print its diagnostics.
-fn analyse_one(
+pub(crate) fn analyse_one(
     path: &PathBuf,
     args: &ModelArgs,
     settings: &[(String, Quantity)],

@@ -271,7 +271,7 @@ fn completions_and_the_manual_page_come_from_the_command_definitions() {
 #[test]
 fn every_command_help_ends_with_examples() {
     for cmd in [
-        "check", "solve", "fmt", "diff", "report", "explain", "run", "explore",
+        "check", "solve", "export", "fmt", "diff", "report", "explain", "run", "explore",
     ] {
         let (code, out, _) = caloris(&[cmd, "--help"], &[]);
         assert_eq!(code, 0);

@@ -199,10 +199,21 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
         analysis.cancelled = true;
         return analysis;
     }
-    if !analysis.has_errors()
-        && !options.check_only
-        && !analysis.network.links.iter().all(|l| l.law.is_linear())
-    {
+    if !options.check_only {
+        solve_analysed(&mut analysis, options);
+    }
+    analysis
+}
+
+/// Solve an analysed model that has no errors (what [`analyze`] does unless
+/// [`Options::check_only`]): the steady temperatures, the checks made at the answer, or the
+/// diagnostic of a failed solve. A caller that checked first (`caloris export` solves only a
+/// nonlinear model) finishes the analysis with this.
+pub fn solve_analysed(analysis: &mut Analysis, options: &Options) {
+    if analysis.has_errors() || analysis.solution.is_some() {
+        return;
+    }
+    if !analysis.network.links.iter().all(|l| l.law.is_linear()) {
         let settings = NewtonSettings {
             max_iterations: options
                 .newton_max_iterations
@@ -230,7 +241,7 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
                 .diagnostics
                 .push(newton_failure(&analysis.network, e)),
         }
-    } else if !analysis.has_errors() && !options.check_only {
+    } else {
         match solve_steady(&analysis.network) {
             Ok(t) => {
                 analysis.solution = Some(Solution::new(&analysis.network, t, &analysis.limits))
@@ -267,7 +278,6 @@ pub fn analyze(name: &str, text: &str, loader: &dyn SourceLoader, options: &Opti
         analysis.solution = None;
         analysis.diagnostics.push(d);
     }
-    analysis
 }
 
 /// Longest chain of imports (model → file → file ...).

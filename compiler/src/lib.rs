@@ -16,6 +16,7 @@ pub mod elaborate;
 pub mod elements;
 pub mod eval;
 pub mod expand;
+pub mod export;
 pub mod fluid;
 pub mod format;
 pub mod formula;

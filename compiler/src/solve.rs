@@ -19,8 +19,21 @@ pub enum SolveError {
     NonFinite,
 }
 
-/// Solve the linear steady network. Free nodes get unknowns; fixed nodes move to the right side.
-pub fn solve_steady(net: &Network) -> Result<Temperatures, SolveError> {
+/// The linear steady system of a network: the conductance matrix of its free nodes (lower
+/// triangle, duplicates to be summed) and the right-hand side of loads plus the heat the fixed
+/// nodes drive in. Free nodes get unknowns; fixed nodes move to the right side.
+#[derive(Clone, Debug)]
+pub struct SteadySystem {
+    /// Network node id of each unknown, in unknown order.
+    pub free: Vec<NodeId>,
+    /// Lower-triangle entries of the conductance matrix, W/K.
+    pub lower: Vec<Triplet<usize, usize, f64>>,
+    /// Right-hand side, W.
+    pub rhs: Vec<f64>,
+}
+
+/// The linear steady system of `net` (every link taken at its constant conductance).
+pub fn steady_system(net: &Network) -> SteadySystem {
     let n_all = net.nodes.len();
     let mut index = vec![usize::MAX; n_all];
     let mut free: Vec<NodeId> = Vec::new();
@@ -31,15 +44,8 @@ pub fn solve_steady(net: &Network) -> Result<Temperatures, SolveError> {
         }
     }
     let n = free.len();
-    let mut temps: Vec<f64> = net
-        .nodes
-        .iter()
-        .map(|nd| nd.fixed.unwrap_or(f64::NAN))
-        .collect();
-    if n == 0 {
-        return Ok(Temperatures(temps));
-    }
-    let mut triplets = Vec::with_capacity(net.links.len() * 3 + n);
+    let fixed = |i: NodeId| net.nodes[i].fixed.unwrap_or(f64::NAN);
+    let mut lower = Vec::with_capacity(net.links.len() * 3 + n);
     let mut rhs = vec![0.0; n];
     for &i in &free {
         rhs[index[i]] += net.nodes[i].load;
@@ -50,24 +56,38 @@ pub fn solve_steady(net: &Network) -> Result<Temperatures, SolveError> {
         match (index[a], index[b]) {
             (usize::MAX, usize::MAX) => {}
             (ia, usize::MAX) => {
-                triplets.push(Triplet::new(ia, ia, g));
-                rhs[ia] += g * temps[b];
+                lower.push(Triplet::new(ia, ia, g));
+                rhs[ia] += g * fixed(b);
             }
             (usize::MAX, ib) => {
-                triplets.push(Triplet::new(ib, ib, g));
-                rhs[ib] += g * temps[a];
+                lower.push(Triplet::new(ib, ib, g));
+                rhs[ib] += g * fixed(a);
             }
             (ia, ib) => {
-                triplets.push(Triplet::new(ia, ia, g));
-                triplets.push(Triplet::new(ib, ib, g));
+                lower.push(Triplet::new(ia, ia, g));
+                lower.push(Triplet::new(ib, ib, g));
                 // Only the lower triangle is read by the factorisation.
                 let (r, c) = if ia > ib { (ia, ib) } else { (ib, ia) };
-                triplets.push(Triplet::new(r, c, -g));
+                lower.push(Triplet::new(r, c, -g));
             }
         }
     }
-    let x = solve_spd(n, &triplets, &rhs)?;
-    for (k, &i) in free.iter().enumerate() {
+    SteadySystem { free, lower, rhs }
+}
+
+/// Solve the linear steady network.
+pub fn solve_steady(net: &Network) -> Result<Temperatures, SolveError> {
+    let mut temps: Vec<f64> = net
+        .nodes
+        .iter()
+        .map(|nd| nd.fixed.unwrap_or(f64::NAN))
+        .collect();
+    let sys = steady_system(net);
+    if sys.free.is_empty() {
+        return Ok(Temperatures(temps));
+    }
+    let x = solve_spd(sys.free.len(), &sys.lower, &sys.rhs)?;
+    for (k, &i) in sys.free.iter().enumerate() {
         temps[i] = x[k];
     }
     Ok(Temperatures(temps))
