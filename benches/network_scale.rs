@@ -3,51 +3,16 @@
 //! SIZES`, e.g. `-- 10000 100000`). Each size runs in a fresh child process so that the peak
 //! resident memory (VmHWM from /proc) belongs to that size alone.
 //!
-//! The model is a square grid of free nodes (a wall section meshed by hand, the densest sparsity
-//! an analyst's model reaches), linked to its neighbours by layer elements, with a warm boundary
-//! along one edge, a cold one along the opposite edge and a heat load on every 97th node.
+//! The model is the grid of `grid_model.rs`, shared with the re-solve benchmark.
+
+#[path = "grid_model.rs"]
+mod grid_model;
 
 use caloris_compiler::source::NoImports;
 use caloris_compiler::{analyze, Options};
-use std::fmt::Write as _;
+use grid_model::model;
 use std::process::Command;
 use std::time::Instant;
-
-fn model(n: usize) -> String {
-    let side = (n as f64).sqrt().ceil() as usize;
-    let mut s = String::with_capacity(side * side * 160);
-    s.push_str("material brick (k = 0.77 W/(m*K))\nparam cell = 10 mm\n");
-    s.push_str("node warm (fixed = 21 °C)\nnode cold (fixed = -4 °C)\n");
-    for i in 0..side {
-        for j in 0..side {
-            if (i * side + j).is_multiple_of(97) {
-                let _ = writeln!(s, "node c{i}_{j} (load = 0.01 W)");
-            } else {
-                let _ = writeln!(s, "node c{i}_{j}");
-            }
-        }
-    }
-    for i in 0..side {
-        for j in 0..side {
-            if j + 1 < side {
-                let _ = writeln!(s, "link h{i}_{j}: c{i}_{j} to c{i}_{} layer(brick, thickness = cell, area = 1 cm^2)", j + 1);
-            }
-            if i + 1 < side {
-                let _ = writeln!(s, "link v{i}_{j}: c{i}_{j} to c{}_{j} layer(brick, thickness = cell, area = 1 cm^2)", i + 1);
-            }
-        }
-        let _ = writeln!(
-            s,
-            "link w{i}: warm to c{i}_0 film(h = 8 W/(m^2*K), area = 1 cm^2)"
-        );
-        let _ = writeln!(
-            s,
-            "link e{i}: c{i}_{} to cold film(h = 25 W/(m^2*K), area = 1 cm^2)",
-            side - 1
-        );
-    }
-    s
-}
 
 fn peak_rss_mib() -> f64 {
     let status = std::fs::read_to_string("/proc/self/status").unwrap_or_default();

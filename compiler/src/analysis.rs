@@ -4,12 +4,13 @@
 use crate::diagnostic::{Diagnostic, Severity};
 use crate::elaborate::{check_buildup_kinds, elaborate};
 use crate::elements::Material;
+use crate::factor_cache::FactorCache;
 use crate::limits::LimitSpec;
 use crate::network::Network;
-use crate::nonlinear::{newton_failure, solve_nonlinear, NewtonSettings};
+use crate::nonlinear::{newton_failure, solve_nonlinear_with, NewtonSettings};
 use crate::parser::parse;
 use crate::results::Solution;
-use crate::solve::{solve_steady, SolveError};
+use crate::solve::{solve_steady_with, SolveError};
 use crate::source::{SourceLoader, Sources};
 use crate::span::{FileId, Span};
 use crate::symbols::SymbolTable;
@@ -33,6 +34,9 @@ pub struct Options {
     /// Set by the caller to stop the analysis early (a newer edit supersedes it); a stopped
     /// analysis has `cancelled` set and no solution.
     pub cancel: Option<Arc<AtomicBool>>,
+    /// Symbolic factorisations kept between analyses whose networks have the same sparsity
+    /// pattern (the points of a study); `None` analyses afresh.
+    pub factor_cache: Option<Arc<FactorCache>>,
 }
 
 impl Options {
@@ -220,7 +224,9 @@ pub fn solve_analysed(analysis: &mut Analysis, options: &Options) {
                 .unwrap_or(NewtonSettings::default().max_iterations),
             ..NewtonSettings::default()
         };
-        match solve_nonlinear(&analysis.network, settings) {
+        let fresh = FactorCache::default();
+        let cache = options.factor_cache.as_deref().unwrap_or(&fresh);
+        match solve_nonlinear_with(&analysis.network, settings, cache) {
             Ok((t, conv)) => {
                 let mut sol = Solution::new(&analysis.network, t, &analysis.limits);
                 sol.convergence = Some(conv);
@@ -242,7 +248,7 @@ pub fn solve_analysed(analysis: &mut Analysis, options: &Options) {
                 .push(newton_failure(&analysis.network, e)),
         }
     } else {
-        match solve_steady(&analysis.network) {
+        match solve_steady_with(&analysis.network, options.factor_cache.as_deref()) {
             Ok(t) => {
                 analysis.solution = Some(Solution::new(&analysis.network, t, &analysis.limits))
             }

@@ -17,6 +17,7 @@ pub mod elements;
 pub mod eval;
 pub mod expand;
 pub mod export;
+pub mod factor_cache;
 pub mod fluid;
 pub mod format;
 pub mod formula;

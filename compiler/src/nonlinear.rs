@@ -14,11 +14,10 @@
 // split the element API.
 #![allow(clippy::result_large_err)]
 
+use crate::factor_cache::FactorCache;
 use crate::network::{LinkLaw, Network, NodeId};
-use crate::solve::{solve_steady, SolveError, Temperatures};
-use faer::linalg::solvers::Solve;
-use faer::sparse::{SparseColMat, Triplet};
-use faer::Mat;
+use crate::solve::{solve_steady_with, SolveError, Temperatures};
+use faer::sparse::Triplet;
 use serde::Serialize;
 
 /// The heat balance of the free nodes of a network at given temperatures, linearised.
@@ -150,7 +149,18 @@ pub fn solve_nonlinear(
     net: &Network,
     settings: NewtonSettings,
 ) -> Result<(Temperatures, Convergence), NewtonError> {
-    let mut t = initial_guess(net).map_err(NewtonError::Linear)?.0;
+    solve_nonlinear_with(net, settings, &FactorCache::default())
+}
+
+/// Solve a network with nonlinear links, the factorisations sharing the symbolic analysis in
+/// `cache`: every Newton step has the Jacobian pattern of the first (the links and free nodes
+/// never change), and a study's next point usually has it too.
+pub fn solve_nonlinear_with(
+    net: &Network,
+    settings: NewtonSettings,
+    cache: &FactorCache,
+) -> Result<(Temperatures, Convergence), NewtonError> {
+    let mut t = initial_guess(net, cache).map_err(NewtonError::Linear)?.0;
     let mut asm = assemble(net, &t);
     let n = asm.free.len();
     let tolerance =
@@ -177,7 +187,9 @@ pub fn solve_nonlinear(
             });
         }
         iterations += 1;
-        let step = lu_solve(n, &asm.jacobian, &asm.residual).map_err(NewtonError::Linear)?;
+        let step = cache
+            .solve_general(n, &asm.jacobian, &asm.residual)
+            .map_err(NewtonError::Linear)?;
         // Damping: halve the step until the imbalance falls and every temperature stays above
         // absolute zero (radiation and k(T) have no meaning below it).
         let f0 = norm2(&asm.residual);
@@ -246,7 +258,7 @@ fn check_conductivities(net: &Network, t: &[f64]) -> Result<(), NewtonError> {
 }
 
 /// Start from the network linearised at the mean boundary temperature (its links' slopes there).
-fn initial_guess(net: &Network) -> Result<Temperatures, SolveError> {
+fn initial_guess(net: &Network, cache: &FactorCache) -> Result<Temperatures, SolveError> {
     let fixed: Vec<f64> = net.nodes.iter().filter_map(|n| n.fixed).collect();
     let mean = if fixed.is_empty() {
         293.15
@@ -265,25 +277,7 @@ fn initial_guess(net: &Network) -> Result<Temperatures, SolveError> {
             l.law = LinkLaw::Linear { conductance: g };
         }
     }
-    solve_steady(&lin)
-}
-
-/// Solve J·x = b for a general sparse J given by all its entries.
-fn lu_solve(
-    n: usize,
-    entries: &[Triplet<usize, usize, f64>],
-    b: &[f64],
-) -> Result<Vec<f64>, SolveError> {
-    let a = SparseColMat::<usize, f64>::try_new_from_triplets(n, n, entries)
-        .map_err(|_| SolveError::NotPositiveDefinite)?;
-    let lu = a.sp_lu().map_err(|_| SolveError::NotPositiveDefinite)?;
-    let mut x = Mat::<f64>::from_fn(n, 1, |i, _| b[i]);
-    lu.solve_in_place(x.as_mut());
-    let out: Vec<f64> = (0..n).map(|i| x[(i, 0)]).collect();
-    if out.iter().any(|v| !v.is_finite()) {
-        return Err(SolveError::NonFinite);
-    }
-    Ok(out)
+    solve_steady_with(&lin, Some(cache))
 }
 
 /// E502: the nonlinear solve did not converge; never a silent wrong answer.

@@ -2,10 +2,9 @@
 //! Cholesky decomposition (the matrix is symmetric positive definite once every free node has a
 //! path to a fixed temperature, which elaboration checks first).
 
+use crate::factor_cache::FactorCache;
 use crate::network::{Network, NodeId};
-use faer::linalg::solvers::Solve;
-use faer::sparse::{SparseColMat, Triplet};
-use faer::{Mat, Side};
+use faer::sparse::Triplet;
 
 /// Node temperatures of a solved network, in kelvin, indexed like `Network::nodes`.
 #[derive(Clone, Debug)]
@@ -77,6 +76,15 @@ pub fn steady_system(net: &Network) -> SteadySystem {
 
 /// Solve the linear steady network.
 pub fn solve_steady(net: &Network) -> Result<Temperatures, SolveError> {
+    solve_steady_with(net, None)
+}
+
+/// Solve the linear steady network, reusing the symbolic factorisation `cache` holds when the
+/// network has the same pattern as the last one it solved (a study point, another case).
+pub fn solve_steady_with(
+    net: &Network,
+    cache: Option<&FactorCache>,
+) -> Result<Temperatures, SolveError> {
     let mut temps: Vec<f64> = net
         .nodes
         .iter()
@@ -86,7 +94,10 @@ pub fn solve_steady(net: &Network) -> Result<Temperatures, SolveError> {
     if sys.free.is_empty() {
         return Ok(Temperatures(temps));
     }
-    let x = solve_spd(sys.free.len(), &sys.lower, &sys.rhs)?;
+    let x = match cache {
+        Some(c) => c.solve_spd(sys.free.len(), &sys.lower, &sys.rhs)?,
+        None => solve_spd(sys.free.len(), &sys.lower, &sys.rhs)?,
+    };
     for (k, &i) in sys.free.iter().enumerate() {
         temps[i] = x[k];
     }
@@ -100,16 +111,5 @@ pub fn solve_spd(
     lower: &[Triplet<usize, usize, f64>],
     b: &[f64],
 ) -> Result<Vec<f64>, SolveError> {
-    let a = SparseColMat::<usize, f64>::try_new_from_triplets(n, n, lower)
-        .map_err(|_| SolveError::NotPositiveDefinite)?;
-    let llt = a
-        .sp_cholesky(Side::Lower)
-        .map_err(|_| SolveError::NotPositiveDefinite)?;
-    let mut x = Mat::<f64>::from_fn(n, 1, |i, _| b[i]);
-    llt.solve_in_place(x.as_mut());
-    let out: Vec<f64> = (0..n).map(|i| x[(i, 0)]).collect();
-    if out.iter().any(|v| !v.is_finite()) {
-        return Err(SolveError::NonFinite);
-    }
-    Ok(out)
+    crate::factor_cache::solve_spd_once(n, lower, b)
 }

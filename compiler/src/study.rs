@@ -1,11 +1,14 @@
 //! Design studies: one model solved at several parameter values without editing it — a sweep of
 //! one or two parameters over a range, the model's named cases, or both — with every design limit
 //! evaluated at every point, steady or over a transient run. Each point is a fresh analysis with
-//! [`Options::overrides`], so a study sees exactly what `solve` or `run` would for those values.
+//! [`Options::overrides`], so a study sees exactly what `solve` or `run` would for those values; only
+//! the sparse factorisation's symbolic analysis is shared between points (`factor_cache`), which
+//! gives bit-for-bit the answers of fresh ones.
 
 use crate::analysis::{analyze, Analysis, Options};
 use crate::diagnostic::did_you_mean;
 use crate::eval::{Evaluator, NameKinds};
+use crate::factor_cache::FactorCache;
 use crate::limits::{resolve_measure, LimitResult, Measure, Subject};
 use crate::parser::parse_expr;
 use crate::source::SourceLoader;
@@ -16,6 +19,7 @@ use crate::transient::run::{run_transient, Hooks, Record, RunOptions};
 use crate::units::{Quantity, TempKind};
 use serde::Serialize;
 use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::Arc;
 
 /// One swept parameter and its values (SI).
 #[derive(Clone, Debug, Serialize)]
@@ -365,6 +369,9 @@ pub fn run_study(
         .map(|a| a.values.iter().copied().map(Some).collect())
         .unwrap_or_else(|| vec![None]);
     let planned = case_overrides.len() * first.len() * second.len();
+    // Points usually differ only in values, so the sparse factorisation's symbolic analysis is
+    // made once and reused while the pattern stays the same.
+    let factor_cache = Arc::new(FactorCache::default());
     let mut result = StudyResult {
         mode: plan.mode.clone(),
         axes: plan.axes.clone(),
@@ -398,7 +405,10 @@ pub fn run_study(
                     loader,
                     plan,
                     overrides,
-                    hooks.cancel,
+                    Shared {
+                        cancel: hooks.cancel,
+                        factor_cache: &factor_cache,
+                    },
                     &mut result.warnings,
                 );
                 if hooks.cancel.is_some_and(|c| c.load(Ordering::Relaxed)) {
@@ -420,15 +430,26 @@ pub fn run_study(
     Ok(result)
 }
 
+/// What every point of one study shares.
+#[derive(Clone, Copy)]
+struct Shared<'a> {
+    cancel: Option<&'a AtomicBool>,
+    factor_cache: &'a Arc<FactorCache>,
+}
+
 fn point(
     name: &str,
     text: &str,
     loader: &dyn SourceLoader,
     plan: &Plan,
     overrides: Vec<(String, Quantity)>,
-    cancel: Option<&AtomicBool>,
+    shared: Shared,
     warnings: &mut Vec<crate::study_warnings::StudyWarning>,
 ) -> Outcome {
+    let Shared {
+        cancel,
+        factor_cache,
+    } = shared;
     let transient = matches!(plan.mode, Mode::Transient(_));
     let a = analyze(
         name,
@@ -437,6 +458,7 @@ fn point(
         &Options {
             check_only: transient,
             overrides,
+            factor_cache: Some(factor_cache.clone()),
             ..Options::default()
         },
     );
