@@ -76,6 +76,27 @@ impl PErr {
         }
     }
 
+    /// In a batch cut before the next declaration (see `tokens::Batches`), running out of
+    /// tokens means meeting that declaration's first token: say so, as one whole parse would.
+    pub fn found_at_cut(mut self, cx: &Cx) -> PErr {
+        if let (
+            PErr::Expected {
+                span,
+                found: found @ None,
+                line_end: false,
+                ..
+            },
+            Some((tk, next)),
+        ) = (&mut self, cx.next)
+        {
+            if span.start >= next.start {
+                *found = Some(tk);
+                *span = next;
+            }
+        }
+        self
+    }
+
     pub fn into_diagnostic(self, cx: &Cx) -> Diagnostic {
         let (span, found, label, line_end) = match self {
             PErr::Custom(d) => return *d,

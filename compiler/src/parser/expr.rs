@@ -36,7 +36,10 @@ where
 
 /// A name, as an [`Ident`].
 pub fn name<'s>(cx: Cx<'s>, expected: &'static str) -> impl Parser<'s, In<'s>, Ident, Ex> + Clone {
-    tok(Tok::Ident)
+    // A contextual word opening the next line's declaration (`case top`) is that
+    // declaration, not the name this one left out.
+    any()
+        .filter(|t: &Tk| t.kind == Tok::Ident && !t.starts_line_decl)
         .map_with(move |_, e| cx.ident(e.span()))
         .labelled(expected)
 }
@@ -48,7 +51,9 @@ pub fn name_in_entry<'s>(
     expected: &'static str,
 ) -> impl Parser<'s, In<'s>, Ident, Ex> + Clone {
     any()
-        .filter(|t: &Tk| t.kind == Tok::Ident && !(t.first_on_line && t.before_colon))
+        .filter(|t: &Tk| {
+            t.kind == Tok::Ident && !(t.first_on_line && (t.before_colon || t.starts_line_decl))
+        })
         .map_with(move |_, e| cx.ident(e.span()))
         .labelled(expected)
 }

@@ -36,19 +36,41 @@ pub const MAX_EXPR_DEPTH: usize = 100;
 /// block that crosses it is reported once, before the parser goes any deeper.
 pub const MAX_BLOCK_DEPTH: usize = crate::expand::MAX_DEPTH;
 
+/// Tokens the grammar reads at a time (see [`tokens::Batches`]): large enough that building
+/// the grammar once per batch costs nothing, small enough that the token list of a model of a
+/// million nodes is never held whole.
+const BATCH_TOKENS: usize = 1 << 15;
+
 /// Parse one file. Always returns a module (possibly partial) and every syntax error found.
 pub fn parse(text: &str, file: FileId) -> (Module, Vec<Diagnostic>) {
-    let (tokens, comments) = tokens::prepare(text, file);
-    let cx = Cx::new(text, file, &tokens);
-    let mut state = RollbackState(tokens::Depths::default());
-    let (items, errors) = items::module(cx)
-        .parse_with_state(cx.input(), &mut state)
-        .into_output_errors();
-    let diags = errors.into_iter().map(|e| e.into_diagnostic(&cx)).collect();
+    parse_in_batches(text, file, BATCH_TOKENS)
+}
+
+/// [`parse`] with batches of at least `min_tokens` tokens; the result does not depend on it
+/// (compiler/tests/parse_batches.rs checks that on every case file).
+#[doc(hidden)]
+pub fn parse_in_batches(text: &str, file: FileId, min_tokens: usize) -> (Module, Vec<Diagnostic>) {
+    let mut batches = tokens::Batches::new(text, file, min_tokens);
+    let mut items = Vec::new();
+    let mut diags = Vec::new();
+    while let Some((tokens, next)) = batches.next_batch() {
+        let cx = Cx::new(text, file, &tokens, next);
+        let mut state = RollbackState(tokens::Depths::default());
+        let (batch, errors) = items::module(cx)
+            .parse_with_state(cx.input(), &mut state)
+            .into_output_errors();
+        items.extend(batch.unwrap_or_default());
+        diags.extend(
+            errors
+                .into_iter()
+                .map(|e| e.found_at_cut(&cx).into_diagnostic(&cx)),
+        );
+    }
+    items.shrink_to_fit();
     (
         Module {
-            items: items.unwrap_or_default(),
-            comments,
+            items,
+            comments: batches.comments,
         },
         diags,
     )
@@ -58,7 +80,7 @@ pub fn parse(text: &str, file: FileId) -> (Module, Vec<Diagnostic>) {
 /// server).
 pub fn parse_expr(text: &str, file: FileId) -> Result<Expr, Diagnostic> {
     let (tokens, _) = tokens::prepare(text, file);
-    let cx = Cx::new(text, file, &tokens);
+    let cx = Cx::new(text, file, &tokens, None);
     let mut state = RollbackState(tokens::Depths::default());
     let (e, errors) = expr::expr(cx)
         .then_ignore(end().labelled(error::END_OF_EXPRESSION))
@@ -89,12 +111,20 @@ pub(crate) struct Cx<'s> {
     pub text: &'s str,
     pub file: FileId,
     pub tokens: &'s [(Tk, Span)],
-    /// Where "the end of the file" is reported: after the last token.
+    /// Where "the end of the file" is reported: after the last token; in a batch that is not
+    /// the file's last, the token after the batch (see [`tokens::Batches`]).
     pub eof: Span,
+    /// The token after the batch, when the batch is not the file's last.
+    pub next: Option<(Tk, Span)>,
 }
 
 impl<'s> Cx<'s> {
-    fn new(text: &'s str, file: FileId, tokens: &'s [(Tk, Span)]) -> Cx<'s> {
+    fn new(
+        text: &'s str,
+        file: FileId,
+        tokens: &'s [(Tk, Span)],
+        next: Option<(Tk, Span)>,
+    ) -> Cx<'s> {
         // After the last token, not after trailing comments: that is where a declaration left
         // unfinished stops.
         let end = tokens.last().map_or(0, |(_, s)| s.end as usize);
@@ -102,7 +132,8 @@ impl<'s> Cx<'s> {
             text,
             file,
             tokens,
-            eof: Span::new(file, end, end),
+            eof: next.map_or(Span::new(file, end, end), |(_, s)| s),
+            next,
         }
     }
 

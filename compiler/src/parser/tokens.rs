@@ -84,18 +84,62 @@ pub struct Depths {
 
 /// Lex `text`, set the comments aside and annotate every other token.
 pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
-    let mut comments = Vec::new();
-    // One vector, filled straight from the lexer and then annotated in place: the token list
-    // is the parser's largest allocation after the tree (a 17 MB model has 3.4 million).
-    let mut out: Vec<(Tk, Span)> = Vec::with_capacity(text.len() / 6);
-    let mut prev_end = 0usize;
-    for t in tokens(text, file) {
-        if t.kind == Tok::Comment {
-            comments.push(t.span);
-            continue;
+    let mut batches = Batches::new(text, file, usize::MAX);
+    let (tokens, _) = batches.next_batch().unwrap_or_default();
+    (tokens, batches.comments)
+}
+
+/// The file's tokens in batches of at least `min_tokens`, each ending just before a
+/// declaration that begins a line outside every `{ }`: the grammar reads each batch on its
+/// own, so the token list of a large model is never held whole (a 17 MB model has 3.4 million
+/// tokens). Such a cut is where recovery would resume anyway, and the token after the cut is
+/// handed along so that a declaration left unfinished before it is reported as it would be in
+/// one piece ("found `node`", not "the end of the file").
+pub struct Batches<'t> {
+    text: &'t str,
+    lexer: Box<dyn Iterator<Item = crate::lexer::Token> + 't>,
+    buf: Vec<(Tk, Span)>,
+    /// Comments met so far, in file order.
+    pub comments: Vec<Span>,
+    prev_end: usize,
+    /// Open `{` before the last token read, and before the one before it.
+    depth: usize,
+    depth_before_last: usize,
+    depth_before_prev: usize,
+    min_tokens: usize,
+    done: bool,
+}
+
+impl<'t> Batches<'t> {
+    pub fn new(text: &'t str, file: FileId, min_tokens: usize) -> Batches<'t> {
+        Batches {
+            text,
+            lexer: Box::new(tokens(text, file)),
+            buf: Vec::new(),
+            comments: Vec::new(),
+            prev_end: 0,
+            depth: 0,
+            depth_before_last: 0,
+            depth_before_prev: 0,
+            min_tokens: min_tokens.max(1),
+            done: false,
         }
-        let first_on_line = out.is_empty() || text[prev_end..t.span.start as usize].contains('\n');
-        prev_end = t.span.end as usize;
+    }
+
+    /// The next token that is not a comment, with the facts known without looking ahead.
+    fn next_token(&mut self) -> Option<(Tk, Span)> {
+        let t = loop {
+            let t = self.lexer.next()?;
+            if t.kind == Tok::Comment {
+                self.comments.push(t.span);
+            } else {
+                break t;
+            }
+        };
+        let text = self.text;
+        let first_on_line =
+            self.prev_end == 0 || text[self.prev_end..t.span.start as usize].contains('\n');
+        self.prev_end = t.span.end as usize;
         let word = if t.kind == Tok::Ident {
             let s = &text[t.span.range()];
             if DECLARATION_WORDS.contains(&s) {
@@ -108,7 +152,7 @@ pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
         } else {
             Word::Plain
         };
-        out.push((
+        Some((
             Tk {
                 kind: t.kind,
                 first_on_line,
@@ -122,22 +166,69 @@ pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
                 misspelt: None,
             },
             t.span,
-        ));
+        ))
     }
-    merge_build_up(text, &mut out);
+
+    /// The next batch and the token after it (`None` after the last batch). The first batch
+    /// of an empty file is empty.
+    pub fn next_batch(&mut self) -> Option<(Vec<(Tk, Span)>, Option<(Tk, Span)>)> {
+        if self.done {
+            return None;
+        }
+        loop {
+            let Some(t) = self.next_token() else {
+                self.done = true;
+                let mut batch = std::mem::take(&mut self.buf);
+                merge_build_up(self.text, &mut batch);
+                annotate(self.text, &mut batch, None);
+                return Some((batch, None));
+            };
+            self.depth_before_prev = self.depth_before_last;
+            self.depth_before_last = self.depth;
+            match t.0.kind {
+                Tok::LBrace => self.depth += 1,
+                Tok::RBrace => self.depth = self.depth.saturating_sub(1),
+                _ => {}
+            }
+            self.buf.push(t);
+            // The token before the one just read can now be judged: it needs its successor.
+            let n = self.buf.len();
+            if n < 2 || n - 2 < self.min_tokens || self.depth_before_prev != 0 {
+                continue;
+            }
+            let (cand, next) = (self.buf[n - 2].0, self.buf[n - 1].0);
+            if !(cand.first_on_line && opens_declaration(&cand, Some(next.kind))) {
+                continue;
+            }
+            let rest = self.buf.split_off(n - 2);
+            let mut batch = std::mem::replace(&mut self.buf, rest);
+            merge_build_up(self.text, &mut batch);
+            annotate(self.text, &mut batch, Some(cand.kind));
+            annotate(self.text, &mut self.buf[..1], Some(next.kind));
+            self.buf.reserve(self.min_tokens.min(1 << 16));
+            return Some((batch, Some(self.buf[0])));
+        }
+    }
+}
+
+/// Whether `t` opens a declaration, given the kind of the token after it.
+fn opens_declaration(t: &Tk, next: Option<Tok>) -> bool {
+    if t.kind.starts_item() {
+        next != Some(Tok::Eq)
+    } else {
+        // A contextual word opens a declaration at the start of a line, before a name (a
+        // stray `network notes` mid-line is not one).
+        t.kind == Tok::Ident && next == Some(Tok::Ident) && t.first_on_line && t.word != Word::Plain
+    }
+}
+
+/// Work out what each token needs to know about its neighbours; `after` is the kind of the
+/// token that follows the slice, if any.
+fn annotate(text: &str, out: &mut [(Tk, Span)], after: Option<Tok>) {
     for i in 0..out.len() {
-        let next = out.get(i + 1).map(|(n, _)| n.kind);
+        let next = out.get(i + 1).map(|(n, _)| n.kind).or(after);
         let (t, span) = &mut out[i];
-        t.starts_decl = if t.kind.starts_item() {
-            next != Some(Tok::Eq)
-        } else {
-            // A contextual word opens a declaration at the start of a line, before a name (a
-            // stray `network notes` mid-line is not one).
-            t.kind == Tok::Ident
-                && next == Some(Tok::Ident)
-                && t.first_on_line
-                && t.word != Word::Plain
-        };
+        t.starts_decl = opens_declaration(t, next);
         t.starts_line_decl = t.starts_decl && t.first_on_line;
         t.before_colon = next == Some(Tok::Colon);
         t.before_paren = next == Some(Tok::LParen);
@@ -152,7 +243,6 @@ pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
             t.misspelt = misspelt_word(&text[span.range()]);
         }
     }
-    (out, comments)
 }
 
 /// `build-up` written with a hyphen at the start of a line lexes as `build - up`; make it one
