@@ -89,6 +89,9 @@ pub fn prepare(text: &str, file: FileId) -> (Vec<(Tk, Span)>, Vec<Span>) {
     (tokens, batches.comments)
 }
 
+/// One batch of tokens and the token after it, if the file goes on.
+pub type Batch = (Vec<(Tk, Span)>, Option<(Tk, Span)>);
+
 /// The file's tokens in batches of at least `min_tokens`, each ending just before a
 /// declaration that begins a line outside every `{ }`: the grammar reads each batch on its
 /// own, so the token list of a large model is never held whole (a 17 MB model has 3.4 million
@@ -171,7 +174,7 @@ impl<'t> Batches<'t> {
 
     /// The next batch and the token after it (`None` after the last batch). The first batch
     /// of an empty file is empty.
-    pub fn next_batch(&mut self) -> Option<(Vec<(Tk, Span)>, Option<(Tk, Span)>)> {
+    pub fn next_batch(&mut self) -> Option<Batch> {
         if self.done {
             return None;
         }
